@@ -1,0 +1,6 @@
+namespace Emit.Cli;
+
+public static class Program
+{
+    public static int Main(string[] args) => CliApp.Run(args, Console.Out, Console.Error);
+}

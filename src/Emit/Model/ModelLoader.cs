@@ -1,0 +1,12 @@
+namespace Emit.Model;
+
+/// <summary>Loads a model from a <c>.json</c> model file or an <c>.npz</c> array archive, chosen by extension.</summary>
+public static class ModelLoader
+{
+    public static BoltzmannModel Load(string path)
+    {
+        if (path.EndsWith(".npz", StringComparison.OrdinalIgnoreCase))
+            return NpzModelReader.Read(path);
+        return ModelJson.Read(path);
+    }
+}
