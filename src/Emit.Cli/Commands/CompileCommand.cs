@@ -1,0 +1,94 @@
+using System.CommandLine;
+using Emit.Emission;
+using Emit.Model;
+
+namespace Emit.Cli.Commands;
+
+/// <summary><c>emit compile MODEL</c>: writes C99 and/or C# free-energy scorers for a model.</summary>
+public sealed class CompileCommand : ICliCommand
+{
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL")
+    {
+        Description = "Model file (.json or .npz)",
+    }.AcceptExistingOnly();
+
+    private readonly Option<string> _target = new("--target")
+    {
+        Description = $"Output languages, comma-separated: {Targets.NameList}",
+        DefaultValueFactory = _ => "c",
+    };
+
+    private readonly Option<string> _numeric = new("--numeric")
+    {
+        Description = "Arithmetic of the generated scorer: f32 or f64",
+        DefaultValueFactory = _ => "f32",
+    };
+
+    private readonly Option<string?> _name = new("--name")
+    {
+        Description = "Scorer name, a C identifier (default: from the model file name); files are NAME.h, NAME.c, NAME.cs",
+    };
+
+    private readonly Option<string> _namespace = new("--namespace")
+    {
+        Description = "Namespace of the generated C# class",
+        DefaultValueFactory = _ => CompileOptions.DefaultNamespace,
+    };
+
+    private readonly Option<string> _out = new("--out")
+    {
+        Description = "Output folder",
+        DefaultValueFactory = _ => "out",
+    };
+
+    private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates")
+    {
+        Description = "Folder whose c/ and csharp/ sub-folders override shipped templates file by file",
+    }.AcceptExistingOnly();
+
+    private readonly Option<int> _selfTest = new("--selftest-vectors")
+    {
+        Description = $"Number of inputs embedded for the self-test (1 to {CompileOptions.MaxSelfTestVectors})",
+        DefaultValueFactory = _ => CompileOptions.DefaultSelfTestVectors,
+    };
+
+    private readonly Option<bool> _force = new("--force")
+    {
+        Description = "Overwrite files in the output folder even when emit did not generate them",
+    };
+
+    public Command Build(CliContext ctx)
+    {
+        var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
+        cmd.Arguments.Add(_model);
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _force })
+            cmd.Options.Add(option);
+        cmd.SetAction(parse => Run(ctx,
+            parse.GetValue(_model)!.FullName,
+            parse.GetValue(_target)!,
+            parse.GetValue(_numeric)!,
+            parse.GetValue(_name),
+            parse.GetValue(_namespace)!,
+            parse.GetValue(_out)!,
+            parse.GetValue(_templates)?.FullName,
+            parse.GetValue(_selfTest),
+            parse.GetValue(_force)));
+        return cmd;
+    }
+
+    private static int Run(CliContext ctx, string modelPath, string target, string numeric, string? name, string ns,
+        string outDir, string? templates, int selfTest, bool force)
+    {
+        var mode = NumericModeNames.Parse(numeric)
+                   ?? throw new EmitException($"--numeric {Naming.CommentText(numeric)} is unknown", "use f32 or f64");
+        var targets = target.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries);
+        name ??= Naming.ScorerNameFromFile(modelPath);
+        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates);
+        Naming.CheckScorerName(name);
+        var model = ModelLoader.Load(modelPath);
+        var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);
+        foreach (var path in OutputFolder.Write(outDir, files, force))
+            ctx.Out.WriteLine($"wrote {path}");
+        return CliApp.Ok;
+    }
+}

@@ -1,0 +1,32 @@
+namespace Emit.Emission;
+
+/// <summary>
+/// What <c>emit compile</c> was asked for. <see cref="Name"/> must already be a valid C identifier
+/// (see <see cref="Naming.CheckScorerName"/>). <see cref="TemplatesDirectory"/> is a folder whose
+/// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file.
+/// </summary>
+public sealed record CompileOptions(
+    IReadOnlyList<string> Targets,
+    NumericMode Numeric,
+    string Name,
+    string Namespace = CompileOptions.DefaultNamespace,
+    int SelfTestVectors = CompileOptions.DefaultSelfTestVectors,
+    string? TemplatesDirectory = null)
+{
+    public const string DefaultNamespace = "Emit.Generated";
+    public const int DefaultSelfTestVectors = 8;
+    public const int MaxSelfTestVectors = 4096;
+
+    /// <summary>
+    /// The options as they appear in every generated file's banner. Paths are left out (they differ between
+    /// machines and would break byte-identical regeneration); a template override is noted as such.
+    /// </summary>
+    public string BannerText(string target)
+    {
+        var text = $"--target {target} --numeric {Numeric.ToText()} --name {Name}";
+        if (target == "csharp") text += $" --namespace {Namespace}";
+        text += $" --selftest-vectors {SelfTestVectors}";
+        if (TemplatesDirectory is not null) text += " --templates (custom)";
+        return text;
+    }
+}

@@ -1,0 +1,35 @@
+namespace Emit.Emission;
+
+/// <summary>The arithmetic a generated scorer uses.</summary>
+public enum NumericMode
+{
+    /// <summary>IEEE 754 binary64 (<c>double</c>).</summary>
+    F64,
+    /// <summary>IEEE 754 binary32 (<c>float</c>).</summary>
+    F32,
+    /// <summary>Integer-only arithmetic with a proven error bound (not implemented yet).</summary>
+    Fixed,
+}
+
+/// <summary>Text forms of <see cref="NumericMode"/> as used on the command line and in generated banners.</summary>
+public static class NumericModeNames
+{
+    public static string ToText(this NumericMode mode) => mode switch
+    {
+        NumericMode.F64 => "f64",
+        NumericMode.F32 => "f32",
+        NumericMode.Fixed => "fixed",
+        _ => throw new ArgumentOutOfRangeException(nameof(mode)),
+    };
+
+    public static NumericMode? Parse(string text) => text switch
+    {
+        "f64" => NumericMode.F64,
+        "f32" => NumericMode.F32,
+        "fixed" => NumericMode.Fixed,
+        _ => null,
+    };
+
+    /// <summary>True for the floating-point modes.</summary>
+    public static bool IsFloat(this NumericMode mode) => mode is NumericMode.F64 or NumericMode.F32;
+}

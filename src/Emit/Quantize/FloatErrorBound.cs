@@ -1,0 +1,153 @@
+using Emit.Emission;
+using Emit.Model;
+using Emit.Reference;
+
+namespace Emit.Quantize;
+
+/// <summary>
+/// A bound on |F_computed(v) − F_exact(v)| for the generated floating-point scorers, by forward error analysis.
+/// Sources: Higham, "Accuracy and Stability of Numerical Algorithms" (2nd ed., 2002): §2.2 model
+/// fl(x op y) = (x op y)(1 + δ), |δ| &lt;= u; Lemma 3.1 and §4.2, recursive summation of n terms has error
+/// &lt;= γ_(n−1) Σ|x_i| with γ_n = n·u/(1 − n·u); §4.2 pairwise summation of 2^k terms has error &lt;= γ_k Σ|x_i|.
+/// The terms:
+/// <list type="number">
+/// <item>Each stored coefficient is the nearest value of the mode: relative error &lt;= u.</item>
+/// <item>Pre-activation a_j = c_j + Σ_(i on) W_ij, summed left to right: (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active units.</item>
+/// <item>softplus is 1-Lipschitz (its derivative is the logistic function), so an input error passes through at most unchanged.</item>
+/// <item>softplus(x) = max(x,0) + log1p(exp(−|x|)) with exp and log1p each within <see cref="LibmUlps"/> ulps (relative
+/// error A = LibmUlps·2u): error &lt;= A·(t + log1p t) + u·softplus(x), t = exp(−|x|) &lt;= 1. The allowance is ours
+/// (common practice): glibc's manual lists at most 1–2 ulps for expf/exp/log1pf/log1p/logf/log on x86-64, and the
+/// generated C# computes log1p as log(u)·x/(u − 1) (Goldberg 1991, Theorem 4: within 5u when log is within ½ ulp).</item>
+/// <item>The final F = −linear − Σ_j softplus_j, H subtractions: γ_H·(|linear| + Σ softplus_j).</item>
+/// <item>general: log Σ_h exp(s(h)) is 1-Lipschitz in every s(h) (max norm) and its gradient in a sums to at most H,
+/// so pre-activation errors add; the running Gray-code scores carry at most <see cref="GrayScoreRoundings"/> roundings
+/// of quantities bounded by S = Σ|a_j| + Σ|M_kl|; exp(s − max) is within A relative, the pairwise sum of 2^H terms
+/// within γ_H, log within A, and the final additions within u each.</item>
+/// </list>
+/// First-order terms are summed; the second-order remainder is covered by the factor (1 + 2γ_n) for the largest n used.
+/// </summary>
+public static class FloatErrorBound
+{
+    /// <summary>Allowance for exp, log and log1p of the C library or .NET, in units in the last place.</summary>
+    public const double LibmUlps = 8;
+
+    /// <summary>Log2 of the Gray-code block the generated general-model code recomputes scores at (see templates).</summary>
+    public static int GrayBlockBits(int hidden) => Math.Min(hidden, 4);
+
+    /// <summary>Unit roundoff u of a float mode: 2^−24 for f32, 2^−53 for f64.</summary>
+    public static double UnitRoundoff(NumericMode mode) => mode switch
+    {
+        NumericMode.F32 => Math.ScaleB(1.0, -24),
+        NumericMode.F64 => Math.ScaleB(1.0, -53),
+        _ => throw new ArgumentOutOfRangeException(nameof(mode), "float modes only"),
+    };
+
+    /// <summary>γ_n = n·u/(1 − n·u) (Higham §3.1); infinite when n·u &gt;= 1.</summary>
+    public static double Gamma(long n, double u) => n * u >= 1 ? double.PositiveInfinity : n * u / (1 - n * u);
+
+    /// <summary>
+    /// Roundings in the derivation of one Gray-code score in the generated general-model code, for H hidden units and
+    /// blocks of 2^B states: a fresh score (H + H(H−1)/2 additions), fresh fields (H − 1 each), then per step one
+    /// addition of a field that has itself been updated at most once per earlier step.
+    /// </summary>
+    public static long GrayScoreRoundings(int hidden, int blockBits)
+    {
+        long h = hidden, t = (1L << blockBits) - 1;
+        return h + h * (h - 1) / 2 + t * h + t * (t - 1) / 2;
+    }
+
+    /// <summary>The bound for one input (one byte per unit, nonzero = on).</summary>
+    public static double ForVector(BoltzmannModel model, NumericMode mode, ReadOnlySpan<byte> units) =>
+        Compute(model, UnitRoundoff(mode), units.ToArray(), GrayBlockBits(model.Hidden), pairwise: true);
+
+    /// <summary>The bound over every input: the largest term sums, all units on.</summary>
+    public static double Worst(BoltzmannModel model, NumericMode mode) =>
+        Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true);
+
+    /// <summary>
+    /// A bound on the error of <see cref="ReferenceScorer"/> itself (double precision; general models summed in
+    /// blocks of 2^14 states with running rescaling), so a tolerance can allow for the expected value's own error.
+    /// </summary>
+    public static double Reference(BoltzmannModel model, ReadOnlySpan<byte> units) =>
+        Compute(model, UnitRoundoff(NumericMode.F64), units.ToArray(), Math.Min(model.Hidden, 14), pairwise: false);
+
+    private static double Compute(BoltzmannModel m, double u, byte[]? units, int blockBits, bool pairwise)
+    {
+        int v = m.Visible, h = m.Hidden;
+        double a = LibmUlps * 2 * u;
+        bool On(int i) => units is null || units[i] != 0;
+        int k = 0;
+        for (int i = 0; i < v; i++) if (On(i)) k++;
+
+        // linear part: b_i over active units, then L_ij over active pairs
+        double linAbs = 0, lin = 0;
+        long linTerms = 0;
+        for (int i = 0; i < v; i++)
+            if (On(i)) { linAbs += Math.Abs(m.VisibleBias[i]); lin += m.VisibleBias[i]; linTerms++; }
+        foreach (var l in m.VisibleLinks)
+            if (On(l.I) && On(l.J)) { linAbs += Math.Abs(l.W); lin += l.W; linTerms++; }
+        double linErr = (u + Gamma(linTerms, u) * (1 + u)) * linAbs;
+        double linMag = units is null ? linAbs : Math.Abs(lin);
+        long nMax = Math.Max(linTerms, k);
+
+        // pre-activations
+        var aErr = new double[h];
+        var aMag = new double[h];   // bound on |a_j|
+        var aMax = new double[h];   // bound on a_j from above
+        double gk = Gamma(k, u);
+        for (int j = 0; j < h; j++)
+        {
+            double abs = Math.Abs(m.HiddenBias[j]), sum = m.HiddenBias[j], top = m.HiddenBias[j];
+            for (int i = 0; i < v; i++)
+            {
+                if (!On(i)) continue;
+                double w = m.Weight(i, j);
+                abs += Math.Abs(w);
+                sum += w;
+                top += Math.Max(0, w);
+            }
+            aErr[j] = (u + gk * (1 + u)) * abs;
+            aMag[j] = units is null ? abs : Math.Abs(sum);
+            aMax[j] = units is null ? top : sum;
+        }
+
+        double total;
+        if (m.Kind != ModelKind.General)
+        {
+            double spSum = 0, spErr = 0;
+            for (int j = 0; j < h; j++)
+            {
+                double sp = Softplus.Of(aMax[j] + aErr[j]);
+                double t = units is null ? 1.0 : Math.Exp(-Math.Max(0, Math.Abs(aMax[j]) - aErr[j]));
+                spErr += aErr[j] + a * (t + Math.Log(1 + t)) + u * sp;
+                spSum += sp;
+            }
+            total = linErr + spErr + Gamma(h, u) * (linMag + linErr + spSum + spErr);
+            nMax = Math.Max(nMax, h);
+        }
+        else if (h == 0)
+        {
+            total = linErr;
+        }
+        else
+        {
+            double mAbs = 0;
+            foreach (var l in m.HiddenLinks) mAbs += Math.Abs(l.W);
+            double s = mAbs * (1 + u);
+            double aErrSum = 0;
+            for (int j = 0; j < h; j++) { s += aMag[j] + aErr[j]; aErrSum += aErr[j]; }
+            long roundings = GrayScoreRoundings(h, blockBits);
+            double scoreErr = roundings * u * s;
+            // relative error of the sum of exp(s - max): exp within A, the subtraction within u·|s − max| <= 2u·S
+            // (taken as a score error below), the summation within γ_H (pairwise) or, summed in order with a
+            // rescale per term, 2^H·(A + 2u).
+            double rho = pairwise ? a + Gamma(h, u) : a + Gamma(1L << h, u) + (1L << h) * (a + 2 * u);
+            double logSumErr = rho / (1 - rho);
+            double lseMag = s + h * Math.Log(2);
+            total = linErr + aErrSum + u * mAbs + scoreErr + 2 * u * s + logSumErr
+                    + a * (h * Math.Log(2) + logSumErr) + u * lseMag + u * (linMag + linErr + lseMag + scoreErr);
+            nMax = Math.Max(nMax, roundings);
+        }
+        return total * (1 + 2 * Gamma(nMax, u));
+    }
+}
