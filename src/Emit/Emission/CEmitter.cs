@@ -119,6 +119,7 @@ public sealed class CEmitter : ITargetEmitter
             ErrorBound = Literals.Upward(plan.ErrorBound, NumericMode.F64),
             GrayBlockBits = blockBits,
             GrayBlockSize = TableText.Int(1L << blockBits) + "u",
+            GrayBlockStates = 1 << blockBits,
             GrayBlocks = TableText.Int(1L << (plan.Hidden - blockBits)) + "u",
             VisibleBiasRows = Trim(visibleBias.ToString()),
             HiddenBiasRows = Trim(TableText.Wrap(plan.HiddenBias.Select(L).ToArray(), 6, "    ")),

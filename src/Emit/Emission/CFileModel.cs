@@ -39,6 +39,7 @@ public sealed class CFileModel
 
     public required int GrayBlockBits { get; init; }
     public required string GrayBlockSize { get; init; }
+    public required int GrayBlockStates { get; init; }
     public required string GrayBlocks { get; init; }
 
     public required string VisibleBiasRows { get; init; }
