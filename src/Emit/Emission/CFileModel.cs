@@ -15,9 +15,9 @@ public sealed class CFileModel
 
     public required string EnergyType { get; init; }
     public required string Zero { get; init; }
+    public required string One { get; init; }
     public required string Exp { get; init; }
     public required string Log { get; init; }
-    public required string Log1p { get; init; }
     public required string Fabs { get; init; }
     public required string IndexType { get; init; }
     public required string LinkStartType { get; init; }

@@ -12,7 +12,7 @@ public sealed class CSharpEmitter : ITargetEmitter
     public static readonly IReadOnlySet<string> ClassMembers = new HashSet<string>(StringComparer.Ordinal)
     {
         "Visible", "Hidden", "PackedBytes", "EnergyScale", "Threshold", "ErrorBound", "ModelSha256", "SelfTestVectors",
-        "FreeEnergy", "FreeEnergyUnits", "IsUnusual", "SelfTest", "Units", "Softplus", "Log1P", "HiddenWalk",
+        "FreeEnergy", "FreeEnergyUnits", "IsUnusual", "SelfTest", "Units", "Softplus", "HiddenWalk",
         "HiddenLogSumExp", "VisibleBiasTable", "HiddenBiasTable", "WeightTable", "LinkStartTable", "LinkOtherTable",
         "LinkWeightTable", "HiddenPairTable", "SelfTestInputTable", "SelfTestExpectedTable", "SelfTestToleranceTable",
     };

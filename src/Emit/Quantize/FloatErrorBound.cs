@@ -12,12 +12,14 @@ namespace Emit.Quantize;
 /// The terms:
 /// <list type="number">
 /// <item>Each stored coefficient is the nearest value of the mode: relative error &lt;= u.</item>
-/// <item>Pre-activation a_j = c_j + Σ_(i on) W_ij, summed left to right: (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active units.</item>
+/// <item>Pre-activation a_j = c_j + Σ_(i on) W_ij, summed in an order where each term meets at most k roundings (the
+/// generated code adds rows two at a time, acc += row1 + row2): (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active units.</item>
 /// <item>softplus is 1-Lipschitz (its derivative is the logistic function), so an input error passes through at most unchanged.</item>
-/// <item>softplus(x) = max(x,0) + log1p(exp(−|x|)) with exp and log1p each within <see cref="LibmUlps"/> ulps (relative
-/// error A = LibmUlps·2u): error &lt;= A·(t + log1p t) + u·softplus(x), t = exp(−|x|) &lt;= 1. The allowance is ours
-/// (common practice): glibc's manual lists at most 1–2 ulps for expf/exp/log1pf/log1p/logf/log on x86-64, and the
-/// generated C# computes log1p as log(u)·x/(u − 1) (Goldberg 1991, Theorem 4: within 5u when log is within ½ ulp).</item>
+/// <item>softplus(x) = max(x,0) + log(1 + exp(−|x|)) with exp and log each within <see cref="LibmUlps"/> ulps (relative
+/// error A = LibmUlps·2u): with t = exp(−|x|) &lt;= 1, exp's error moves log(1 + t) by at most A·t, rounding 1 + t by at
+/// most u (the argument lies in [1, 2]), log's own error is at most A·ln 2 (plus A·u), and the final addition
+/// u·softplus(x). The allowance is ours (common practice): the glibc manual's table of known maximum errors lists at
+/// most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
 /// <item>The final F = −linear − Σ_j softplus_j, H subtractions: γ_H·(|linear| + Σ softplus_j).</item>
 /// <item>general: log Σ_h exp(s(h)) is 1-Lipschitz in every s(h) (max norm) and its gradient in a sums to at most H,
 /// so pre-activation errors add; the running Gray-code scores carry at most <see cref="GrayScoreRoundings"/> roundings
@@ -28,7 +30,7 @@ namespace Emit.Quantize;
 /// </summary>
 public static class FloatErrorBound
 {
-    /// <summary>Allowance for exp, log and log1p of the C library or .NET, in units in the last place.</summary>
+    /// <summary>Allowance for exp and log of the C library or .NET, in units in the last place.</summary>
     public const double LibmUlps = 8;
 
     /// <summary>Log2 of the Gray-code block the generated general-model code recomputes scores at (see templates).</summary>
@@ -119,7 +121,7 @@ public static class FloatErrorBound
             {
                 double sp = Softplus.Of(aMax[j] + aErr[j]);
                 double t = units is null ? 1.0 : Math.Exp(-Math.Max(0, Math.Abs(aMax[j]) - aErr[j]));
-                spErr += aErr[j] + a * (t + Math.Log(1 + t)) + u * sp;
+                spErr += aErr[j] + a * t + u + a * (Math.Log(2) + u) + u * sp;
                 spSum += sp;
             }
             total = linErr + spErr + Gamma(h, u) * (linMag + linErr + spSum + spErr);

@@ -165,13 +165,15 @@ static small_general_energy_t small_general_hidden_log_sum_exp(const small_gener
 /*
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - log sum_h exp(a.h + sum_{k<l} M_kl h_k h_l), a = c + sum_{i on} W_i.
  * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first) the
- * unit's bias joins the linear sum and its weight row is added to the pre-activations.
+ * unit's bias joins the linear sum and its weight row is added to the pre-activations, two rows at a time
+ * (acc += row1 + row2 halves the loads and stores of the accumulators).
  * Accuracy: |result - exact F| <= SMALL_GENERAL_ERROR_BOUND nats for every input (see the emit documentation).
  */
 small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENERAL_PACKED_BYTES])
 {
     small_general_energy_t linear = 0.0f;
     small_general_energy_t acc[SMALL_GENERAL_HIDDEN];
+    const small_general_energy_t *pending = 0; /* a row waiting for a partner: rows are added two at a time */
     uint_fast16_t j;
     uint_fast16_t byte_index;
     for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
@@ -191,13 +193,18 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
                     if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) linear += small_general_link_weight[n];
                 }
             }
-            {
+            if (pending == 0) {
+                pending = small_general_weights[i];
+            } else {
                 const small_general_energy_t *row = small_general_weights[i];
-                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += row[j];
+                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j] + row[j];
+                pending = 0;
             }
             bits &= bits - 1u;
         }
     }
+    if (pending != 0)
+        for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j];
     return -(linear + small_general_hidden_log_sum_exp(acc));
 }
 

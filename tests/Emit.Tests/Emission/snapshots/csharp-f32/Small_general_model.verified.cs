@@ -47,6 +47,7 @@ namespace Emit.Generated
             global::System.ReadOnlySpan<float> weights = WeightTable;
             global::System.Span<float> acc = stackalloc float[Hidden];
             HiddenBiasTable.CopyTo(acc);
+            int pending = -1; // a row waiting for a partner: rows are added two at a time
             global::System.ReadOnlySpan<int> linkStart = LinkStartTable;
             global::System.ReadOnlySpan<int> linkOther = LinkOtherTable;
             global::System.ReadOnlySpan<float> linkWeight = LinkWeightTable;
@@ -66,10 +67,24 @@ namespace Emit.Generated
                         int other = linkOther[n];
                         if (((packed[other >> 3] >> (other & 7)) & 1) != 0) linear += linkWeight[n];
                     }
-                    global::System.ReadOnlySpan<float> row = weights.Slice(i * Hidden, Hidden);
-                    for (int j = 0; j < Hidden; j++) acc[j] += row[j];
+                    if (pending < 0)
+                    {
+                        pending = i;
+                    }
+                    else
+                    {
+                        global::System.ReadOnlySpan<float> first = weights.Slice(pending * Hidden, Hidden);
+                        global::System.ReadOnlySpan<float> row = weights.Slice(i * Hidden, Hidden);
+                        for (int j = 0; j < Hidden; j++) acc[j] += first[j] + row[j];
+                        pending = -1;
+                    }
                     bits &= bits - 1u;
                 }
+            }
+            if (pending >= 0)
+            {
+                global::System.ReadOnlySpan<float> last = weights.Slice(pending * Hidden, Hidden);
+                for (int j = 0; j < Hidden; j++) acc[j] += last[j];
             }
             return -(linear + HiddenLogSumExp(acc));
         }
