@@ -3,6 +3,7 @@ using System.Globalization;
 using System.Text;
 using System.Text.Json;
 using Emit.Model;
+using Emit.Reference;
 
 namespace Emit.Demo;
 
@@ -68,11 +69,14 @@ public static class DemoData
     }
 
     /// <summary>Builds the demo data and writes its four files into <paramref name="folder"/> (created if missing); returns their paths.</summary>
-    public static IReadOnlyList<string> WriteAll(string folder)
+    public static IReadOnlyList<string> WriteAll(string folder) => Write(Build(), folder);
+
+    /// <summary>Writes the four files of <paramref name="data"/> into <paramref name="folder"/>, each atomically; returns their paths.</summary>
+    public static IReadOnlyList<string> Write(DemoDataSet data, string folder)
     {
         ArgumentException.ThrowIfNullOrEmpty(folder);
         var written = new List<string>();
-        foreach (var (name, text) in Render(Build()))
+        foreach (var (name, text) in Render(data))
         {
             var path = Path.Combine(folder, name);
             AtomicFile.WriteAllText(path, text);
@@ -88,26 +92,11 @@ public static class DemoData
     /// </summary>
     internal static double Calibrate(BoltzmannModel model, IReadOnlyList<ReeferRow> calibration)
     {
-        var energies = calibration.Select(r => FreeEnergy(model, r.Flags.AsSpan())).Order().ToArray();
+        var scorer = new ReferenceScorer(model);
+        var energies = calibration.Select(r => scorer.FreeEnergy(r.Flags.AsSpan())).Order().ToArray();
         int rank = (int)Math.Ceiling(ThresholdQuantile * energies.Length);
         double q = energies[Math.Clamp(rank, 1, energies.Length) - 1];
         return Math.Ceiling(q * 1000) / 1000;
-    }
-
-    // TEMPORARY until Emit.Reference.ReferenceScorer lands on main: F(v) = -b·v - Σ_j softplus(c_j + Σ_i v_i W_ij).
-    internal static double FreeEnergy(BoltzmannModel m, ReadOnlySpan<byte> v)
-    {
-        double f = 0;
-        var x = m.HiddenBias.ToArray();
-        for (int i = 0; i < m.Visible; i++)
-        {
-            if (v[i] == 0) continue;
-            f -= m.VisibleBias[i];
-            var row = m.WeightRow(i);
-            for (int j = 0; j < m.Hidden; j++) x[j] += row[j];
-        }
-        foreach (var a in x) f -= a > 33.3 ? a : a > 18 ? a + Math.Exp(-a) : a > -37 ? double.LogP1(Math.Exp(a)) : Math.Exp(a);
-        return f;
     }
 
     private static ImmutableArray<ReeferRow> Draw(ReeferFleetGenerator g, int count, bool faulty)

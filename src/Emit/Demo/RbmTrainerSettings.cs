@@ -10,7 +10,7 @@ public sealed record RbmTrainerSettings
     public int Hidden { get; init; } = 16;
 
     /// <summary>Passes over the training rows.</summary>
-    public int Epochs { get; init; } = 40;
+    public int Epochs { get; init; } = 100;
 
     /// <summary>Rows per parameter update.</summary>
     public int BatchSize { get; init; } = 20;
@@ -19,7 +19,7 @@ public sealed record RbmTrainerSettings
     public int CdSteps { get; init; } = 1;
 
     /// <summary>Step size on the per-row average gradient.</summary>
-    public double LearningRate { get; init; } = 0.05;
+    public double LearningRate { get; init; } = 0.1;
 
     /// <summary>Momentum for the first <see cref="MomentumSwitchEpoch"/> epochs.</summary>
     public double InitialMomentum { get; init; } = 0.5;
@@ -31,7 +31,7 @@ public sealed record RbmTrainerSettings
     public int MomentumSwitchEpoch { get; init; } = 5;
 
     /// <summary>L2 weight decay on W (not on biases).</summary>
-    public double WeightDecay { get; init; } = 2e-4;
+    public double WeightDecay { get; init; } = 1e-5;
 
     /// <summary>Initial weights are uniform in [-scale, scale].</summary>
     public double InitialWeightScale { get; init; } = 0.01;
