@@ -18,7 +18,7 @@ public static class DemoData
     public const ulong Seed = 20261130;
 
     public const int TrainingRows = 5000;
-    public const int CalibrationRows = 2000;
+    public const int CalibrationRows = 20000;
     public const int NormalRows = 2000;
     public const int FaultyRows = 400;
 
@@ -138,6 +138,7 @@ public static class DemoData
             w.WriteString("name", "reefer-fleet");
             w.WriteString("description", "Invented demo scenario: 56 status flags of a refrigerated container fleet. Not real data.");
             w.WriteString("caution", "A monitoring aid, not a safety function.");
+            w.WriteString("regenerate", "dotnet run demo-data/regenerate.cs (Emit.Demo.DemoData.WriteAll); see demo-data/README.md");
             w.WriteStartObject("generator");
             w.WriteString("name", "Emit.Demo.ReeferFleetGenerator");
             w.WriteNumber("version", ReeferFleetGenerator.Version);

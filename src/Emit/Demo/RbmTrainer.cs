@@ -25,6 +25,8 @@ public static class RbmTrainer
             throw new ArgumentException("batch size and CD steps must be positive, epochs not negative", nameof(settings));
         foreach (var r in rows)
             if (r.Length != nv) throw new ArgumentException($"a row has {r.Length} values, expected {nv}", nameof(rows));
+        // Plain arrays in the loops below: indexing them stays cheap even in unoptimised (Debug) builds.
+        var data = rows.Select(r => r.ToArray()).ToArray();
 
         var rng = new SplitMix64(settings.Seed);
         var w = new double[nv * nh];
@@ -35,7 +37,7 @@ public static class RbmTrainer
         for (int i = 0; i < nv; i++)
         {
             int on = 0;
-            foreach (var r in rows) on += r[i];
+            foreach (var r in data) on += r[i];
             double p = Math.Clamp((double)on / rows.Count, 0.001, 0.999);
             b[i] = DemoMath.Log(p / (1 - p));
         }
@@ -51,6 +53,7 @@ public static class RbmTrainer
         var pv = new double[nv];
         var vk = new byte[nv];
         var phk = new double[nh];
+        var onScratch = new int[nh];
         var order = Enumerable.Range(0, rows.Count).ToArray();
         var errors = ImmutableArray.CreateBuilder<double>(settings.Epochs);
 
@@ -69,12 +72,12 @@ public static class RbmTrainer
                 Array.Clear(gw); Array.Clear(gb); Array.Clear(gc);
                 for (int n = start; n < end; n++)
                 {
-                    var v0 = rows[order[n]].AsSpan();
+                    var v0 = data[order[n]];
                     HiddenProbabilities(v0, w, c, nh, ph0);
                     Sample(ph0, h, rng);
                     for (int step = 1; ; step++)
                     {
-                        VisibleProbabilities(h, w, b, nh, pv);
+                        VisibleProbabilities(h, w, b, nh, pv, onScratch);
                         Sample(pv, vk, rng);
                         HiddenProbabilities(vk, w, c, nh, phk);
                         if (step == settings.CdSteps) break;
@@ -88,11 +91,11 @@ public static class RbmTrainer
                     // Positive statistics v0 ph0, negative vk phk (hidden probabilities reduce sampling noise; practical guide 3.3).
                     for (int i = 0; i < nv; i++)
                     {
-                        var row = gw.AsSpan(i * nh, nh);
+                        int at = i * nh;
                         if (v0[i] != 0)
-                            for (int j = 0; j < nh; j++) row[j] += ph0[j];
+                            for (int j = 0; j < nh; j++) gw[at + j] += ph0[j];
                         if (vk[i] != 0)
-                            for (int j = 0; j < nh; j++) row[j] -= phk[j];
+                            for (int j = 0; j < nh; j++) gw[at + j] -= phk[j];
                         gb[i] += v0[i] - vk[i];
                     }
                     for (int j = 0; j < nh; j++) gc[j] += ph0[j] - phk[j];
@@ -115,31 +118,29 @@ public static class RbmTrainer
     }
 
     /// <summary>p(h_j = 1 | v) = sigmoid(c_j + Σ_i v_i W_ij).</summary>
-    private static void HiddenProbabilities(ReadOnlySpan<byte> v, double[] w, double[] c, int nh, double[] ph)
+    private static void HiddenProbabilities(byte[] v, double[] w, double[] c, int nh, double[] ph)
     {
-        c.AsSpan().CopyTo(ph);
+        Array.Copy(c, ph, nh);
         for (int i = 0; i < v.Length; i++)
         {
             if (v[i] == 0) continue;
-            var row = w.AsSpan(i * nh, nh);
-            for (int j = 0; j < nh; j++) ph[j] += row[j];
+            int at = i * nh;
+            for (int j = 0; j < nh; j++) ph[j] += w[at + j];
         }
         for (int j = 0; j < nh; j++) ph[j] = DemoMath.Sigmoid(ph[j]);
     }
 
     /// <summary>p(v_i = 1 | h) = sigmoid(b_i + Σ_j W_ij h_j).</summary>
-    private static void VisibleProbabilities(byte[] h, double[] w, double[] b, int nh, double[] pv)
+    private static void VisibleProbabilities(byte[] h, double[] w, double[] b, int nh, double[] pv, int[] on)
     {
-        Span<int> on = stackalloc int[nh];
         int count = 0;
         for (int j = 0; j < nh; j++)
             if (h[j] != 0) on[count++] = j;
-        on = on[..count];
         for (int i = 0; i < pv.Length; i++)
         {
             double x = b[i];
-            var row = w.AsSpan(i * nh, nh);
-            foreach (int j in on) x += row[j];
+            int at = i * nh;
+            for (int k = 0; k < count; k++) x += w[at + on[k]];
             pv[i] = DemoMath.Sigmoid(x);
         }
     }
