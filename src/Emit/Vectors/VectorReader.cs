@@ -11,7 +11,8 @@ namespace Emit.Vectors;
 /// or by spaces/tabs; the first non-blank line decides which, for the whole file.</item>
 /// <item>An optional first line of unit names (a header) is recognised because it is not all 0/1 values. Names may
 /// be double-quoted (<c>"door, rear"</c>, with <c>""</c> for a quote), must not be empty, and must number one per
-/// value.</item>
+/// value. A first line of numbers only is a header just when it is the column numbers 0..n-1 or 1..n; otherwise it
+/// is read as data, so a mistyped first vector is reported rather than taken for names.</item>
 /// <item>Lines end with LF or CRLF; a UTF-8 byte-order mark at the start is skipped; leading and trailing spaces
 /// and tabs are ignored; blank lines (empty or only spaces/tabs) are skipped anywhere and do not count as
 /// vectors, but do count in the line numbers of errors.</item>
@@ -99,17 +100,23 @@ public sealed class VectorReader : IDisposable
         var first = _buffer.AsSpan(start, length);
         Separator = first.Contains((byte)',') ? VectorSeparator.Comma : VectorSeparator.Whitespace;
         int count = 0;
-        bool allBinary = true;
+        bool allBinary = true, allNumeric = true, fromZero = true, fromOne = true;
         var fields = new Fields(first, Separator == VectorSeparator.Comma);
         while (fields.Next(out int s, out int e) is var kind && kind != FieldKind.End)
         {
             if (kind == FieldKind.Value)
             {
+                var token = first[s..e];
+                allBinary &= token.Length == 1 && token[0] is (byte)'0' or (byte)'1';
+                allNumeric &= token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0;
+                fromZero &= IsInteger(token, count);
+                fromOne &= IsInteger(token, count + 1);
                 count++;
-                allBinary &= e - s == 1 && first[s] is (byte)'0' or (byte)'1';
             }
         }
-        if (allBinary)
+        // A first line of numbers is data with a mistake in it, unless it is the column numbers 0..n-1 or 1..n
+        // some tools write as a header; reading it as data reports the bad value with its column.
+        if (allBinary || (allNumeric && !fromZero && !fromOne))
         {
             _pendingStart = start;
             _pendingLength = length;
@@ -262,6 +269,9 @@ public sealed class VectorReader : IDisposable
             if (_buffer.AsSpan(0, _end).StartsWith("\uFEFF"u8)) _start = 3;   // UTF-8 byte-order mark
         }
     }
+
+    private static bool IsInteger(ReadOnlySpan<byte> token, int value) =>
+        System.Buffers.Text.Utf8Parser.TryParse(token, out int parsed, out int used) && used == token.Length && parsed == value;
 
     private static bool IsBlank(ReadOnlySpan<byte> line) => line.IndexOfAnyExcept((byte)' ', (byte)'\t') < 0;
 

@@ -64,6 +64,27 @@ public sealed class VectorReaderTests
         Assert.Equal(2, r.LastLine);
     }
 
+    [Theory]
+    [InlineData("0,1,2\n1,1,1\n", 3)]   // pandas' default column labels
+    [InlineData("1 2 3\n1 1 1\n", 3)]
+    public void Column_numbers_are_a_header(string text, int width)
+    {
+        using var r = Reader(text, width);
+        Assert.Equal(width, r.Names.Length);
+        Assert.Equal(["111"], ReadAll(r));
+    }
+
+    [Theory]
+    [InlineData("0,2,1\n1,1,1\n", 3)]
+    [InlineData("1,0,1.0\n1,1,1\n", 5)]
+    public void A_first_line_of_other_numbers_is_a_bad_vector_not_a_header(string text, int column)
+    {
+        var e = Fails(text, 3);
+        Assert.StartsWith("value '", e.Problem);
+        Assert.Equal(1, e.Line);
+        Assert.Equal(column, e.Column);
+    }
+
     [Fact]
     public void Header_names_may_be_quoted_as_in_RFC_4180()
     {
