@@ -39,7 +39,7 @@ from sklearn.neural_network import BernoulliRBM
 HERE = os.path.dirname(os.path.abspath(__file__))
 OUT = os.path.abspath(sys.argv[1]) if len(sys.argv) > 1 else os.path.join(HERE, "..", "Emit.Tests", "Model", "Fixtures")
 # A fixed timestamp in the zip entries written here with zipfile, so regenerating gives the same bytes
-# (np.savez itself stamps the current time).
+# (np.savez's entries carry zipfile's default 1980-01-01 stamp, which is fixed too).
 FIXED_TIME = (2020, 1, 1, 0, 0, 0)
 
 RBM_PARAMS = dict(n_components=16, learning_rate=0.05, batch_size=10, n_iter=10, random_state=7)
