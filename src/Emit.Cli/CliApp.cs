@@ -30,9 +30,9 @@ public static class CliApp
         return root;
     }
 
-    public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
+    public static int Run(string[] args, TextWriter stdout, TextWriter stderr, Stream? stdin = null)
     {
-        var ctx = new CliContext(stdout, stderr);
+        var ctx = new CliContext(stdout, stderr, stdin);
         var root = BuildRoot(ctx);
         var parse = root.Parse(args);
         bool verbose = parse.GetValue(Verbose);

@@ -7,11 +7,14 @@ internal static class CliRunner
 {
     public sealed record Result(int ExitCode, string Out, string Error);
 
-    public static Result Run(params string[] args)
+    public static Result Run(params string[] args) => RunWithInput(null, args);
+
+    public static Result RunWithInput(string? stdin, params string[] args)
     {
         var o = new StringWriter { NewLine = "\n" };
         var e = new StringWriter { NewLine = "\n" };
-        int code = CliApp.Run(args, o, e);
+        using var input = stdin is null ? null : new MemoryStream(System.Text.Encoding.UTF8.GetBytes(stdin));
+        int code = CliApp.Run(args, o, e, input);
         return new Result(code, o.ToString(), e.ToString());
     }
 

@@ -77,3 +77,22 @@ public sealed class InspectAndLogzTests
         Assert.Single(r.Error.TrimEnd('\n').Split('\n'));
     }
 }
+
+public sealed class LogzAisCliTests
+{
+    [Fact]
+    public void Ais_reports_an_estimate_with_its_standard_error_and_stores_the_method()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 10, 6, 8, scale: 0.4);
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(m, path);
+        var r = CliRunner.Run("logz", path, "--method", "ais", "--chains", "100", "--steps", "400", "--json", "--store");
+        Assert.Equal(0, r.ExitCode);
+        var doc = JsonDocument.Parse(r.Out).RootElement;
+        double est = doc.GetProperty("log_partition").GetDouble(), se = doc.GetProperty("stderr").GetDouble();
+        Assert.InRange(est, Emit.Tests.Reference.BruteForce.LogPartition(m) - 5 * se - 0.01, Emit.Tests.Reference.BruteForce.LogPartition(m) + 5 * se + 0.01);
+        var stored = ModelLoader.Load(path).LogPartition!;
+        Assert.Equal("ais", stored.Method);
+        Assert.Equal(se, stored.Stderr);
+    }
+}
