@@ -17,14 +17,22 @@ public static class DemoData
     /// <summary>Master seed; each data set and the trainer get their own stream seeded from it.</summary>
     public const ulong Seed = 20261130;
 
+    /// <summary>Normal reports the RBM is trained on (not shipped).</summary>
     public const int TrainingRows = 5000;
+
+    /// <summary>Held-out normal reports the threshold is calibrated on (not shipped).</summary>
     public const int CalibrationRows = 20000;
+
+    /// <summary>Rows of normal.csv: a fresh sample, used neither for training nor calibration.</summary>
     public const int NormalRows = 2000;
+
+    /// <summary>Rows of faulty.csv.</summary>
     public const int FaultyRows = 400;
 
     /// <summary>The threshold is this quantile of the free energy of the calibration rows (rounded up, see <see cref="Calibrate"/>).</summary>
     public const double ThresholdQuantile = 0.995;
 
+    /// <summary>File names written by <see cref="Write"/>.</summary>
     public const string ModelFileName = "reefer-fleet.json";
     public const string NormalFileName = "normal.csv";
     public const string FaultyFileName = "faulty.csv";
