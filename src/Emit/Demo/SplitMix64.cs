@@ -8,20 +8,13 @@ namespace Emit.Demo;
 /// </summary>
 public sealed class SplitMix64
 {
-    private const ulong Gamma = 0x9E3779B97F4A7C15UL;
     private ulong _state;
 
     /// <summary>A generator whose first output is the SplitMix64 output for <paramref name="seed"/>.</summary>
     public SplitMix64(ulong seed) => _state = seed;
 
     /// <summary>The next 64 random bits.</summary>
-    public ulong Next()
-    {
-        ulong z = _state += Gamma;
-        z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL;
-        z = (z ^ (z >> 27)) * 0x94D049BB133111EBUL;
-        return z ^ (z >> 31);
-    }
+    public ulong Next() => Emit.Reference.Xoshiro256.SplitMix64(ref _state);
 
     /// <summary>A double in [0, 1): the top 53 bits times 2^-53 (exact, so platform independent).</summary>
     public double NextDouble() => (Next() >> 11) * (1.0 / (1UL << 53));

@@ -111,7 +111,7 @@ public static class ModelJson
             for (int i = 0; i < m.Names.Length; i++)
             {
                 if (i > 0) sb.Append(sep);
-                sb.Append(JsonSerializer.Serialize(m.Names[i]));
+                sb.Append('"').Append(JsonEncodedText.Encode(m.Names[i]).Value).Append('"');
             }
             sb.Append(']');
         }
@@ -133,7 +133,7 @@ public static class ModelJson
         {
             Key("log_partition");
             sb.Append("{\"value\"").Append(colon).Append(Number(lp.Value)).Append(sep)
-              .Append("\"method\"").Append(colon).Append(JsonSerializer.Serialize(lp.Method)).Append(sep)
+              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value).Append('"').Append(sep)
               .Append("\"stderr\"").Append(colon).Append(Number(lp.Stderr)).Append('}');
         }
         if (includeMetadata && m.MetadataJson is { } meta) { Key("metadata"); sb.Append(meta); }
