@@ -223,11 +223,18 @@ public static class ModelJson
             return (int)v;
         }
 
+        /// <summary>The current string token; invalid UTF-8 inside it is the tool's error, not the JSON reader's.</summary>
+        private string Text()
+        {
+            try { return _r.GetString()!; }
+            catch (InvalidOperationException) { throw Error("text is not valid UTF-8", "save the file as UTF-8"); }
+        }
+
         private string String(string field)
         {
             Read();
             Expect(JsonTokenType.String, $"a string for {field}");
-            return _r.GetString()!;
+            return Text();
         }
 
         private ImmutableArray<double> NumberArray(string field)
@@ -269,7 +276,7 @@ public static class ModelJson
                 Read();
                 if (_r.TokenType == JsonTokenType.EndObject) break;
                 Expect(JsonTokenType.PropertyName, "a field name");
-                string key = _r.GetString()!;
+                string key = Text();
                 long keyOffset = _r.TokenStartIndex;
                 if (!seen.Add(key)) throw Error($"field \"{key}\" appears twice");
                 switch (key)
@@ -303,7 +310,7 @@ public static class ModelJson
                                 Read();
                                 if (_r.TokenType == JsonTokenType.EndArray) break;
                                 Expect(JsonTokenType.String, "a string in names");
-                                b.Add(_r.GetString()!);
+                                b.Add(Text());
                             }
                             names = b.ToImmutable();
                             break;
@@ -463,7 +470,7 @@ public static class ModelJson
             {
                 Read();
                 if (_r.TokenType == JsonTokenType.EndObject) break;
-                string k = _r.GetString()!;
+                string k = Text();
                 switch (k)
                 {
                     case "value": value = Number("log_partition.value"); break;

@@ -88,4 +88,14 @@ public sealed class ModelJsonBadInputTests
         var text = "{\"format\":\"emit.model\",\"version\":1,\"kind\":\"rbm\",\"visible\":1000000,\"hidden\":1000000,\"visible_bias\":[],\"hidden_bias\":[],\"weights\":[]}";
         Assert.Contains("more than", Bad(Encoding.UTF8.GetBytes(text)).Problem);
     }
+
+    // Regression (found by the mutation property): invalid UTF-8 inside a string escaped as InvalidOperationException.
+    [Fact]
+    public void Invalid_utf8_in_a_string_is_the_tools_error()
+    {
+        var bytes = Encoding.UTF8.GetBytes(Good.Replace("\"general\"", "\"gen\u00e9ral\""));
+        int k = Array.IndexOf(bytes, (byte)0xC3);
+        bytes[k] = 0x8F;
+        Assert.Contains("UTF-8", Bad(bytes).Problem);
+    }
 }
