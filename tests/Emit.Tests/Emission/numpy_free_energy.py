@@ -20,7 +20,8 @@ for i, j, w in model.get("visible_links", []):
 M = np.zeros((H, H))
 for i, j, w in model.get("hidden_links", []):
     M[i, j] = w
-states = ((np.arange(2 ** H)[:, None] >> np.arange(H)) & 1).astype(np.float64)
+if kind == "general":
+    states = ((np.arange(2 ** H)[:, None] >> np.arange(H)) & 1).astype(np.float64)
 
 for line in open(sys.argv[2], encoding="ascii"):
     v = np.array([float(ch) for ch in line.strip()])
