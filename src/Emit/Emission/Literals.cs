@@ -4,8 +4,9 @@ namespace Emit.Emission;
 
 /// <summary>
 /// Numeric literals valid in both C99 and C#, that read back as exactly the value meant: binary32 values with 9
-/// significant digits and an <c>f</c> suffix, binary64 values with 17 (IEEE 754-2008 §5.12.2: 9 and 17 decimal
-/// digits are enough for any binary32 / binary64 value to round-trip). Every literal has a decimal point or an
+/// significant digits and an <c>f</c> suffix, binary64 values with 17 (IEEE 754-2008 §5.12.2, cited from memory:
+/// 9 and 17 decimal digits are enough for any binary32 / binary64 value to round-trip; the tests check it against
+/// the C compiler). Every literal has a decimal point or an
 /// exponent (<c>1f</c> and <c>-0f</c> are not valid C).
 /// </summary>
 public static class Literals

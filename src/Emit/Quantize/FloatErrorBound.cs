@@ -18,8 +18,8 @@ namespace Emit.Quantize;
 /// <item>softplus(x) = max(x,0) + log(1 + exp(−|x|)) with exp and log each within <see cref="LibmUlps"/> ulps (relative
 /// error A = LibmUlps·2u): with t = exp(−|x|) &lt;= 1, exp's error moves log(1 + t) by at most A·t, rounding 1 + t by at
 /// most u (the argument lies in [1, 2]), log's own error is at most A·ln 2 (plus A·u), and the final addition
-/// u·softplus(x). The allowance is ours (common practice): the glibc manual's table of known maximum errors lists at
-/// most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
+/// u·softplus(x). The allowance is ours (common practice); from memory, the glibc manual's table of known maximum errors lists
+/// at most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
 /// <item>The final F = −linear − Σ_j softplus_j, H subtractions: γ_H·(|linear| + Σ softplus_j).</item>
 /// <item>general: log Σ_h exp(s(h)) is 1-Lipschitz in every s(h) (max norm) and its gradient in a sums to at most H,
 /// so pre-activation errors add; the running Gray-code scores carry at most <see cref="GrayScoreRoundings"/> roundings
