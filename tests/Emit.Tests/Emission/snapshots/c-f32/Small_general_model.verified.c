@@ -167,7 +167,7 @@ static small_general_energy_t small_general_hidden_log_sum_exp(const small_gener
  * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first) the
  * unit's bias joins the linear sum and its weight row is added to the pre-activations, two rows at a time
  * (acc += row1 + row2 halves the loads and stores of the accumulators).
- * Accuracy: |result - exact F| <= SMALL_GENERAL_ERROR_BOUND nats for every input (see the emit documentation).
+ * Accuracy: |result - exact F| <= SMALL_GENERAL_ERROR_BOUND nats for every input (derivation: docs/generated-code.md in the emit sources).
  */
 small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENERAL_PACKED_BYTES])
 {

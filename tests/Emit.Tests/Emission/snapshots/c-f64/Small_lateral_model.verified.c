@@ -99,7 +99,7 @@ static plant_energy_t plant_softplus(plant_energy_t x)
  * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first) the
  * unit's bias joins the linear sum and its weight row is added to the pre-activations, two rows at a time
  * (acc += row1 + row2 halves the loads and stores of the accumulators).
- * Accuracy: |result - exact F| <= PLANT_ERROR_BOUND nats for every input (see the emit documentation).
+ * Accuracy: |result - exact F| <= PLANT_ERROR_BOUND nats for every input (derivation: docs/generated-code.md in the emit sources).
  */
 plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
 {
