@@ -17,6 +17,7 @@ public sealed class CSharpBuildFixture
 
     public string? SkipReason { get; }
     public Dictionary<string, int> SelfTest { get; } = new();
+    public Dictionary<string, long> Allocated { get; } = new();
     public Dictionary<string, List<Row>> Rows { get; } = new();
     public Dictionary<string, string> Sources { get; } = new();
 
@@ -76,6 +77,19 @@ public sealed class CSharpBuildFixture
                             Console.WriteLine(name + " selftest " + SelfTest(name));
                             continue;
                         }
+                        if (parts[1] == "alloc")
+                        {
+                            // bytes allocated by 20 calls of each entry point and the self-test, after a warm-up
+                            var u = Units(parts[2]);
+                            var p = Pack(u);
+                            double sink = 0;
+                            for (int k = 0; k < 200; k++) sink += Touch(name, u, p);
+                            long before = GC.GetAllocatedBytesForCurrentThread();
+                            for (int k = 0; k < 20; k++) sink += Touch(name, u, p);
+                            long after = GC.GetAllocatedBytesForCurrentThread();
+                            Console.WriteLine(name + " alloc " + (after - before) + " " + (sink == 0 ? 0 : 1));
+                            continue;
+                        }
                         var units = Units(parts[1]);
                         var packed = Pack(units);
                         Console.WriteLine(name + " " + Score(name, units, packed));
@@ -84,6 +98,7 @@ public sealed class CSharpBuildFixture
 
             """);
         var selfTest = new StringBuilder("    private static int SelfTest(string name) => name switch\n    {\n");
+        var touch = new StringBuilder("    private static double Touch(string name, byte[] units, byte[] packed) => name switch\n    {\n");
         var score = new StringBuilder("    private static string Score(string name, byte[] units, byte[] packed)\n    {\n        switch (name)\n        {\n");
         var input = new StringBuilder();
         foreach (var c in CodegenCases.All)
@@ -93,16 +108,19 @@ public sealed class CSharpBuildFixture
                 Sources[name] = File.ReadAllText(Path.Combine(dir, name + ".cs"));
                 var cls = "Emit.Tests.Generated." + Naming.ClassName(name, CSharpEmitter.ClassMembers);
                 selfTest.Append($"        \"{name}\" => {cls}.SelfTest(),\n");
+                touch.Append($"        \"{name}\" => {cls}.FreeEnergy(packed) + {cls}.FreeEnergyUnits(units) + {cls}.SelfTest(),\n");
                 string unusual = c.Model.Threshold.HasValue ? $"({cls}.IsUnusual(e1) ? 1 : 0)" : "-1";
                 score.Append($"            case \"{name}\":\n            {{\n                var e1 = {cls}.FreeEnergy(packed);\n" +
                              $"                var e2 = {cls}.FreeEnergyUnits(units);\n" +
                              $"                return ((double)e1).ToString(\"R\", CultureInfo.InvariantCulture) + \" \" + (e1.Equals(e2) ? 1 : 0) + \" \" + {unusual};\n            }}\n");
                 input.Append(name).Append(" selftest\n");
                 foreach (var v in CodegenCases.Vectors(c)) input.Append(name).Append(' ').Append(CodegenCases.Bits(v)).Append('\n');
+                input.Append(name).Append(" alloc ").Append(CodegenCases.Bits(CodegenCases.Vectors(c)[^1])).Append('\n');
             }
         selfTest.Append("        _ => throw new ArgumentException(name),\n    };\n");
+        touch.Append("        _ => throw new ArgumentException(name),\n    };\n");
         score.Append("            default: throw new ArgumentException(name);\n        }\n    }\n");
-        program.Append(selfTest).Append('\n').Append(score).Append("}\n");
+        program.Append(selfTest).Append('\n').Append(touch).Append('\n').Append(score).Append("}\n");
         File.WriteAllText(Path.Combine(dir, "Program.cs"), program.ToString());
         File.WriteAllText(Path.Combine(dir, "input.txt"), input.ToString());
 
@@ -113,6 +131,7 @@ public sealed class CSharpBuildFixture
         {
             var p = line.Split(' ');
             if (p[1] == "selftest") { SelfTest[p[0]] = int.Parse(p[2], CultureInfo.InvariantCulture); continue; }
+            if (p[1] == "alloc") { Allocated[p[0]] = long.Parse(p[2], CultureInfo.InvariantCulture); continue; }
             if (!Rows.TryGetValue(p[0], out var list)) Rows[p[0]] = list = [];
             list.Add(new Row(double.Parse(p[1], CultureInfo.InvariantCulture), p[2] == "1", int.Parse(p[3], CultureInfo.InvariantCulture)));
         }
@@ -131,6 +150,7 @@ public sealed class GeneratedCSharpTests(CSharpBuildFixture fixture) : IClassFix
         var c = CodegenCases.All.Single(x => x.Id == id);
         var name = c.Id + "_" + mode.ToText();
         Assert.Equal(0, fixture.SelfTest[name]);
+        Assert.Equal(0, fixture.Allocated[name]);   // no allocation per call (issue 3 §5)
         var vectors = CodegenCases.Vectors(c);
         var rows = fixture.Rows[name];
         Assert.Equal(vectors.Count, rows.Count);
