@@ -30,7 +30,7 @@ internal static class CHarness
                 memset(packed, 0, sizeof packed);
                 for (i = 0; i < {{name.ToUpperInvariant()}}_VISIBLE; ++i) {
                     /* any nonzero byte means on */
-                    units[i] = line[i] == '1' ? (uint8_t)(1 + i % 200) : (uint8_t)0;
+                    units[i] = (uint8_t)(line[i] == '1' ? 1 + i % 200 : 0);
                     if (units[i] != 0) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7)));
                 }
                 /* bits beyond the last unit must be ignored */

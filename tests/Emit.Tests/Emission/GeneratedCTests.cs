@@ -76,6 +76,34 @@ public sealed class GeneratedCTests
             Assert.True(Math.Abs(result.Rows[k].Energy - expected[k]) <= rel * Math.Abs(expected[k]), $"F[{k}] = {result.Rows[k].Energy:R}, expected {expected[k]:R}");
     }
 
+    /// <summary>AddressSanitizer and UndefinedBehaviorSanitizer over every kind and mode (issue 6 §3).</summary>
+    [SkippableFact]
+    public void Generated_c_runs_clean_under_address_and_undefined_behaviour_sanitizers()
+    {
+        foreach (var c in CodegenCases.All)
+            foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
+            {
+                var dir = Toolchain.TempDir("sanitize-" + c.Id);
+                var name = CodegenCases.Generate(c, mode, dir);
+                var exe = CHarness.Build(dir, name, c.Model.Threshold.HasValue, "-g -fsanitize=address,undefined -fno-sanitize-recover=all");
+                var result = CHarness.Run(exe, CodegenCases.Vectors(c).Take(10));
+                Assert.Equal(0, result.SelfTestFailures);
+            }
+    }
+
+    [SkippableFact]
+    public void Cppcheck_reports_nothing_on_generated_c()
+    {
+        var cppcheck = Toolchain.Require("cppcheck");
+        var dir = Toolchain.TempDir("cppcheck");
+        var sources = new List<string>();
+        foreach (var c in CodegenCases.All)
+            foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
+                sources.Add(Path.Combine(dir, CodegenCases.Generate(c, mode, dir) + ".c"));
+        var (exit, output, err) = Toolchain.Run(cppcheck, ["-q", "--enable=warning,style,portability,performance", "--std=c99", "--error-exitcode=1", "-I", dir, .. sources]);
+        Assert.True(exit == 0 && err.Trim().Length == 0, output + err);
+    }
+
     [SkippableFact]
     public void Generated_c_compiles_as_cpp17_with_strict_flags_for_every_kind_and_mode()
     {
