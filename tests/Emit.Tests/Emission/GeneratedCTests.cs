@@ -105,6 +105,19 @@ public sealed class GeneratedCTests
     }
 
     [SkippableFact]
+    public void Generated_c_compiles_with_clang_strict_flags_for_every_kind_and_mode()
+    {
+        var clang = Toolchain.Require("clang");
+        var dir = Toolchain.TempDir("clang");
+        foreach (var c in CodegenCases.All)
+            foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
+            {
+                var name = CodegenCases.Generate(c, mode, dir);
+                Toolchain.RunOk(clang, [.. Toolchain.Split(Toolchain.StrictC), "-O2", "-c", Path.Combine(dir, name + ".c"), "-o", Path.Combine(dir, name + ".o")]);
+            }
+    }
+
+    [SkippableFact]
     public void Generated_c_compiles_as_cpp17_with_strict_flags_for_every_kind_and_mode()
     {
         var gpp = Toolchain.Require("g++");
