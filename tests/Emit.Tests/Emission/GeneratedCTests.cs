@@ -173,6 +173,28 @@ public sealed class GeneratedCTests
             Assert.Matches($@"\.emit_tables\s+\S+\s+{name}_{table}\b", symbols);
     }
 
+    /// <summary>The self-test must notice a damaged table: one weight changed by 0.01 (as a flash bit error might).</summary>
+    [SkippableTheory]
+    [InlineData(NumericMode.F32)]
+    [InlineData(NumericMode.F64)]
+    public void Self_test_fails_when_a_weight_is_damaged(NumericMode mode)
+    {
+        var c = CodegenCases.All.Single(x => x.Id == "lat_a");
+        var dir = Toolchain.TempDir("damaged");
+        var name = CodegenCases.Generate(c, mode, dir);
+        var path = Path.Combine(dir, name + ".c");
+        var text = File.ReadAllText(path);
+        int table = text.IndexOf($"{name}_weights[", StringComparison.Ordinal);
+        var literal = System.Text.RegularExpressions.Regex.Match(text[table..], @"
+        (-?[0-9.e+-]+)f?,");
+        int at = table + literal.Groups[1].Index;
+        double value = double.Parse(literal.Groups[1].Value, System.Globalization.CultureInfo.InvariantCulture);
+        var damaged = Literals.Of(value + 0.01, mode);
+        File.WriteAllText(path, text[..at] + damaged.TrimEnd('f') + text[(at + literal.Groups[1].Length)..]);
+        var result = CHarness.Run(CHarness.Build(dir, name, true), [new byte[c.Model.Visible]]);
+        Assert.True(result.SelfTestFailures > 0, "the self-test passed with a damaged weight");
+    }
+
     [SkippableFact]
     public void Mismatched_header_and_source_refuse_to_compile()
     {

@@ -135,4 +135,24 @@ public sealed class GoldenFileTests
         Assert.DoesNotContain("G_THRESHOLD", h);
         Assert.DoesNotContain("g_is_unusual", h);
     }
+
+    /// <summary>The refusals a user sees from <c>emit compile</c>, one per line, as reviewed text.</summary>
+    [Fact]
+    public void Error_messages()
+    {
+        var small = SmallLateral();
+        var cases = new (string What, Func<object> Act)[]
+        {
+            ("name not an identifier", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.F32, "9lives"))),
+            ("reserved name", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.F32, "_Plant"))),
+            ("bad namespace", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["csharp"], NumericMode.F32, "plant", "a..b"))),
+            ("unknown target", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["rust"], NumericMode.F32, "plant"))),
+            ("fixed not yet", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.Fixed, "plant"))),
+            ("self-test count", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.F32, "plant", SelfTestVectors: 0))),
+            ("general too large", () => ScorerCompiler.Compile(TestModels.Random(ModelKind.General, 2, 17, seed: 1), "m.json", new CompileOptions(["c"], NumericMode.F32, "plant"))),
+            ("weight beyond float", () => ScorerCompiler.Compile(new BoltzmannModel(ModelKind.Rbm, 1, 1, [0], [0], [1e39]), "m.json", new CompileOptions(["c"], NumericMode.F32, "plant"))),
+        };
+        var text = string.Concat(cases.Select(c => c.What + ": " + Assert.Throws<EmitException>(c.Act).OneLine() + "\n"));
+        Approved.Verify(text, "errors", nameof(Error_messages), "txt");
+    }
 }
