@@ -14,9 +14,11 @@ public sealed class CEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".h", ".c"];
     public IReadOnlyList<string> TemplateFiles { get; } = [HeaderTemplate, FloatSourceTemplate];
 
-    public IReadOnlyList<GeneratedFile> Emit(FloatScorerPlan plan, TemplateRenderer templates)
+    public IReadOnlyList<GeneratedFile> Emit(ScorerPlan scorer, TemplateRenderer templates)
     {
         templates.CheckOverrides(Name, TemplateFiles.ToArray());
+        var plan = scorer as FloatScorerPlan
+                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()} yet");
         var model = BuildModel(plan);
         return
         [

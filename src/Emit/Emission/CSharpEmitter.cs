@@ -22,9 +22,11 @@ public sealed class CSharpEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
     public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate];
 
-    public IReadOnlyList<GeneratedFile> Emit(FloatScorerPlan plan, TemplateRenderer templates)
+    public IReadOnlyList<GeneratedFile> Emit(ScorerPlan scorer, TemplateRenderer templates)
     {
         templates.CheckOverrides(Name, TemplateFiles.ToArray());
+        var plan = scorer as FloatScorerPlan
+                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()} yet");
         var model = BuildModel(plan);
         return [new GeneratedFile(model.FileName, templates.Render(Name, FloatTemplate, model))];
     }

@@ -11,78 +11,28 @@ namespace Emit.Emission;
 /// coefficients as the mode stores them, the lateral links grouped for the scoring walk, the self-test cases and the
 /// error bound. Target emitters turn it into text; tests inspect it directly.
 /// </summary>
-public sealed class FloatScorerPlan
+public sealed class FloatScorerPlan : ScorerPlan
 {
     /// <summary>Most hidden units a generated general-model scorer enumerates (2^16 states per input).</summary>
     public const int MaxGeneralHidden = 16;
 
-    private FloatScorerPlan(BoltzmannModel model, CompileOptions options, string modelLabel)
+    private FloatScorerPlan(BoltzmannModel model, CompileOptions options, string modelLabel) : base(model, options, modelLabel)
     {
-        Model = model;
-        Options = options;
-        ModelLabel = modelLabel;
     }
-
-    public BoltzmannModel Model { get; }
-    public CompileOptions Options { get; }
-    public NumericMode Mode => Options.Numeric;
-
-    /// <summary>The model's file name (not path), as given; sanitise before printing.</summary>
-    public string ModelLabel { get; }
-
-    public int Visible => Model.Visible;
-    public int Hidden => Model.Hidden;
-    public int PackedBytes => (Model.Visible + 7) / 8;
-
-    /// <summary>Mask of the used bits of the last packed byte; 0xFF when all eight are units.</summary>
-    public int LastByteMask => Model.Visible % 8 == 0 ? 0xFF : (1 << (Model.Visible % 8)) - 1;
 
     public ImmutableArray<double> VisibleBias { get; private set; }
     public ImmutableArray<double> HiddenBias { get; private set; }
 
-    /// <summary>W row-major, one row of <see cref="Hidden"/> values per visible unit.</summary>
+    /// <summary>W row-major, one row of <see cref="ScorerPlan.Hidden"/> values per visible unit, rounded to the mode.</summary>
     public ImmutableArray<double> Weights { get; private set; }
 
-    /// <summary>
-    /// Lateral links grouped by their higher unit: the links of unit i to units j &lt; i are entries
-    /// LinkStart[i] .. LinkStart[i+1]−1 of <see cref="LinkOther"/> and <see cref="LinkWeight"/>.
-    /// </summary>
-    public ImmutableArray<int> LinkStart { get; private set; }
-    public ImmutableArray<int> LinkOther { get; private set; }
+    /// <summary>L in the order of <see cref="ScorerPlan.LinkOther"/>, rounded to the mode.</summary>
     public ImmutableArray<double> LinkWeight { get; private set; }
-    public int LinkCount => LinkOther.Length;
 
     /// <summary>general: M as a full symmetric H×H matrix with zero diagonal.</summary>
     public ImmutableArray<double> HiddenPairs { get; private set; }
 
     public double? Threshold { get; private set; }
-
-    /// <summary>|F_generated(v) − F_exact(v)| &lt;= this for every input (nats); see <see cref="FloatErrorBound"/>.</summary>
-    public double ErrorBound { get; private set; }
-
-    public IReadOnlyList<SelfTestCase> SelfTest { get; private set; } = [];
-
-    /// <summary>general: log2 of the Gray-code block size (scores are recomputed at every block start).</summary>
-    public int GrayBlockBits => FloatErrorBound.GrayBlockBits(Model.Hidden);
-
-    /// <summary>Unit names as one-line comment text (empty list when the model has no names).</summary>
-    public IReadOnlyList<string> UnitComments { get; private set; } = [];
-
-    /// <summary>Identifiers for unit indices: C macro suffixes and C# constant names (empty when no names).</summary>
-    public IReadOnlyList<string> UnitMacroNames { get; private set; } = [];
-    public IReadOnlyList<string> UnitConstantNames { get; private set; } = [];
-
-    /// <summary>Names the generated C# class uses itself, so unit constants avoid them.</summary>
-    public static readonly string[] CSharpReservedNames = ["Units"];
-
-    public static string ToolVersion
-    {
-        get
-        {
-            var v = typeof(FloatScorerPlan).Assembly.GetName().Version ?? new Version(0, 0, 0);
-            return $"{v.Major}.{v.Minor}.{Math.Max(0, v.Build)}";
-        }
-    }
 
     /// <summary>Plans a scorer; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.</summary>
     public static FloatScorerPlan Build(BoltzmannModel model, CompileOptions options, string modelLabel)
@@ -107,13 +57,7 @@ public sealed class FloatScorerPlan
         plan.HiddenBias = Rounded(model.HiddenBias, "hidden_bias");
         plan.Weights = Rounded(model.Weights, "weights");
 
-        var byHigher = model.VisibleLinks.OrderBy(l => l.J).ThenBy(l => l.I).ToArray();
-        var start = new int[model.Visible + 1];
-        foreach (var l in byHigher) start[l.J + 1]++;
-        for (int i = 0; i < model.Visible; i++) start[i + 1] += start[i];
-        plan.LinkStart = [.. start];
-        plan.LinkOther = [.. byHigher.Select(l => l.I)];
-        plan.LinkWeight = [.. byHigher.Select((l, k) => Literals.Round(l.W, mode, $"visible_links weight {l.I},{l.J}"))];
+        plan.LinkWeight = [.. plan.LinksByHigher.Select(l => Literals.Round(l.W, mode, $"visible_links weight {l.I},{l.J}"))];
 
         if (model.Kind == ModelKind.General)
         {
@@ -133,13 +77,6 @@ public sealed class FloatScorerPlan
         plan.ErrorBound = FloatErrorBound.Worst(model, mode);
         plan.SelfTest = BuildSelfTest(model, mode, options.SelfTestVectors);
 
-        if (!model.Names.IsEmpty)
-        {
-            plan.UnitComments = model.Names.Select(Naming.CommentText).ToArray();
-            var (c, cs) = Naming.UnitIdentifiers(model.Names, CSharpReservedNames);
-            plan.UnitMacroNames = c;
-            plan.UnitConstantNames = cs;
-        }
         return plan;
     }
 
@@ -165,13 +102,4 @@ public sealed class FloatScorerPlan
         return cases;
     }
 
-    /// <summary>The lines of the banner every generated file starts with (no timestamp: regeneration is byte-stable).</summary>
-    public IReadOnlyList<string> BannerLines(string fileName, string target) =>
-    [
-        $"{fileName}: generated by emit {ToolVersion} -- do not edit; regenerate with emit compile.",
-        $"model: {Naming.CommentText(ModelLabel)} (kind {Model.Kind.ToText()}, {Model.Visible} visible, {Model.Hidden} hidden)",
-        $"model sha256: {Model.Sha256}",
-        $"options: {Options.BannerText(target)}",
-        "A monitoring aid, not a safety function.",
-    ];
 }

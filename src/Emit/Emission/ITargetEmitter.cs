@@ -15,6 +15,6 @@ public interface ITargetEmitter
     /// <summary>Template files this target reads (names under templates/TARGET/).</summary>
     IReadOnlyList<string> TemplateFiles { get; }
 
-    /// <summary>The generated files for a planned scorer.</summary>
-    IReadOnlyList<GeneratedFile> Emit(FloatScorerPlan plan, TemplateRenderer templates);
+    /// <summary>The generated files for a planned scorer (a <see cref="FloatScorerPlan"/> today; the fixed-point mode adds its own plan type).</summary>
+    IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates);
 }

@@ -34,6 +34,6 @@ internal static class TableText
     public static string Int(long n) => n.ToString(CultureInfo.InvariantCulture);
 
     /// <summary>The comment naming visible unit i: "i: name" or "unit i".</summary>
-    public static string UnitLabel(FloatScorerPlan plan, int i) =>
+    public static string UnitLabel(ScorerPlan plan, int i) =>
         plan.UnitComments.Count > 0 ? Int(i) + ": " + plan.UnitComments[i] : "unit " + Int(i);
 }
