@@ -22,7 +22,7 @@ public static class FixedPointPlanner
     public const int MaxEnergyFractionBits = 24;
 
     /// <summary>Smallest and largest ρ tried for the table range R = 2^ρ.</summary>
-    public const int MinRangeLog2 = 0, MaxRangeLog2 = 10;
+    public const int MinRangeLog2 = 0, MaxRangeLog2 = 24;
 
     /// <summary>Most hidden units of a general model (the scorer enumerates 2^hidden states).</summary>
     public const int MaxGeneralHidden = 16;

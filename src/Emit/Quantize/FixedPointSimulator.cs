@@ -15,7 +15,7 @@ namespace Emit.Quantize;
 /// <item>For each visible unit i that is on, in increasing i (packed input: bytes in order, lowest set bit first):
 /// energy += bq_i; a_j += w[i][j] for j = 0..H−1 (one contiguous row per visible unit); then for each lateral
 /// link (k, i) with k &lt; i in increasing k: if unit k is on, lateral += l_ki.</item>
-/// <item>energy += to_energy(lateral, s_L).</item>
+/// <item>energy += to_energy(lateral, s_L) (only when the model has lateral links).</item>
 /// <item>rbm/lateral: for j = 0..H−1: energy += softplus_q(a_j; P_j, d_j, s_j).
 /// general: z_j = to_energy(a_j, s_j); energy += lse_q(z) (below).</item>
 /// <item>Result: −energy.</item>
@@ -76,8 +76,11 @@ public sealed class FixedPointSimulator
     /// <summary>2^E: real free energy = integer result / Scale.</summary>
     public double Scale => _plan.EnergyScale;
 
-    /// <summary>Optional observer of every named intermediate (for tests of the range analysis).</summary>
-    internal Action<string, long>? Observe { get; set; }
+    /// <summary>
+    /// Optional observer of every checked intermediate: (name, hidden unit or −1, value). Names match the
+    /// plan's <see cref="FixedPointPlan.Checks"/> ("hidden[j]." + name for unit values). For tests.
+    /// </summary>
+    internal Action<string, int, long>? Observe { get; set; }
 
     /// <summary>The integer free energy for one byte per visible unit (nonzero = on).</summary>
     public long FreeEnergy(ReadOnlySpan<byte> units)
@@ -121,31 +124,32 @@ public sealed class FixedPointSimulator
     /// <summary>Real free energy in nats: <see cref="FreeEnergy"/> / <see cref="Scale"/>.</summary>
     public double FreeEnergyReal(ReadOnlySpan<byte> units) => FreeEnergy(units) / Scale;
 
-    private long Chk(long x, string name)
+    private long Chk(long x, string name, int unit = -1)
     {
         if (x > _lim || x < -_lim) throw new OverflowException($"{name} = {x} is outside ±{_lim}");
-        Observe?.Invoke(name, x);
+        Observe?.Invoke(name, unit, x);
         return x;
     }
 
-    private long Add(long a, long b, string name) => Chk(checked(a + b), name);
+    private long Add(long a, long b, string name, int unit = -1) => Chk(checked(a + b), name, unit);
 
-    private long Mul(long a, long b, string name) => Chk(checked(a * b), name);
+    private long Mul(long a, long b, string name, int unit = -1) => Chk(checked(a * b), name, unit);
 
     private static long Shr(long x, int s) =>
         x >= 0 ? x >> s : throw new InvalidOperationException("right shift of a negative value");
 
-    private long ToEnergy(long x, int s, string name)
+    /// <summary>to_energy(x, s); the intermediate (|x| + half, or x · 2^−s) is checked under <paramref name="name"/>.</summary>
+    internal long ToEnergy(long x, int s, string name, int unit = -1)
     {
-        if (s <= 0) return Mul(x, Chk(1L << -s, name + ".factor"), name);
+        if (s <= 0) return Mul(x, 1L << -s, name, unit);
         long half = 1L << (s - 1);
-        if (x >= 0) return Shr(Add(x, half, name + ".rounding"), s);
-        long neg = Chk(checked(-x), name + ".magnitude");
-        return Chk(checked(-Shr(Add(neg, half, name + ".rounding"), s)), name);
+        if (x >= 0) return Shr(Add(x, half, name, unit), s);
+        long neg = Chk(checked(-x), name, unit);
+        return -Shr(Add(neg, half, name, unit), s);
     }
 
     /// <summary>G_q(m) for a magnitude m ≥ 0 at index shift d, limit P = N·2^d.</summary>
-    private long GQ(long m, long p, int d, string name)
+    internal long GQ(long m, long p, int d, string prefix, int unit = -1)
     {
         if (m < 0) throw new InvalidOperationException("table lookup of a negative magnitude");
         if (m >= p) return 0;
@@ -154,40 +158,37 @@ public sealed class FixedPointSimulator
         if (d == 0) return t0;
         long r = m & ((1L << d) - 1);
         long t1 = _t[k + 1];
-        long diff = Chk(checked(t0 - t1), name + ".step");
-        long w = Chk((1L << d) - r, name + ".weight");
-        long prod = Add(Mul(diff, w, name + ".product"), 1L << (d - 1), name + ".product");
-        return Add(t1, Shr(prod, d), name + ".value");
+        long prod = Add(Mul(t0 - t1, (1L << d) - r, prefix + "interpolation_product", unit), 1L << (d - 1), prefix + "interpolation_product", unit);
+        return t1 + Shr(prod, d);
     }
 
-    /// <summary>softplus_q(a) = (a &gt; 0 ? to_energy(a, s) : 0) + G_q(|a|).</summary>
-    private long SoftplusQ(long a, long p, int d, int s, string name)
+    /// <summary>softplus_q(a) = (a &gt; 0 ? to_energy(a, s) : 0) + G_q(|a|) for hidden unit j.</summary>
+    internal long SoftplusQ(long a, int j)
     {
-        long m = a >= 0 ? a : Chk(checked(-a), name + ".magnitude");
-        long pos = a > 0 ? ToEnergy(a, s, name + ".to_energy") : 0;
-        return Add(pos, GQ(m, p, d, name + ".g"), name);
+        long m = a >= 0 ? a : checked(-a);
+        long pos = a > 0 ? ToEnergy(a, _energyShift[j], "to_energy", j) : 0;
+        return Chk(pos + GQ(m, _tableLimit[j], _tableShift[j], "", j), "softplus", j);
     }
 
     private long Run(List<int> on, bool[] isOn)
     {
         int h = _h;
         Span<long> acc = h <= 1024 ? stackalloc long[h] : new long[h];
-        for (int j = 0; j < h; j++) acc[j] = Chk(_bias[j], "hidden.accumulator");
+        for (int j = 0; j < h; j++) acc[j] = Chk(_bias[j], "accumulator", j);
         long energy = Chk(_plan.EnergyOffset, "energy.linear");
         long lateral = 0;
         foreach (int i in on)
         {
             energy = Add(energy, _bq[i], "energy.linear");
             int row = i * h;
-            for (int j = 0; j < h; j++) acc[j] = Add(acc[j], _w[row + j], "hidden.accumulator");
+            for (int j = 0; j < h; j++) acc[j] = Add(acc[j], _w[row + j], "accumulator", j);
             foreach (var (other, w) in _lateral[i])
                 if (isOn[other]) lateral = Add(lateral, w, "lateral.accumulator");
         }
-        energy = Add(energy, ToEnergy(lateral, _lateralShift, "lateral.to_energy"), "energy.base");
+        if (_plan.Lateral.Length > 0) energy = Add(energy, ToEnergy(lateral, _lateralShift, "lateral.to_energy"), "energy.base");
         if (_plan.Model.Kind != ModelKind.General)
         {
-            for (int j = 0; j < h; j++)
-                energy = Add(energy, SoftplusQ(acc[j], _tableLimit[j], _tableShift[j], _energyShift[j], "softplus"), "energy.sum");
+            for (int j = 0; j < h; j++) energy = Add(energy, SoftplusQ(acc[j], j), "energy.sum");
         }
         else
         {
@@ -201,7 +202,7 @@ public sealed class FixedPointSimulator
         int h = _h;
         var field = new long[h];
         var state = new bool[h];
-        for (int j = 0; j < h; j++) field[j] = ToEnergy(acc[j], _energyShift[j], "general.to_energy");
+        for (int j = 0; j < h; j++) field[j] = Chk(ToEnergy(acc[j], _energyShift[j], "to_energy", j), "score_term", j);
         var stack = new long[h + 1];
         long pe = _plan.LseTableLimit;
         int de = _plan.LseTableShift;
@@ -219,7 +220,7 @@ public sealed class FixedPointSimulator
                 {
                     if (l == k) continue;
                     long mlk = _m[l * h + k];
-                    field[l] = up ? Add(field[l], mlk, "general.field") : Chk(checked(field[l] - mlk), "general.field");
+                    field[l] = up ? Add(field[l], mlk, "field", l) : Chk(checked(field[l] - mlk), "field", l);
                 }
             }
             long val = score;
@@ -229,7 +230,7 @@ public sealed class FixedPointSimulator
                 long a = stack[lvl];
                 long m = a >= val ? a : val;
                 long dd = a >= val ? Chk(checked(a - val), "general.difference") : Chk(checked(val - a), "general.difference");
-                val = Add(m, GQ(dd, pe, de, "general.lse"), "general.tree");
+                val = Add(m, GQ(dd, pe, de, "general.lse."), "general.tree");
             }
             stack[lvl] = val;
         }

@@ -386,7 +386,9 @@ internal sealed class PlanSearch
         checks.Add(null, "energy.linear", linear);
         var baseRange = linear + latE;
         checks.Add(null, "energy.base", baseRange);
-        checks.Add(null, "energy.sum", new IntRange(baseRange.Min + Int128.Min(0, hiddenOut.Min), baseRange.Max + Int128.Max(0, hiddenOut.Max)));
+        var sum = new IntRange(baseRange.Min + Int128.Min(0, hiddenOut.Min), baseRange.Max + Int128.Max(0, hiddenOut.Max));
+        checks.Add(null, "energy.sum", sum);
+        checks.Add(null, "energy.result", -sum);
         if (!checks.Ok) return null;
 
         var budget = new ErrorBudget

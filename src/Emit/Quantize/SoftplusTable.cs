@@ -149,6 +149,29 @@ public sealed class SoftplusTable
         return result;
     }
 
+    /// <summary>
+    /// G_q(m) in plain integer arithmetic for a magnitude m ≥ 0 in format Q·.f (the generated code's lookup, see
+    /// <see cref="FixedPointSimulator"/>): 0 when m ≥ P; else with k = m &gt;&gt; d, r = m &amp; (2^d − 1):
+    /// T[k] when d = 0, otherwise T[k+1] + (((T[k] − T[k+1])·(2^d − r) + 2^(d−1)) &gt;&gt; d).
+    /// </summary>
+    public long LookupG(long m, int inputFractionBits)
+    {
+        if (m < 0) throw new ArgumentOutOfRangeException(nameof(m));
+        int d = IndexShift(inputFractionBits);
+        if (m >= Limit(inputFractionBits)) return 0;
+        int k = (int)(m >> d);
+        if (d == 0) return Entries[k];
+        long r = m & ((1L << d) - 1);
+        return Entries[k + 1] + (((Entries[k] - Entries[k + 1]) * ((1L << d) - r) + (1L << (d - 1))) >> d);
+    }
+
+    /// <summary>softplus_q(a) = (a &gt; 0 ? to_energy(a, f − E) : 0) + G_q(|a|), plain integer arithmetic.</summary>
+    public long LookupSoftplus(long a, int inputFractionBits)
+    {
+        long pos = a > 0 ? (long)FixedRounding.Rescale(a, inputFractionBits - FractionBits) : 0;
+        return pos + LookupG(Math.Abs(a), inputFractionBits);
+    }
+
     private double[][]? _minTable, _maxTable;
 
     /// <summary>min and max of the entry errors e_k for k ∈ [a, b] (sparse tables, O(1) per query).</summary>
