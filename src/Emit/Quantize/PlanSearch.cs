@@ -160,7 +160,8 @@ internal sealed class PlanSearch
     private static (IntRange Result, IntRange Intermediate) RescaleRange(IntRange r, int s)
     {
         var result = new IntRange(FixedRounding.Rescale(r.Min, s), FixedRounding.Rescale(r.Max, s));
-        var mid = s > 0 ? new IntRange(0, r.MaxAbs + Pow2(s - 1)) : Pow2(-s) * r;
+        // s ≤ 0: the constant factor 2^−s itself must be representable too.
+        var mid = s > 0 ? new IntRange(0, r.MaxAbs + Pow2(s - 1)) : (Pow2(-s) * r).Hull(IntRange.Point(Pow2(-s)));
         return (result, mid);
     }
 
