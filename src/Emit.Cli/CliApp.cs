@@ -24,15 +24,15 @@ public static class CliApp
         root.Options.Add(Verbose);
         foreach (var command in new ICliCommand[]
                  {
-                     new InspectCommand(), new ScoreCommand(), new LogzCommand(), new ImportCommand(), new DemoCommand(),
+                     new InspectCommand(), new ScoreCommand(), new LogzCommand(), new VectorsCommand(), new ImportCommand(), new DemoCommand(),
                  })
             root.Subcommands.Add(command.Build(ctx));
         return root;
     }
 
-    public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
+    public static int Run(string[] args, TextWriter stdout, TextWriter stderr, Stream? stdin = null)
     {
-        var ctx = new CliContext(stdout, stderr);
+        var ctx = new CliContext(stdout, stderr, stdin);
         var root = BuildRoot(ctx);
         var parse = root.Parse(args);
         bool verbose = parse.GetValue(Verbose);

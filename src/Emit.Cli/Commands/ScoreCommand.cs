@@ -1,13 +1,85 @@
 using System.CommandLine;
+using System.Text;
+using Emit.Model;
+using Emit.Reference;
+using Emit.Vectors;
 
 namespace Emit.Cli.Commands;
 
+/// <summary>
+/// <c>emit score MODEL --input DATA [--output FILE]</c>: the reference free energy of every vector, streamed in
+/// batches (constant memory), as CSV <c>index,free_energy[,log_probability][,unusual]</c>.
+/// </summary>
 public sealed class ScoreCommand : ICliCommand
 {
+    /// <summary>Vectors scored per parallel batch.</summary>
+    public const int BatchRows = 4096;
+
+    private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
+    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output)" };
+
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("score", "(not yet implemented)");
-        cmd.SetAction(_ => { ctx.Error.WriteLine("emit: score is not implemented yet"); return CliApp.BadInput; });
+        _model.AcceptExistingOnly();
+        var cmd = new Command("score", "Score vectors with the double-precision reference: free energy, log-probability (when the model has log Z) and the unusual flag (when it has a threshold)")
+        {
+            _model, _input, _output,
+        };
+        cmd.SetAction(parse =>
+        {
+            var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
+            using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
+            CheckNames(model, reader);
+            var output = parse.GetValue(_output);
+            if (output is null)
+            {
+                Score(model, reader, ctx.Out);
+            }
+            else
+            {
+                AtomicFile.Write(output.FullName, stream =>
+                {
+                    using var w = new StreamWriter(stream, new UTF8Encoding(false), 1 << 16) { NewLine = "\n" };
+                    Score(model, reader, w);
+                });
+            }
+            return CliApp.Ok;
+        });
         return cmd;
+    }
+
+    /// <summary>A header whose names differ from the model's means the columns are in another order: refuse.</summary>
+    private static void CheckNames(BoltzmannModel model, VectorReader reader)
+    {
+        if (model.Names.IsEmpty || reader.Names.IsEmpty) return;
+        for (int i = 0; i < model.Visible; i++)
+            if (reader.Names[i] != model.Names[i])
+                throw new EmitException($"column {i + 1} is named \"{reader.Names[i]}\" but the model's unit {i} is \"{model.Names[i]}\"",
+                    "put the columns in the model's order, or remove the header", reader.Source, reader.HeaderLine);
+    }
+
+    private static void Score(BoltzmannModel model, VectorReader reader, TextWriter w)
+    {
+        var scorer = new ReferenceScorer(model);
+        var fmt = System.Globalization.CultureInfo.InvariantCulture;
+        bool logP = model.LogPartition is not null, flag = model.Threshold is not null;
+        w.WriteLine("index,free_energy" + (logP ? ",log_probability" : "") + (flag ? ",unusual" : ""));
+        var units = new byte[BatchRows * model.Visible];
+        var f = new double[BatchRows];
+        long index = 0;
+        var line = new StringBuilder();
+        int rows;
+        while ((rows = reader.ReadBatch(units, BatchRows)) > 0)
+        {
+            scorer.FreeEnergies(units, rows, f);
+            for (int r = 0; r < rows; r++)
+            {
+                line.Clear().Append(index++).Append(',').Append(f[r].ToString("R", fmt));
+                if (logP) line.Append(',').Append(scorer.LogProbability(f[r]).ToString("R", fmt));
+                if (flag) line.Append(',').Append(f[r] > model.Threshold!.Value ? '1' : '0');
+                w.WriteLine(line);
+            }
+        }
     }
 }

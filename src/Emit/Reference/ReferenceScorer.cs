@@ -84,13 +84,21 @@ public sealed class ReferenceScorer
         if (units.Length < (long)rows * v || result.Length < rows) throw new ArgumentException("buffers too small");
         var input = units[..(rows * v)].ToArray();
         var output = new double[rows];
+        FreeEnergies(input, rows, output);
+        output.AsSpan(0, rows).CopyTo(result);
+    }
+
+    /// <summary>As the span overload, without copies: each chunk of 64 vectors is one parallel work item.</summary>
+    public void FreeEnergies(byte[] units, int rows, double[] result)
+    {
+        int v = _model.Visible;
+        if (units.Length < (long)rows * v || result.Length < rows) throw new ArgumentException("buffers too small");
         const int chunk = 64;
         Parallel.For(0, (rows + chunk - 1) / chunk, c =>
         {
             int end = Math.Min(rows, (c + 1) * chunk);
-            for (int r = c * chunk; r < end; r++) output[r] = FreeEnergy(input.AsSpan(r * v, v));
+            for (int r = c * chunk; r < end; r++) result[r] = FreeEnergy(units.AsSpan(r * v, v));
         });
-        output.CopyTo(result);
     }
 
     private static void AddRow(Span<double> acc, ReadOnlySpan<double> row)

@@ -1,0 +1,98 @@
+using System.Text.Json;
+using Emit.Model;
+
+namespace Emit.Tests.Cli;
+
+public sealed class InspectAndLogzTests
+{
+    private static string WriteModel(BoltzmannModel m)
+    {
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(m, path);
+        return path;
+    }
+
+    [Fact]
+    public void Inspect_json_reports_identity_sizes_and_exact_hidden_ranges()
+    {
+        var m = TestModels.Random(ModelKind.Lateral, 7, 3, 4);
+        var r = CliRunner.Run("inspect", WriteModel(m), "--json");
+        Assert.Equal(0, r.ExitCode);
+        var doc = JsonDocument.Parse(r.Out).RootElement;
+        Assert.Equal(m.Sha256, doc.GetProperty("sha256").GetString());
+        Assert.Equal(7, doc.GetProperty("visible").GetInt32());
+        Assert.Equal("lateral", doc.GetProperty("kind").GetString());
+        // The stated range is the true min/max of c_j + Σ v_i W_ij over all 2^7 vectors (brute force).
+        var ranges = doc.GetProperty("hidden_input_ranges");
+        for (int j = 0; j < 3; j++)
+        {
+            double lo = double.MaxValue, hi = double.MinValue;
+            for (int bits = 0; bits < 128; bits++)
+            {
+                double x = m.HiddenBias[j];
+                for (int i = 0; i < 7; i++) if (((bits >> i) & 1) != 0) x += m.Weight(i, j);
+                lo = Math.Min(lo, x); hi = Math.Max(hi, x);
+            }
+            Assert.Equal(lo, ranges[j].GetProperty("min").GetDouble(), 12);
+            Assert.Equal(hi, ranges[j].GetProperty("max").GetDouble(), 12);
+        }
+        Assert.Equal((7 * 3 + 7 + 3) * 4 + m.VisibleLinks.Length * 8, doc.GetProperty("table_bytes").GetProperty("f32").GetInt64());
+    }
+
+    [Fact]
+    public void Logz_json_and_store_round_trip()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 9, 4, 2);
+        var path = WriteModel(m);
+        var r = CliRunner.Run("logz", path, "--method", "exact", "--json", "--store");
+        Assert.Equal(0, r.ExitCode);
+        var doc = JsonDocument.Parse(r.Out).RootElement;
+        double logZ = doc.GetProperty("log_partition").GetDouble();
+        Assert.Equal(Emit.Tests.Reference.BruteForce.LogPartition(m), logZ, 10);
+        Assert.Equal("exact", doc.GetProperty("method").GetString());
+        Assert.Equal(16, doc.GetProperty("states").GetInt64());
+        Assert.Equal(logZ, ModelLoader.Load(path).LogPartition!.Value);
+    }
+
+    [Theory]
+    [InlineData("logz", "--method", "guess")]
+    [InlineData("inspect", "--bogus")]
+    [InlineData("inspect")]
+    public void Usage_errors_exit_2(params string[] args)
+    {
+        var m = WriteModel(TestModels.Random(ModelKind.Rbm, 3, 2, 1));
+        var r = CliRunner.Run(args.Length > 1 ? [args[0], m, .. args[1..]] : args);
+        Assert.Equal(2, r.ExitCode);
+        Assert.StartsWith("emit: error:", r.Error);
+    }
+
+    [Fact]
+    public void A_bad_model_is_one_line_with_file_and_line()
+    {
+        var path = Path.Combine(CliRunner.TempDir(), "bad.json");
+        File.WriteAllText(path, "{\"format\":\"emit.model\",\n\"version\":1,\n\"kind\":\"rbm\",\"visible\":2,\"hidden\":1,\n\"visible_bias\":[0,NaN]}");
+        var r = CliRunner.Run("inspect", path);
+        Assert.Equal(2, r.ExitCode);
+        Assert.Matches(@"^emit: error: .*bad\.json:4:\d+: ", r.Error);
+        Assert.Single(r.Error.TrimEnd('\n').Split('\n'));
+    }
+}
+
+public sealed class LogzAisCliTests
+{
+    [Fact]
+    public void Ais_reports_an_estimate_with_its_standard_error_and_stores_the_method()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 10, 6, 8, scale: 0.4);
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(m, path);
+        var r = CliRunner.Run("logz", path, "--method", "ais", "--chains", "100", "--steps", "400", "--json", "--store");
+        Assert.Equal(0, r.ExitCode);
+        var doc = JsonDocument.Parse(r.Out).RootElement;
+        double est = doc.GetProperty("log_partition").GetDouble(), se = doc.GetProperty("stderr").GetDouble();
+        Assert.InRange(est, Emit.Tests.Reference.BruteForce.LogPartition(m) - 5 * se - 0.01, Emit.Tests.Reference.BruteForce.LogPartition(m) + 5 * se + 0.01);
+        var stored = ModelLoader.Load(path).LogPartition!;
+        Assert.Equal("ais", stored.Method);
+        Assert.Equal(se, stored.Stderr);
+    }
+}
