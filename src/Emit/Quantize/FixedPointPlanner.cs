@@ -50,7 +50,7 @@ public static class FixedPointPlanner
         var p32 = search.Best(AccumulatorType.Int32) is { } c32 ? search.Refine(c32) : null;
         var p64 = (search.Best(AccumulatorType.Int64) is { } c64 ? search.Refine(c64) : null) ?? p32 ?? throw new EmitException(
             "no fixed-point format keeps every intermediate of this model within int64", "the model's weights are too large for fixed point");
-        if (p32 is not null && p32.F.AsSpan().SequenceEqual(p64.F) && p32.LateralF == p64.LateralF)
+        if (p32 is not null && p32.F.AsSpan().SequenceEqual(p64.F) && (p32.LateralF == p64.LateralF || model.VisibleLinks.IsEmpty))
             return search.Materialize(p32, "auto: int32 provably cannot overflow and keeps every weight at full precision");
         if (p32 is not null && p32.Budget.Bound <= p64.Budget.Bound * (1 + AutoTolerance))
             return search.Materialize(p32, "auto: int32 provably cannot overflow and its bound is within 5 % of int64's");

@@ -135,8 +135,12 @@ internal sealed class PlanSearch
     {
         Candidate? best = null;
         int logN = System.Numerics.BitOperations.Log2((uint)_o.SoftplusTableSize);
+        double reach = _real.Hidden.Select(r => r.MaxAbs).DefaultIfEmpty(0).Max();
+        if (_m.Kind == ModelKind.General) reach = Math.Max(reach, 2 * _energyMagnitude);
         for (int rho = FixedPointPlanner.MinRangeLog2; rho <= FixedPointPlanner.MaxRangeLog2; rho++)
         {
+            // A table reaching past every input only gets coarser as R grows further.
+            if (best is not null && Math.ScaleB(1.0, rho - 1) > reach) break;
             int step = logN - rho;
             for (int e = FixedPointPlanner.MaxEnergyFractionBits; e >= 0; e--)
             {

@@ -31,6 +31,13 @@ public sealed class FixedPointPlannerTests
         var m = TestModels.Random(ModelKind.Rbm, 50, 20, 1, scale: 0.6);
         var p16 = FixedPointPlanner.Build(m, new FixedPointOptions(WeightType.Int16));
         Assert.Equal(AccumulatorType.Int32, p16.Accumulator);
+        // A wide layer: int32 needs a smaller E but stores the same weights, so auto still takes int32.
+        var wide = TestModels.Random(ModelKind.Rbm, 300, 120, 2, scale: 0.6);
+        var pw = FixedPointPlanner.Build(wide, new FixedPointOptions(WeightType.Int16));
+        var pw64 = FixedPointPlanner.Build(wide, new FixedPointOptions(WeightType.Int16, AccumulatorType.Int64));
+        Assert.Equal(AccumulatorType.Int32, pw.Accumulator);
+        Assert.True(pw.EnergyFractionBits < pw64.EnergyFractionBits);
+        Assert.Equal(pw64.Weights.ToArray(), pw.Weights.ToArray());
         var p32 = FixedPointPlanner.Build(m, new FixedPointOptions(WeightType.Int32));
         Assert.Equal(AccumulatorType.Int64, p32.Accumulator);
         Assert.Contains("auto", p32.AccumulatorReason);
