@@ -172,12 +172,15 @@ public sealed class SoftplusTable
         return pos + LookupG(Math.Abs(a), inputFractionBits);
     }
 
-    private double[][]? _minTable, _maxTable;
+    private sealed record SparseTables(double[][] Min, double[][] Max);
+
+    private SparseTables? _sparse;  // built on first use; one reference, so concurrent readers see whole tables
 
     /// <summary>min and max of the entry errors e_k for k ∈ [a, b] (sparse tables, O(1) per query).</summary>
     private (double Lo, double Hi) EntryErrorRange(int a, int b)
     {
-        if (_minTable is null)
+        var sparse = _sparse;
+        if (sparse is null)
         {
             int n = _entryError.Length, levels = BitOperations.Log2((uint)n) + 1;
             var mins = new double[levels][];
@@ -195,12 +198,11 @@ public sealed class SoftplusTable
                     maxs[l][i] = Math.Max(maxs[l - 1][i], maxs[l - 1][i + span / 2]);
                 }
             }
-            _maxTable = maxs;
-            _minTable = mins;
+            _sparse = sparse = new SparseTables(mins, maxs);
         }
         int lv = BitOperations.Log2((uint)(b - a + 1));
         int second = b - (1 << lv) + 1;
-        return (Math.Min(_minTable[lv][a], _minTable[lv][second]), Math.Max(_maxTable![lv][a], _maxTable[lv][second]));
+        return (Math.Min(sparse.Min[lv][a], sparse.Min[lv][second]), Math.Max(sparse.Max[lv][a], sparse.Max[lv][second]));
     }
 
     /// <summary>

@@ -82,6 +82,19 @@ public sealed class FixedPointSimulatorTests
         }
     }
 
+    [Theory]
+    [InlineData(ModelKind.Rbm, 6, 0)]
+    [InlineData(ModelKind.General, 5, 0)]
+    [InlineData(ModelKind.Rbm, 1, 1)]
+    [InlineData(ModelKind.Lateral, 2, 1)]
+    [InlineData(ModelKind.General, 1, 1)]
+    [InlineData(ModelKind.General, 3, 16)]
+    public void Edge_shapes_work(ModelKind kind, int v, int h)
+    {
+        var m = TestModels.Random(kind, v, h, 5, scale: 1.0, linkDensity: 0.2);
+        AssertExhaustive(FixedPointPlanner.Build(m));
+    }
+
     private static void AssertExhaustive(FixedPointPlan plan)
     {
         var claimed = plan.Checks.ToDictionary(c => c.Name);
