@@ -1,13 +1,83 @@
 using System.CommandLine;
+using System.Globalization;
+using Emit.Demo;
+using Emit.Model;
+using Emit.Reference;
+using Emit.Vectors;
 
 namespace Emit.Cli.Commands;
 
+/// <summary>
+/// <c>emit demo [--data DIR]</c>: runs the pipeline on the shipped reefer-fleet demo (demo-data/): the model,
+/// its exact log Z, and how its threshold separates the normal and faulty logs, fault by fault.
+/// </summary>
 public sealed class DemoCommand : ICliCommand
 {
+    private readonly Option<DirectoryInfo?> _data = new("--data") { Description = "Folder with the demo files (default: demo-data/ in this folder or a parent)" };
+
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("demo", "(not yet implemented)");
-        cmd.SetAction(_ => { ctx.Error.WriteLine("emit: demo is not implemented yet"); return CliApp.BadInput; });
+        var cmd = new Command("demo", "Run emit on the shipped demo: an invented fleet of refrigerated containers reporting 56 status flags")
+        {
+            _data,
+        };
+        cmd.SetAction(parse =>
+        {
+            var dir = parse.GetValue(_data)?.FullName ?? FindDemoData();
+            Run(ctx.Out, dir);
+            return CliApp.Ok;
+        });
         return cmd;
+    }
+
+    /// <summary>demo-data/ in the current folder or the nearest parent that has one, else next to the tool.</summary>
+    private static string FindDemoData()
+    {
+        foreach (var start in new[] { Directory.GetCurrentDirectory(), AppContext.BaseDirectory })
+            for (var d = new DirectoryInfo(start); d is not null; d = d.Parent)
+                if (File.Exists(Path.Combine(d.FullName, "demo-data", DemoData.ModelFileName)))
+                    return Path.Combine(d.FullName, "demo-data");
+        throw new EmitException("cannot find demo-data/ here or in a parent folder", "run from the emit repository, or pass --data DIR");
+    }
+
+    private static void Run(TextWriter o, string dir)
+    {
+        string P(string file) => Path.Combine(dir, file);
+        var inv = CultureInfo.InvariantCulture;
+        var model = ModelLoader.Load(P(DemoData.ModelFileName));
+        o.WriteLine("emit demo: a fleet of refrigerated containers (invented scenario, see demo-data/README.md)");
+        o.WriteLine();
+        o.WriteLine($"1. model     {DemoData.ModelFileName}: {model.Kind.ToText()}, {model.Visible} status flags, {model.Hidden} hidden units");
+        o.WriteLine($"             sha256 {model.Sha256}");
+        var threshold = model.Threshold ?? throw new EmitException("the demo model has no threshold", null, P(DemoData.ModelFileName));
+        o.WriteLine($"             threshold F(v) > {threshold.ToString("R", inv)} means unusual");
+
+        var z = ExactLogPartition.Compute(model);
+        o.WriteLine($"2. log Z     {z.LogPartition.ToString("F6", inv)} (exact over {z.Enumerated}, {z.Seconds:F2} s)");
+
+        var normal = Score(model, P(DemoData.NormalFileName));
+        var faulty = Score(model, P(DemoData.FaultyFileName));
+        int normalFlagged = normal.Count(f => f > threshold), faultyFlagged = faulty.Count(f => f > threshold);
+        o.WriteLine($"3. scoring   {DemoData.NormalFileName}: {normalFlagged} of {normal.Count} flagged ({100.0 * normalFlagged / normal.Count:F2} % false alarms)");
+        o.WriteLine($"             {DemoData.FaultyFileName}: {faultyFlagged} of {faulty.Count} flagged ({100.0 * faultyFlagged / faulty.Count:F2} % detected)");
+        var median = normal.Order().ElementAt(normal.Count / 2);
+        o.WriteLine($"             median F on normal logs {median.ToString("F3", inv)}; mean log p(v) {normal.Average(f => -f - z.LogPartition).ToString("F3", inv)} nats");
+
+        var faults = File.ReadLines(P("faults.csv")).Skip(1).Select(l => l.Split(',')[1]).ToList();
+        o.WriteLine("             detected by fault:");
+        foreach (var g in faults.Select((name, i) => (name, flagged: faulty[i] > threshold)).GroupBy(x => x.name).OrderByDescending(g => g.Count(x => x.flagged) / (double)g.Count()))
+            o.WriteLine($"               {g.Key,-32} {g.Count(x => x.flagged),3} / {g.Count(),-3}");
+        o.WriteLine();
+        o.WriteLine("Caution: this detector is a monitoring aid, not a safety function; defer to local codes and licensed practice.");
+    }
+
+    private static List<double> Score(BoltzmannModel model, string path)
+    {
+        var scorer = new ReferenceScorer(model);
+        using var reader = VectorReader.Open(path, model.Visible);
+        var list = new List<double>();
+        var row = new byte[model.Visible];
+        while (reader.TryRead(row)) list.Add(scorer.FreeEnergy(row));
+        return list;
     }
 }

@@ -111,7 +111,7 @@ public static class ModelJson
             for (int i = 0; i < m.Names.Length; i++)
             {
                 if (i > 0) sb.Append(sep);
-                sb.Append(JsonSerializer.Serialize(m.Names[i]));
+                sb.Append('"').Append(JsonEncodedText.Encode(m.Names[i]).Value).Append('"');
             }
             sb.Append(']');
         }
@@ -133,7 +133,7 @@ public static class ModelJson
         {
             Key("log_partition");
             sb.Append("{\"value\"").Append(colon).Append(Number(lp.Value)).Append(sep)
-              .Append("\"method\"").Append(colon).Append(JsonSerializer.Serialize(lp.Method)).Append(sep)
+              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value).Append('"').Append(sep)
               .Append("\"stderr\"").Append(colon).Append(Number(lp.Stderr)).Append('}');
         }
         if (includeMetadata && m.MetadataJson is { } meta) { Key("metadata"); sb.Append(meta); }
@@ -223,11 +223,18 @@ public static class ModelJson
             return (int)v;
         }
 
+        /// <summary>The current string token; invalid UTF-8 inside it is the tool's error, not the JSON reader's.</summary>
+        private string Text()
+        {
+            try { return _r.GetString()!; }
+            catch (InvalidOperationException) { throw Error("text is not valid UTF-8", "save the file as UTF-8"); }
+        }
+
         private string String(string field)
         {
             Read();
             Expect(JsonTokenType.String, $"a string for {field}");
-            return _r.GetString()!;
+            return Text();
         }
 
         private ImmutableArray<double> NumberArray(string field)
@@ -269,7 +276,7 @@ public static class ModelJson
                 Read();
                 if (_r.TokenType == JsonTokenType.EndObject) break;
                 Expect(JsonTokenType.PropertyName, "a field name");
-                string key = _r.GetString()!;
+                string key = Text();
                 long keyOffset = _r.TokenStartIndex;
                 if (!seen.Add(key)) throw Error($"field \"{key}\" appears twice");
                 switch (key)
@@ -303,7 +310,7 @@ public static class ModelJson
                                 Read();
                                 if (_r.TokenType == JsonTokenType.EndArray) break;
                                 Expect(JsonTokenType.String, "a string in names");
-                                b.Add(_r.GetString()!);
+                                b.Add(Text());
                             }
                             names = b.ToImmutable();
                             break;
@@ -463,7 +470,7 @@ public static class ModelJson
             {
                 Read();
                 if (_r.TokenType == JsonTokenType.EndObject) break;
-                string k = _r.GetString()!;
+                string k = Text();
                 switch (k)
                 {
                     case "value": value = Number("log_partition.value"); break;
