@@ -2,6 +2,7 @@ using System.CommandLine;
 using System.Globalization;
 using System.Text.Json;
 using Emit.Model;
+using Emit.Quantize;
 
 namespace Emit.Cli.Commands;
 
@@ -10,21 +11,26 @@ public sealed class InspectCommand : ICliCommand
 {
     private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
     private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON" };
+    private readonly Option<string?> _numeric = new("--numeric") { Description = "Also plan this numeric mode: fixed (Q formats, proved error bound, table sizes)" };
+    private readonly FixedPointOptionSet _fixed = new();
 
     public Command Build(CliContext ctx)
     {
         _model.AcceptExistingOnly();
         var cmd = new Command("inspect", "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and SHA-256")
         {
-            _model, _json,
+            _model, _json, _numeric,
         };
+        _numeric.AcceptOnlyFromAmong("fixed");
+        _fixed.AddTo(cmd);
         cmd.SetAction(parse =>
         {
             var path = parse.GetRequiredValue(_model).FullName;
             var model = ModelLoader.Load(path);
             var stats = ModelStatistics.Of(model);
-            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats);
-            else WriteText(ctx.Out, path, model, stats);
+            var plan = parse.GetValue(_numeric) == "fixed" ? FixedPointPlanner.Build(model, _fixed.Read(parse)) : null;
+            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan);
+            else WriteText(ctx.Out, path, model, stats, plan);
             return CliApp.Ok;
         });
         return cmd;
@@ -32,7 +38,7 @@ public sealed class InspectCommand : ICliCommand
 
     private static string N(double x) => x.ToString("G6", CultureInfo.InvariantCulture);
 
-    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s)
+    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan)
     {
         o.WriteLine($"model          {path}");
         o.WriteLine($"sha256         {m.Sha256}");
@@ -59,9 +65,20 @@ public sealed class InspectCommand : ICliCommand
             o.WriteLine($"  h{j,-5} {N(s.HiddenInputRanges[j].Min),12} .. {N(s.HiddenInputRanges[j].Max)}");
         o.WriteLine();
         o.WriteLine("table bytes    " + string.Join("  ", s.TableBytes.Select(kv => $"{kv.Key} {kv.Value}")));
+        if (plan is null) return;
+        o.WriteLine();
+        o.WriteLine($"fixed point    {plan.WeightType.ToText()} weights, {plan.Accumulator.ToText()} accumulator ({plan.AccumulatorReason})");
+        o.WriteLine($"  energy       {plan.EnergyFormat} (real = value / 2^{plan.EnergyFractionBits})");
+        o.WriteLine($"  weights      {plan.WeightFormatSummary}");
+        o.WriteLine($"  accumulators {plan.AccumulatorFormatSummary}");
+        if (!plan.Lateral.IsEmpty) o.WriteLine($"  lateral      {plan.LateralFormat}");
+        o.WriteLine($"  softplus     {plan.Table.Segments} segments over [0, {N(plan.Table.Range)}], entries {plan.Table.EntryFormat}, {plan.TableBytes} bytes");
+        o.WriteLine($"  rounding     half away from zero; no division, no left shift of negative values");
+        o.WriteLine($"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all binary vectors");
+        o.WriteLine($"  table bytes  weights {plan.WeightBytes}, softplus table {plan.TableBytes}");
     }
 
-    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s) => JsonOut.Write(o, w =>
+    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan) => JsonOut.Write(o, w =>
     {
         w.WriteStartObject();
         w.WriteString("model", path);
@@ -112,6 +129,49 @@ public sealed class InspectCommand : ICliCommand
         w.WriteStartObject("table_bytes");
         foreach (var kv in s.TableBytes) w.WriteNumber(kv.Key, kv.Value);
         w.WriteEndObject();
+        if (plan is not null)
+        {
+            w.WriteNumber("error_bound", plan.ErrorBound);
+            w.WriteStartObject("fixed_point");
+            w.WriteString("weights", plan.WeightType.ToText());
+            w.WriteString("accumulator", plan.Accumulator.ToText());
+            w.WriteString("accumulator_reason", plan.AccumulatorReason);
+            w.WriteString("energy_format", plan.EnergyFormat.ToString());
+            w.WriteNumber("energy_scale", plan.EnergyScale);
+            w.WriteString("weight_formats", plan.WeightFormatSummary);
+            w.WriteString("accumulator_formats", plan.AccumulatorFormatSummary);
+            if (!plan.Lateral.IsEmpty) w.WriteString("lateral_format", plan.LateralFormat.ToString());
+            w.WriteStartArray("hidden_units");
+            foreach (var u in plan.Units)
+            {
+                w.WriteStartObject();
+                w.WriteString("weight_format", u.WeightFormat.ToString());
+                w.WriteString("accumulator_format", u.AccumulatorFormat.ToString());
+                w.WriteNumber("error_max_abs", u.Error.MaxAbs);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            w.WriteStartObject("softplus_table");
+            w.WriteNumber("segments", plan.Table.Segments);
+            w.WriteNumber("range", plan.Table.Range);
+            w.WriteString("entry_format", plan.Table.EntryFormat.ToString());
+            w.WriteNumber("bytes", plan.TableBytes);
+            w.WriteEndObject();
+            w.WriteString("rounding", "half away from zero");
+            w.WriteNumber("error_bound", plan.ErrorBound);
+            w.WriteStartObject("error_parts");
+            void Part(string name, ErrorInterval e) { w.WriteStartArray(name); w.WriteNumberValue(e.Lo); w.WriteNumberValue(e.Hi); w.WriteEndArray(); }
+            Part("visible_bias", plan.Error.VisibleBias);
+            Part("lateral", plan.Error.Lateral);
+            Part("hidden_inputs", plan.Error.HiddenInputs);
+            Part("softplus", plan.Error.Softplus);
+            Part("log_sum_exp", plan.Error.LogSumExp);
+            Part("total", plan.Error.Total);
+            w.WriteNumber("slack", plan.Error.Slack);
+            w.WriteEndObject();
+            w.WriteNumber("weight_bytes", plan.WeightBytes);
+            w.WriteEndObject();
+        }
         w.WriteEndObject();
     });
 }

@@ -96,3 +96,42 @@ public sealed class LogzAisCliTests
         Assert.Equal(se, stored.Stderr);
     }
 }
+
+public sealed class InspectFixedPointTests
+{
+    [Theory]
+    [InlineData("int16")]
+    [InlineData("int8")]
+    public void Stated_error_bound_holds_for_every_vector_of_a_small_model(string weights)
+    {
+        // Exhaustive: all 2^10 vectors, integer simulator against the double reference.
+        var m = TestModels.Random(ModelKind.Lateral, 10, 6, 3, scale: 0.6, linkDensity: 0.2);
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(m, path);
+        var r = CliRunner.Run("inspect", path, "--numeric", "fixed", "--weights", weights, "--json");
+        Assert.Equal(0, r.ExitCode);
+        var doc = JsonDocument.Parse(r.Out).RootElement;
+        double bound = doc.GetProperty("error_bound").GetDouble();
+        Assert.Equal(weights, doc.GetProperty("fixed_point").GetProperty("weights").GetString());
+        Assert.Matches(@"^Q\d+\.\d+$", doc.GetProperty("fixed_point").GetProperty("energy_format").GetString());
+        var sim = new Emit.Quantize.FixedPointSimulator(Emit.Quantize.FixedPointPlanner.Build(m, new(Emit.Quantize.WeightTypeInfo.Parse(weights)!.Value)));
+        var reference = new Emit.Reference.ReferenceScorer(m);
+        double worst = 0;
+        for (int bits = 0; bits < 1 << 10; bits++)
+        {
+            var v = TestModels.Bits(bits, 10);
+            worst = Math.Max(worst, Math.Abs(sim.FreeEnergyReal(v) - reference.FreeEnergy(v)));
+        }
+        Assert.True(worst <= bound, $"measured {worst} > stated {bound}");
+        Assert.True(worst > 0);
+    }
+
+    [Fact]
+    public void Bad_fixed_point_options_exit_2()
+    {
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 4, 2, 1), path);
+        Assert.Equal(2, CliRunner.Run("inspect", path, "--numeric", "fixed", "--softplus-table", "100").ExitCode);
+        Assert.Equal(2, CliRunner.Run("inspect", path, "--numeric", "fixed", "--weights", "int4").ExitCode);
+    }
+}
