@@ -149,4 +149,33 @@ public sealed class CompileCommandTests
         var (_, stdout, _) = Emit("compile", "--help");
         Assert.Contains(Targets.NameList, stdout);
     }
+
+    [Fact]
+    public void A_failed_write_leaves_the_folder_as_it_was()
+    {
+        var dir = Toolchain.TempDir("cli");
+        var outDir = Path.Combine(dir, "out");
+        Assert.Equal(0, Emit("compile", ModelFile(dir, "m.json", Small), "--out", outDir).Exit);
+        string Snapshot() => string.Join("\n--\n", Directory.GetFileSystemEntries(outDir).Order().Select(p => p + (File.Exists(p) ? "\n" + File.ReadAllText(p) : "/")));
+        var other = ModelFile(dir, "other.json", TestModels.Random(ModelKind.Rbm, 5, 2, seed: 3));
+
+        // the second file's temporary name is taken by a folder: writing fails before anything is renamed
+        var blocker = Path.Combine(outDir, ".m.c." + Environment.ProcessId + ".tmp");
+        Directory.CreateDirectory(blocker);
+        var before = Snapshot();
+        var (exit, _, err) = Emit("compile", other, "--name", "m", "--out", outDir);
+        Assert.Equal(2, exit);
+        Assert.StartsWith("emit: error: ", err);
+        Assert.Equal(before, Snapshot());
+        Directory.Delete(blocker);
+
+        // an output name taken by a folder is refused before anything is written
+        File.Delete(Path.Combine(outDir, "m.c"));
+        Directory.CreateDirectory(Path.Combine(outDir, "m.c"));
+        before = Snapshot();
+        (exit, _, err) = Emit("compile", other, "--name", "m", "--out", outDir);
+        Assert.Equal(2, exit);
+        Assert.Contains("a folder has the name of an output file", err);
+        Assert.Equal(before, Snapshot());
+    }
 }
