@@ -78,11 +78,24 @@ internal static class Toolchain
         return output;
     }
 
-    /// <summary>A fresh temporary folder.</summary>
+    private static readonly List<string> Created = [];
+
+    /// <summary>A fresh temporary folder, deleted when the test process exits (kept when EMIT_KEEP_TEMP=1, for debugging).</summary>
     public static string TempDir(string what)
     {
         var dir = Path.Combine(Path.GetTempPath(), "emit-tests", what + "-" + Guid.NewGuid().ToString("N")[..8]);
         Directory.CreateDirectory(dir);
+        lock (Created)
+        {
+            if (Created.Count == 0 && Environment.GetEnvironmentVariable("EMIT_KEEP_TEMP") != "1")
+                AppDomain.CurrentDomain.ProcessExit += (_, _) =>
+                {
+                    lock (Created)
+                        foreach (var d in Created)
+                            try { Directory.Delete(d, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+                };
+            Created.Add(dir);
+        }
         return dir;
     }
 
