@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using System.Text.Json;
+using Emit.Emission;
 using Emit.Model;
 using Emit.Quantize;
 
@@ -76,6 +77,9 @@ public sealed class InspectCommand : ICliCommand
         o.WriteLine($"  rounding     half away from zero; no division, no left shift of negative values");
         o.WriteLine($"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all binary vectors");
         o.WriteLine($"  table bytes  weights {plan.WeightBytes}, softplus table {plan.TableBytes}");
+        var fp = CortexM0Footprint.Predict(plan);
+        o.WriteLine($"  cortex-m0    predicted flash {fp.FlashBytes} bytes (tables {fp.TableBytes}, code {fp.CodeBytes}), " +
+                    $"worst-case stack {fp.StackBytes} bytes (gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors)");
     }
 
     private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan) => JsonOut.Write(o, w =>
@@ -170,6 +174,10 @@ public sealed class InspectCommand : ICliCommand
             w.WriteNumber("slack", plan.Error.Slack);
             w.WriteEndObject();
             w.WriteNumber("weight_bytes", plan.WeightBytes);
+            var fp = CortexM0Footprint.Predict(plan);
+            w.WriteNumber("predicted_flash_bytes", fp.FlashBytes);
+            w.WriteNumber("predicted_stack_bytes", fp.StackBytes);
+            w.WriteString("footprint_target", $"cortex-m0, gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
             w.WriteEndObject();
         }
         w.WriteEndObject();

@@ -1,0 +1,72 @@
+using Emit.Model;
+using Emit.Quantize;
+
+namespace Emit.Emission;
+
+/// <summary>
+/// Predicted flash and worst-case stack of the generated fixed-point C on a Cortex-M0 (gcc, <c>-mcpu=cortex-m0 -mthumb
+/// -Os</c>), for <c>emit inspect</c>. Flash = the tables, whose sizes follow exactly from the plan (each rounded up to
+/// its alignment), plus the code, a constant per model kind, accumulator width and row-adding scheme measured on
+/// builds with Debian's arm-none-eabi-gcc 12.2 (docs/generated-code.md lists them). Stack = the scorer's frame
+/// (its arrays of accumulators, plus a constant for saved registers and spills, measured the same way and rounded
+/// up), plus the caller's frame (<c>NAME_free_energy_units</c> packs the input on the stack), plus an allowance for
+/// the C library and libgcc helpers the compiler may call (<c>memcpy</c>, <c>memset</c>, 64-bit shifts and
+/// multiplication), whose frames the generated code's own stack figures do not include. The stack figure is meant
+/// as an upper bound; the flash figure as an estimate within 15 % + 256 bytes. Helpers linked from the libraries
+/// (a few hundred bytes with an int64 accumulator) are not in the flash figure.
+/// </summary>
+public static class CortexM0Footprint
+{
+    /// <summary>Stack allowed for library helpers (the deepest of them pushes five registers, 20 bytes, and may call one more that pushes two).</summary>
+    public const int LibraryStackAllowance = 32;
+
+    /// <summary>Predicts the footprint of <c>emit compile --numeric fixed</c> output with <paramref name="selfTestVectors"/> embedded inputs.</summary>
+    public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors)
+    {
+        var m = plan.Model;
+        int v = m.Visible, h = m.Hidden, links = m.VisibleLinks.Length, packed = (v + 7) / 8;
+        bool wide = plan.Accumulator == AccumulatorType.Int64;
+        int a = wide ? 8 : 4, w = plan.WeightType.Bits() / 8;
+        bool general = m.Kind == ModelKind.General;
+        bool uniform = h > 0 && plan.Units.All(u => u.FractionBits == plan.Units[0].FractionBits);
+        int tableEntry = plan.Table.EntryFormat.TotalBits / 8;
+
+        long tables = Table(v, a) + Table(selfTestVectors * packed, 1) + Table(selfTestVectors, a);
+        if (h > 0)
+        {
+            tables += Table(h, a) + Table(v * h, w) + Table(plan.Table.Segments + 1, tableEntry);
+            if (!uniform) tables += Table(h, 1);
+            if (general) tables += Table(h * h, a);
+        }
+        if (links > 0)
+        {
+            int index = links <= 0xFFFF ? 2 : 4, other = v <= 0x10000 ? 2 : 4;
+            tables += Table(v + 1, index) + Table(links, other) + Table(links, w);
+        }
+
+        bool pairs = plan.WeightType.Bits() < plan.Accumulator.Bits();
+        int code = (h == 0, general, wide) switch
+        {
+            (true, _, false) => 200,
+            (true, _, true) => 220,
+            // the hidden-state walk: the compiler simplifies it for one or two hidden units
+            (false, true, false) => Math.Min(770, 300 + 120 * h),
+            (false, true, true) => Math.Min(1150, 420 + 180 * h),
+            (false, false, false) => pairs ? 480 : 360,
+            (false, false, true) => 840,
+        };
+        if (links > 0) code += wide ? 100 : 80;
+
+        int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
+            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? 176 : 64);
+        int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
+        return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
+    }
+
+    /// <summary>Bytes of a table of <paramref name="count"/> elements of <paramref name="size"/> bytes, rounded up to a word (8 bytes for 64-bit elements).</summary>
+    private static long Table(long count, int size)
+    {
+        int align = size == 8 ? 8 : 4;
+        return (count * size + align - 1) / align * align;
+    }
+}
