@@ -126,6 +126,22 @@ public sealed class InspectFixedPointTests
         Assert.True(worst > 0);
     }
 
+    /// <summary>The footprint prediction reaches both outputs; the Arm toolchain checks its values (CortexM0Tests).</summary>
+    [Fact]
+    public void Inspect_states_the_predicted_cortex_m0_flash_and_stack()
+    {
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 50, 20, 1), path);
+        var json = JsonDocument.Parse(CliRunner.Run("inspect", path, "--numeric", "fixed", "--json").Out).RootElement.GetProperty("fixed_point");
+        long flash = json.GetProperty("predicted_flash_bytes").GetInt64();
+        long stack = json.GetProperty("predicted_stack_bytes").GetInt64();
+        Assert.True(flash > 50 * 20 * 2, $"flash {flash} is below the int16 weight table alone");
+        Assert.InRange(stack, 20 * 4, 4096);
+        var text = CliRunner.Run("inspect", path, "--numeric", "fixed").Out;
+        Assert.Contains($"predicted flash {flash} bytes", text);
+        Assert.Contains($"worst-case stack {stack} bytes", text);
+    }
+
     [Fact]
     public void Bad_fixed_point_options_exit_2()
     {
