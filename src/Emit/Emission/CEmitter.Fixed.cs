@@ -161,7 +161,9 @@ public sealed partial class CEmitter
             IsGeneral = general,
             HasLinks = plan.LinkCount > 0,
             LinkCount = plan.LinkCount,
-            PairRows = plan.PairRows,
+            GroupRows = plan.GroupRows,
+            RowBlocks = plan.Hidden >= FixedScorerPlan.RowBlock,
+            RowRemainder = plan.Hidden % FixedScorerPlan.RowBlock != 0,
             NeedsToEnergy = plan.LinkCount > 0 || hasHidden,
 
             VisibleBiasRows = Trim(visibleBias.ToString()),
@@ -195,7 +197,7 @@ public sealed partial class CEmitter
             SoftplusComment = hasHidden && !general ? FixedText.CComment(FixedText.SoftplusLines(plan)) : "",
             Lse2Comment = hasHidden && general ? FixedText.CComment(FixedText.Lse2Lines(plan)) : "",
             LogSumExpComment = hasHidden && general ? FixedText.CComment(FixedText.LogSumExpLines(plan)) : "",
-            FreeEnergyComment = FixedText.CComment(FixedText.FreeEnergyLines(plan, boundName)),
+            FreeEnergyComment = FixedText.CComment(FixedText.FreeEnergyLines(plan, boundName, rowsAtATime: 4)),
 
             SelfTestVectorRows = Trim(vectors.ToString()),
             SelfTestExpectedRows = Trim(expected.ToString()),

@@ -33,7 +33,9 @@ public sealed class CFixedFileModel : CHeaderModel
     public required bool IsGeneral { get; init; }
     public required bool HasLinks { get; init; }
     public required int LinkCount { get; init; }
-    public required bool PairRows { get; init; }
+    public required bool GroupRows { get; init; }
+    public required bool RowBlocks { get; init; }
+    public required bool RowRemainder { get; init; }
     public required bool NeedsToEnergy { get; init; }
 
     // source: tables

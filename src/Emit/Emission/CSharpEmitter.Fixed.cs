@@ -118,7 +118,7 @@ public sealed partial class CSharpEmitter
             HasHidden = hasHidden,
             IsGeneral = general,
             HasLinks = plan.LinkCount > 0,
-            PairRows = plan.PairRows,
+            GroupRows = plan.GroupRows,
             NeedsToEnergy = plan.LinkCount > 0 || hasHidden,
             HasFractionBitsTable = hasHidden && plan.UniformFractionBits is null,
 
@@ -144,7 +144,7 @@ public sealed partial class CSharpEmitter
             WeightFormatText = hasHidden ? FixedText.FormatList(f.Units.Select(u => u.WeightFormat)) : "",
 
             FormatComment = C(FixedText.FormatLines(plan)),
-            FreeEnergyComment = C(FixedText.FreeEnergyLines(plan, "ErrorBound")),
+            FreeEnergyComment = C(FixedText.FreeEnergyLines(plan, "ErrorBound", rowsAtATime: 2)),
             ToEnergyComment = plan.LinkCount > 0 || hasHidden ? C(FixedText.ToEnergyLines(plan)) : "",
             LookupComment = hasHidden ? C(FixedText.LookupLines(plan)) : "",
             SoftplusComment = hasHidden && !general ? C(FixedText.SoftplusLines(plan)) : "",

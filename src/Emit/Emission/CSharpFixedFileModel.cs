@@ -27,7 +27,7 @@ public sealed class CSharpFixedFileModel
     public required bool HasHidden { get; init; }
     public required bool IsGeneral { get; init; }
     public required bool HasLinks { get; init; }
-    public required bool PairRows { get; init; }
+    public required bool GroupRows { get; init; }
     public required bool NeedsToEnergy { get; init; }
     public required bool HasFractionBitsTable { get; init; }
 

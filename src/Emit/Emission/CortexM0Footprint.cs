@@ -52,13 +52,13 @@ public static class CortexM0Footprint
             // the hidden-state walk: the compiler simplifies it for one or two hidden units
             (false, true, false) => Math.Min(770, 300 + 120 * h),
             (false, true, true) => Math.Min(1150, 420 + 180 * h),
-            (false, false, false) => pairs ? 480 : 360,
-            (false, false, true) => 840,
+            (false, false, false) => pairs ? 510 : 360,
+            (false, false, true) => 860,
         };
         if (links > 0) code += wide ? 100 : 80;
 
         int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
-            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? 176 : 64);
+            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? 176 : 64) + (pairs ? 16 : 0);
         int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
         return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
     }

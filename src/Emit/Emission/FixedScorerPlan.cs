@@ -53,10 +53,19 @@ public sealed class FixedScorerPlan : ScorerPlan
     public ImmutableArray<long> HiddenPairs { get; private set; }
 
     /// <summary>
-    /// Weight rows are added two at a time (acc += w1 + w2) when the sum of two weights always fits the accumulator,
-    /// i.e. when weights are narrower than the accumulator; otherwise one at a time.
+    /// Weight rows are added several at a time (C: four, acc += r0 + r1 + r2 + r3; C#: two) when a sum of four weights
+    /// always fits the accumulator, i.e. when weights are narrower than the accumulator (4 · (2^15 − 1) &lt; 2^31,
+    /// 4 · (2^31 − 1) &lt; 2^63); otherwise one at a time. Every value an accumulator takes is still the accumulator of
+    /// some binary input, which the range analysis covers.
     /// </summary>
-    public bool PairRows => WeightBits < AccumulatorBits;
+    public bool GroupRows => WeightBits < AccumulatorBits;
+
+    /// <summary>
+    /// The C row additions run over blocks of this many hidden units (then the rest one by one): gcc at -O2 (its
+    /// "very cheap" vectorizer) turns a fixed-length inner loop into full-width vector code, which a plain loop over a
+    /// widening int8/int16 → int32 addition does not get (measured on bench/generated-c, docs/benchmarks.md).
+    /// </summary>
+    public const int RowBlock = 16;
 
     /// <summary>
     /// The threshold in energy units: floor(t · 2^E), so for every integer f, f &gt; this exactly when f / 2^E &gt; t;

@@ -201,7 +201,7 @@ internal static class FixedText
         ];
     }
 
-    public static IReadOnlyList<string> FreeEnergyLines(FixedScorerPlan p, string boundName)
+    public static IReadOnlyList<string> FreeEnergyLines(FixedScorerPlan p, string boundName, int rowsAtATime)
     {
         var f = p.Fixed;
         bool general = p.Model.Kind == ModelKind.General;
@@ -209,9 +209,10 @@ internal static class FixedText
                    ", a = c + sum_{i on} W_i. For each set bit (bytes in order, lowest set bit first) the unit's bias joins the energy" +
                    (f.Lateral.IsEmpty ? "" : ", its links to active lower-numbered units join the lateral sum");
         if (p.Hidden > 0)
-            walk += p.PairRows
-                ? $", and its weight row is added to the hidden accumulators, two rows at a time (acc += row1 + row2; the weights " +
-                  $"are {p.WeightBits}-bit, so the sum of two always fits the {p.AccumulatorBits}-bit accumulator)."
+            walk += p.GroupRows
+                ? $", and its weight row is added to the hidden accumulators, {(rowsAtATime == 4 ? "four" : "two")} rows at a time " +
+                  $"({(rowsAtATime == 4 ? "acc += r0 + r1 + r2 + r3" : "acc += row1 + row2")}; the weights are {p.WeightBits}-bit, so the sum of " +
+                  $"{(rowsAtATime == 4 ? "four" : "two")} always fits the {p.AccumulatorBits}-bit accumulator)."
                 : ", and its weight row is added to the hidden accumulators, one row at a time.";
         else walk += ".";
         var lines = new List<string>

@@ -253,9 +253,10 @@ static small_general_acc_t small_general_hidden_log_sum_exp(const small_general_
 /*
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - log sum_h exp(a.h + sum_{k<l} M_kl h_k h_l), a = c + sum_{i on} W_i. For
  * each set bit (bytes in order, lowest set bit first) the unit's bias joins the energy, its links to active
- * lower-numbered units join the lateral sum, and its weight row is added to the hidden accumulators, two rows at a
- * time (acc += row1 + row2; the weights are 16-bit, so the sum of two always fits the 32-bit accumulator). Integer
- * additions that cannot overflow are exact, so the order of the walk does not change the result.
+ * lower-numbered units join the lateral sum, and its weight row is added to the hidden accumulators, four rows at
+ * a time (acc += r0 + r1 + r2 + r3; the weights are 16-bit, so the sum of four always fits the 32-bit
+ * accumulator). Integer additions that cannot overflow are exact, so the order of the walk does not change the
+ * result.
  * Scaling and overflow (ranges over all binary inputs, each holding every partial sum):
  *   hidden accumulators, Q16.15 (2 units), Q17.14 (1 unit): [-28705, 65253] (15 guard bits in 32)
  *   energy (Q11.20), starting at K = -197 plus the visible biases: [-476519, 957843]
@@ -268,7 +269,8 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     small_general_acc_t energy = -197; /* K, the centring constant of the error interval */
     small_general_acc_t lateral = 0;
     small_general_acc_t acc[SMALL_GENERAL_HIDDEN];
-    const small_general_weight_t *pending = 0; /* a row waiting for a partner: rows are added two at a time */
+    const small_general_weight_t *waiting[4] = { 0, 0, 0, 0 }; /* rows not yet added: rows are added four at a time */
+    unsigned int count = 0u;
     uint_fast16_t j;
     uint_fast16_t byte_index;
     for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
@@ -288,18 +290,20 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
                     if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) lateral += (small_general_acc_t)small_general_link_weight[n];
                 }
             }
-            if (pending == 0) {
-                pending = small_general_weights[i];
-            } else {
-                const small_general_weight_t *row = small_general_weights[i];
-                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += (small_general_acc_t)pending[j] + (small_general_acc_t)row[j];
-                pending = 0;
+            waiting[count++] = small_general_weights[i];
+            if (count == 4u) {
+                const small_general_weight_t *r0 = waiting[0], *r1 = waiting[1], *r2 = waiting[2], *r3 = waiting[3];
+                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j)
+                    acc[j] += (small_general_acc_t)r0[j] + (small_general_acc_t)r1[j] + (small_general_acc_t)r2[j] + (small_general_acc_t)r3[j];
+                count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != 0)
-        for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += (small_general_acc_t)pending[j];
+    while (count != 0u) { /* the last one to three rows, one at a time */
+        const small_general_weight_t *row = waiting[--count];
+        for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += (small_general_acc_t)row[j];
+    }
     energy += small_general_to_energy(lateral, -4);
     energy += small_general_hidden_log_sum_exp(acc);
     return -energy;

@@ -211,9 +211,9 @@ static plant_acc_t plant_softplus(plant_acc_t a, int f)
 /*
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - sum_j softplus(a_j), a = c + sum_{i on} W_i. For each set bit (bytes in
  * order, lowest set bit first) the unit's bias joins the energy, its links to active lower-numbered units join the
- * lateral sum, and its weight row is added to the hidden accumulators, two rows at a time (acc += row1 + row2; the
- * weights are 16-bit, so the sum of two always fits the 32-bit accumulator). Integer additions that cannot
- * overflow are exact, so the order of the walk does not change the result.
+ * lateral sum, and its weight row is added to the hidden accumulators, four rows at a time (acc += r0 + r1 + r2 +
+ * r3; the weights are 16-bit, so the sum of four always fits the 32-bit accumulator). Integer additions that
+ * cannot overflow are exact, so the order of the walk does not change the result.
  * Scaling and overflow (ranges over all binary inputs, each holding every partial sum):
  *   hidden accumulators, Q17.14 (1 unit), Q16.15 (1 unit), Q15.16 (1 unit): [-53483, 63812] (15 guard bits in 32)
  *   energy (Q7.24), starting at K = -78 plus the visible biases: [-22090554, 9903182]
@@ -227,7 +227,8 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     plant_acc_t energy = -78; /* K, the centring constant of the error interval */
     plant_acc_t lateral = 0;
     plant_acc_t acc[PLANT_HIDDEN];
-    const plant_weight_t *pending = 0; /* a row waiting for a partner: rows are added two at a time */
+    const plant_weight_t *waiting[4] = { 0, 0, 0, 0 }; /* rows not yet added: rows are added four at a time */
+    unsigned int count = 0u;
     uint_fast16_t j;
     uint_fast16_t byte_index;
     for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] = plant_hidden_bias[j];
@@ -247,18 +248,20 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
                     if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) lateral += (plant_acc_t)plant_link_weight[n];
                 }
             }
-            if (pending == 0) {
-                pending = plant_weights[i];
-            } else {
-                const plant_weight_t *row = plant_weights[i];
-                for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += (plant_acc_t)pending[j] + (plant_acc_t)row[j];
-                pending = 0;
+            waiting[count++] = plant_weights[i];
+            if (count == 4u) {
+                const plant_weight_t *r0 = waiting[0], *r1 = waiting[1], *r2 = waiting[2], *r3 = waiting[3];
+                for (j = 0u; j < PLANT_HIDDEN; ++j)
+                    acc[j] += (plant_acc_t)r0[j] + (plant_acc_t)r1[j] + (plant_acc_t)r2[j] + (plant_acc_t)r3[j];
+                count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != 0)
-        for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += (plant_acc_t)pending[j];
+    while (count != 0u) { /* the last one to three rows, one at a time */
+        const plant_weight_t *row = waiting[--count];
+        for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += (plant_acc_t)row[j];
+    }
     energy += plant_to_energy(lateral, -10);
     for (j = 0u; j < PLANT_HIDDEN; ++j) energy += plant_softplus(acc[j], (int)plant_fraction_bits[j]);
     return -energy;
