@@ -276,9 +276,9 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
     for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
+        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == SMALL_GENERAL_PACKED_BYTES - 1) bits &= 0x0Fu;
         while (bits != 0u) {
-            unsigned int bit = 0u;
             uint_fast16_t i;
             while (((bits >> bit) & 1u) == 0u) ++bit;
             i = (uint_fast16_t)(byte_index * 8u + bit);

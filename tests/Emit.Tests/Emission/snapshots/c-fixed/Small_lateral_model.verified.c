@@ -234,9 +234,9 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] = plant_hidden_bias[j];
     for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
+        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == PLANT_PACKED_BYTES - 1) bits &= 0x3Fu;
         while (bits != 0u) {
-            unsigned int bit = 0u;
             uint_fast16_t i;
             while (((bits >> bit) & 1u) == 0u) ++bit;
             i = (uint_fast16_t)(byte_index * 8u + bit);
