@@ -141,7 +141,7 @@ public sealed class FixedDecisionTests(ITestOutputHelper output)
             var adv = AdversarialSearch.Run(plan);
             double measured = Math.Max(random, adv.LargestError);
             output.WriteLine(string.Create(CultureInfo.InvariantCulture,
-                $"{name} | {weights.ToText()} | {plan.Accumulator.ToText()}, E = {plan.EnergyFractionBits}, weights {plan.WeightFormatSummary} | bound {plan.ErrorBound:G3} | measured {measured:G3} (random and data {random:G3}, search {adv.LargestError:G3}) | ratio {plan.ErrorBound / measured:F1}"));
+                $"{name} | {weights.ToText()} | {plan.Accumulator.ToText()}, E = {plan.EnergyFractionBits}, weights {plan.WeightFormatSummary} | bound {plan.ErrorBound:G4} | measured {measured:G4} (random and data {random:G4}, search {adv.LargestError:G4}) | ratio {plan.ErrorBound / measured:F1}"));
             Assert.True(measured <= plan.ErrorBound, $"{name}: measured {measured} above the bound {plan.ErrorBound}");
             if (weights == WeightType.Int16 && name.StartsWith("random", StringComparison.Ordinal))
             {
