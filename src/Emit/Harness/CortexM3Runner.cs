@@ -72,7 +72,7 @@ public sealed class CortexM3Runner : ITargetRunner
 
         public bool TryScore(ReadOnlySpan<byte> packed, int rows, Span<ScoredRow> results, out string failure)
         {
-            int per = ImageInputs(layout.PackedBytes);
+            int per = settings.ImageInputs is int n0 and > 0 ? n0 : ImageInputs(layout.PackedBytes);
             for (int start = 0; start < rows; start += per)
             {
                 int n = Math.Min(per, rows - start);
