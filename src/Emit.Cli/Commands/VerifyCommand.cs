@@ -52,8 +52,6 @@ public sealed class VerifyCommand : ICliCommand
         if (parse.GetValue(_numeric) is { } numeric)
             mode = NumericModeNames.Parse(numeric) ?? throw new EmitException($"--numeric {Naming.CommentText(numeric)} is unknown", "use f64, f32 or fixed");
         bool fixedGiven = new Option[] { _fixed.Weights, _fixed.Accumulator, _fixed.SoftplusTable }.Any(o => parse.GetResult(o) is { Implicit: false });
-        if (fixedGiven && mode is { } m && m != NumericMode.Fixed)
-            throw new EmitException("--weights, --accumulator and --softplus-table apply to --numeric fixed", "leave them out, or use --numeric fixed");
         int timeout = parse.GetValue(_timeout);
         if (timeout < 1) throw new EmitException($"--timeout {timeout} is not allowed", "give a number of seconds, at least 1");
         var model = ModelLoader.Load(modelPath);

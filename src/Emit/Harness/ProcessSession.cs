@@ -55,7 +55,11 @@ internal sealed class ProcessSession : IScorerSession
         var header = session.ReadLine(Stopwatch.StartNew(), out var timedOut);
         int? selfTest = null;
         failure = "";
-        if (timedOut) failure = $"{what} did not start within {timeout.TotalSeconds:F0} s";
+        if (timedOut)
+        {
+            ExternalProcess.Kill(p);
+            failure = $"{what} did not answer within {timeout.TotalSeconds:F0} s (stopped before its first line; the self-test or the scorer hangs)";
+        }
         else if (header is null) failure = session.Ended("before its first line");
         else selfTest = layout.ReadHeader(header, out failure);
         if (selfTest is null)
@@ -153,6 +157,7 @@ internal sealed class ProcessSession : IScorerSession
     {
         try
         {
+            if (_broken) ExternalProcess.Kill(_process);
             if (!_process.HasExited)
             {
                 try { _process.StandardInput.Close(); } catch (IOException) { }

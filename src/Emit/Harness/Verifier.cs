@@ -38,6 +38,8 @@ public static class Verifier
             foreach (var language in languages)
                 located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
         var mode = ResolveMode(request, located.Values);
+        if (request.Fixed is not null && mode != NumericMode.Fixed)
+            throw new EmitException($"--weights, --accumulator and --softplus-table apply to --numeric fixed, not {mode.ToText()}", "leave them out, or use --numeric fixed");
         var fixedOptions = mode == NumericMode.Fixed ? request.Fixed ?? StampedFixedOptions(located.Values) : null;
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
