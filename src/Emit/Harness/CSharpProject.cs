@@ -13,8 +13,9 @@ public static class CSharpProject
     /// <summary>Project settings.</summary>
     /// <param name="TargetFramework">e.g. net10.0; null: the major version of the installed SDK.</param>
     /// <param name="LangVersion">C# language version, or null for the framework's default.</param>
-    /// <param name="WarningsAsErrors">Treat every warning (level 9999, .NET analyzers on) as an error.</param>
-    public sealed record Settings(string? TargetFramework = null, string? LangVersion = null, bool WarningsAsErrors = false);
+    /// <param name="WarningsAsErrors">Treat every warning (level 9999, .NET analyzers at the latest analysis level) as an error.</param>
+    /// <param name="Library">Build a class library instead of a console program.</param>
+    public sealed record Settings(string? TargetFramework = null, string? LangVersion = null, bool WarningsAsErrors = false, bool Library = false);
 
     public const string AssemblyName = "EmitHarness";
 
@@ -49,13 +50,14 @@ public static class CSharpProject
                   <TreatWarningsAsErrors>true</TreatWarningsAsErrors>
                   <WarningLevel>9999</WarningLevel>
                   <EnableNETAnalyzers>true</EnableNETAnalyzers>
+                  <AnalysisLevel>latest</AnalysisLevel>
               """
             : "";
         string lang = settings.LangVersion is null ? "" : $"\n    <LangVersion>{SecurityElement.Escape(settings.LangVersion)}</LangVersion>";
         File.WriteAllText(Path.Combine(directory, AssemblyName + ".csproj"), $"""
             <Project Sdk="Microsoft.NET.Sdk">
               <PropertyGroup>
-                <OutputType>Exe</OutputType>
+                <OutputType>{(settings.Library ? "Library" : "Exe")}</OutputType>
                 <TargetFramework>{SecurityElement.Escape(framework)}</TargetFramework>
                 <AssemblyName>{AssemblyName}</AssemblyName>{lang}
                 <Nullable>enable</Nullable>

@@ -1,4 +1,5 @@
 using Emit.Emission;
+using Emit.Harness;
 
 namespace Emit.Tests.Emission;
 
@@ -11,25 +12,13 @@ public sealed class GeneratedCSharpNet8Tests
     [SkippableFact]
     public void Every_case_and_mode_builds_on_net8_with_warnings_as_errors()
     {
-        var dotnet = Toolchain.Require("dotnet");
+        Toolchain.Require("dotnet");
         var dir = Toolchain.TempDir("net8");
-        File.WriteAllText(Path.Combine(dir, "Net8Check.csproj"), """
-            <Project Sdk="Microsoft.NET.Sdk">
-              <PropertyGroup>
-                <TargetFramework>net8.0</TargetFramework>
-                <Nullable>enable</Nullable>
-                <TreatWarningsAsErrors>true</TreatWarningsAsErrors>
-                <AnalysisLevel>latest</AnalysisLevel>
-                <ImplicitUsings>disable</ImplicitUsings>
-              </PropertyGroup>
-            </Project>
-            """);
         foreach (var c in CodegenCases.All)
             foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
                 CodegenCases.Generate(c, mode, dir, "csharp");
-        var (exit, output, err) = Toolchain.Run(dotnet, ["build", "-nologo", "-v", "q", "-c", "Release"], dir);
-        Assert.True(exit == 0, output + err);
-        Assert.Contains(" 0 Warning(s)", output);
-        Assert.DoesNotContain("warning CS", output + err);
+        // the library's temporary-project builder: warnings as errors, latest analyzers, as a class library
+        var dll = CSharpProject.Build(dir, [], new CSharpProject.Settings("net8.0", WarningsAsErrors: true, Library: true), Toolchain.Limit, out var failure);
+        Assert.True(dll is not null, failure);
     }
 }
