@@ -65,17 +65,17 @@ public sealed class NumericExpectation
         {
             double generated = FloatErrorBound.Worst(model, mode);
             double allowance = model.Threshold is { } t ? Math.Abs(Literals.Round(t, mode, "threshold") - t) : 0;
-            var basis = $"{mode.ToText()} forward error analysis of the generated code ({generated.ToString("G3", inv)} nats: " +
-                        $"unit roundoff {FloatErrorBound.UnitRoundoff(mode).ToString("G3", inv)}, exp/log within {FloatErrorBound.LibmUlps.ToString(inv)} ulps, " +
-                        $"all units on) plus the reference scorer's own bound ({reference.ToString("G3", inv)} nats)";
+            var basis = $"{mode.ToText()} forward error analysis of the generated code ({generated.ToString("G3", inv).ToLowerInvariant()} nats: " +
+                        $"unit roundoff {FloatErrorBound.UnitRoundoff(mode).ToString("G3", inv).ToLowerInvariant()}, exp/log within {FloatErrorBound.LibmUlps.ToString(inv)} ulps, " +
+                        $"all units on) plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
             return new NumericExpectation(mode, mode.ToText(), mode == NumericMode.F32 ? 4 : 8, 1.0, generated + reference, basis, null, model.Threshold, allowance);
         }
         var options = fixedOptions ?? new FixedPointOptions();
         options.Validate();
         var plan = FixedPointPlanner.Build(model, options);
-        var fixedBasis = $"proved worst-case bound of the integer plan ({plan.ErrorBound.ToString("G3", inv)} nats: {options.Weights.ToText()} weights, " +
+        var fixedBasis = $"proved worst-case bound of the integer plan ({plan.ErrorBound.ToString("G3", inv).ToLowerInvariant()} nats: {options.Weights.ToText()} weights, " +
                          $"{plan.Accumulator.ToText()} accumulator, {options.SoftplusTableSize.ToString(inv)}-segment softplus table) " +
-                         $"plus the reference scorer's own bound ({reference.ToString("G3", inv)} nats)";
+                         $"plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
         // one LSB of the energy format covers the threshold's rounding to an integer whichever way it is rounded
         return new NumericExpectation(mode, options.Weights.ToText(), plan.Accumulator.Bits() / 8, plan.EnergyScale, plan.ErrorBound + reference,
             fixedBasis, new FixedPointSimulator(plan), model.Threshold, model.Threshold is null ? 0 : 1 / plan.EnergyScale);

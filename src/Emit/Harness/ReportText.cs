@@ -32,7 +32,9 @@ public static class ReportText
         }
         int failed = report.Targets.Count(t => !t.Passed);
         o.WriteLine(failed == 0
-            ? $"verify: all {report.Targets.Count} targets agree with the reference within their bounds"
+            ? report.Targets.Count == 1
+                ? $"verify: target {report.Targets[0].Target} agrees with the reference within its bound"
+                : $"verify: all {report.Targets.Count} targets agree with the reference within their bounds"
             : $"verify: {failed} of {report.Targets.Count} targets failed");
         o.WriteLine("bound: " + string.Join("; ", report.Targets.Select(t => t.ErrorBoundBasis).Distinct()));
         o.WriteLine("Caution: " + VerifyReport.Caution);
