@@ -10,21 +10,25 @@ namespace Emit.Tests.Emission;
 /// </summary>
 internal static class CHarness
 {
-    /// <param name="Energy">Float modes: the result; fixed mode: the integer result.</param>
-    public sealed record Row(double Energy, bool SameBits, int Unusual);
+    /// <summary>One result; in fixed mode <see cref="Integer"/> is the returned integer and <see cref="Energy"/> the same value as a double.</summary>
+    public sealed record Row(double Energy, bool SameBits, int Unusual, long Integer = 0);
 
     public sealed record Result(int SelfTestFailures, IReadOnlyList<Row> Rows);
 
     /// <summary>A built harness: the executable and how to read its results.</summary>
     public sealed record Built(string Exe, ScorerSources Sources, HarnessLayout Layout, bool IsFixed);
 
-    /// <summary>Compiles NAME.c in <paramref name="dir"/> and the harness main with the strict flags (plus extra flags).</summary>
-    public static Built Build(string dir, string name, bool hasThreshold, string extraFlags = "")
+    /// <summary>
+    /// Compiles NAME.c in <paramref name="dir"/> and the harness main with the strict flags (plus extra flags). The
+    /// numeric mode comes from the file's banner; <paramref name="integer"/> states that it is fixed point.
+    /// </summary>
+    public static Built Build(string dir, string name, bool hasThreshold, string extraFlags = "", bool integer = false)
     {
         Toolchain.Require("cc");
         var sources = ScorerSources.Locate(dir, "c", name, name);
         Assert.Equal(hasThreshold, sources.HasThreshold);
         var mode = NumericModeNames.Parse(sources.StampedOptions["--numeric"]) ?? throw new InvalidOperationException("no numeric mode in the banner");
+        Assert.Equal(integer, mode == NumericMode.Fixed);
         int bytes = mode == NumericMode.F32 ? 4 : 8;
         if (mode == NumericMode.Fixed)
             bytes = File.ReadAllText(sources.MainFile).Contains("typedef int64_t " + name + "_energy_t", StringComparison.Ordinal) ? 8 : 4;
@@ -45,9 +49,12 @@ internal static class CHarness
         var rows = lines.Skip(1).Select(l =>
         {
             Assert.True(built.Layout.TryParseRow(l, out var row), l);
-            double energy = built.IsFixed
-                ? (built.Layout.EnergyBytes == 4 ? unchecked((int)(uint)row.Bits) : unchecked((long)row.Bits))
-                : built.Layout.EnergyBytes == 4 ? BitConverter.UInt32BitsToSingle((uint)row.Bits) : BitConverter.UInt64BitsToDouble(row.Bits);
+            if (built.IsFixed)
+            {
+                long n = built.Layout.EnergyBytes == 4 ? unchecked((int)(uint)row.Bits) : unchecked((long)row.Bits);
+                return new Row(n, row.SameBits, row.Decision, n);
+            }
+            double energy = built.Layout.EnergyBytes == 4 ? BitConverter.UInt32BitsToSingle((uint)row.Bits) : BitConverter.UInt64BitsToDouble(row.Bits);
             return new Row(energy, row.SameBits, row.Decision);
         }).ToArray();
         return new Result(selfTest!.Value, rows);
