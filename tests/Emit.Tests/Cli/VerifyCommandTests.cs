@@ -265,11 +265,11 @@ public sealed class VerifyCommandTests
         VerifyCases.Require("c", "cortex-m3");
         var p = BreakScorer("verify-hang", "{ volatile int spin = 1; while (spin) { } }").Split('\n');
         var json = Path.Combine(p[0], "r.json");
-        var r = CliRunner.Run("verify", p[1], "--input", p[2], "--generated", p[3], "--target", "c,cortex-m3", "--timeout", "2", "--report", json);
+        var r = CliRunner.Run("verify", p[1], "--input", p[2], "--generated", p[3], "--target", "c,cortex-m3", "--timeout", "5", "--report", json);
         Assert.True(r.ExitCode == 1, r.Out + r.Error);
         var report = ReadReport(json);
-        Assert.Contains("did not answer within 2 s", Target(report, "c").GetProperty("failures")[0].GetString());
-        Assert.Contains("qemu did not finish image 1 within 2 s", Target(report, "cortex-m3").GetProperty("failures")[0].GetString());
+        Assert.Contains("did not answer within 5 s", Target(report, "c").GetProperty("failures")[0].GetString());
+        Assert.Contains("qemu did not finish image 1 within 5 s", Target(report, "cortex-m3").GetProperty("failures")[0].GetString());
     }
 
     [SkippableFact]
