@@ -4,16 +4,17 @@ namespace Emit.Tests.Emission;
 
 /// <summary>
 /// Builds a generated C scorer with a test main that reads one input per line ('0'/'1' per unit) and prints, per
-/// input, the free energy from the packed entry point (round-trip precision), whether the units entry point gave the
-/// same bits, and the decision; the first line is the self-test result.
+/// input, the free energy from the packed entry point (round-trip precision; in fixed mode the integer), whether the
+/// units entry point gave the same bits, and the decision; the first line is the self-test result.
 /// </summary>
 internal static class CHarness
 {
-    public sealed record Row(double Energy, bool SameBits, int Unusual);
+    /// <summary>One output line; in fixed mode <see cref="Integer"/> is the returned integer and <see cref="Energy"/> the same value as a double.</summary>
+    public sealed record Row(double Energy, bool SameBits, int Unusual, long Integer = 0);
 
     public sealed record Result(int SelfTestFailures, IReadOnlyList<Row> Rows);
 
-    public static string MainSource(string name, bool hasThreshold) => $$"""
+    public static string MainSource(string name, bool hasThreshold, bool integer = false) => $$"""
         #include <stdio.h>
         #include <string.h>
         #include "{{name}}.h"
@@ -38,17 +39,17 @@ internal static class CHarness
                     packed[{{name.ToUpperInvariant()}}_PACKED_BYTES - 1] = (uint8_t)(packed[{{name.ToUpperInvariant()}}_PACKED_BYTES - 1] | (0xFFu << ({{name.ToUpperInvariant()}}_VISIBLE % 8)));
                 e1 = {{name}}_free_energy(packed);
                 e2 = {{name}}_free_energy_units(units);
-                printf("%.17g %d %d\n", (double)e1, memcmp(&e1, &e2, sizeof e1) == 0, {{(hasThreshold ? name + "_is_unusual(e1)" : "-1")}});
+                printf("{{(integer ? "%lld" : "%.17g")}} %d %d\n", {{(integer ? "(long long)e1" : "(double)e1")}}, memcmp(&e1, &e2, sizeof e1) == 0, {{(hasThreshold ? name + "_is_unusual(e1)" : "-1")}});
             }
             return 0;
         }
         """;
 
     /// <summary>Compiles NAME.c and the test main in <paramref name="dir"/> with the strict flags (plus extra flags).</summary>
-    public static string Build(string dir, string name, bool hasThreshold, string extraFlags = "")
+    public static string Build(string dir, string name, bool hasThreshold, string extraFlags = "", bool integer = false)
     {
         var cc = Toolchain.Require("cc");
-        File.WriteAllText(Path.Combine(dir, "main_" + name + ".c"), MainSource(name, hasThreshold));
+        File.WriteAllText(Path.Combine(dir, "main_" + name + ".c"), MainSource(name, hasThreshold, integer));
         var exe = Path.Combine(dir, "run_" + name);
         Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), .. Toolchain.Split(extraFlags), "-O2", "-I", dir,
             Path.Combine(dir, name + ".c"), Path.Combine(dir, "main_" + name + ".c"), "-o", exe, "-lm"]);
@@ -64,7 +65,8 @@ internal static class CHarness
         var rows = lines.Skip(1).Select(l =>
         {
             var p = l.Split(' ');
-            return new Row(double.Parse(p[0], CultureInfo.InvariantCulture), p[1] == "1", int.Parse(p[2], CultureInfo.InvariantCulture));
+            bool isInteger = long.TryParse(p[0], NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out long n);
+            return new Row(isInteger ? n : double.Parse(p[0], CultureInfo.InvariantCulture), p[1] == "1", int.Parse(p[2], CultureInfo.InvariantCulture), isInteger ? n : 0);
         }).ToArray();
         return new Result(int.Parse(lines[0]["selftest ".Length..], CultureInfo.InvariantCulture), rows);
     }
