@@ -37,6 +37,14 @@ public sealed class FixedPointOptionSet
         command.Options.Add(SoftplusTable);
     }
 
+    /// <summary>The first of these options given explicitly on the command line (not by its default), or null.</summary>
+    public string? GivenOption(ParseResult parse)
+    {
+        foreach (var option in new Option[] { Weights, Accumulator, SoftplusTable })
+            if (parse.GetResult(option) is { Implicit: false }) return option.Name;
+        return null;
+    }
+
     public FixedPointOptions Read(ParseResult parse)
     {
         var acc = parse.GetValue(Accumulator);

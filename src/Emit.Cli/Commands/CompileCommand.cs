@@ -20,7 +20,7 @@ public sealed class CompileCommand : ICliCommand
 
     private readonly Option<string> _numeric = new("--numeric")
     {
-        Description = "Arithmetic of the generated scorer: f32 or f64",
+        Description = "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)",
         DefaultValueFactory = _ => "f32",
     };
 
@@ -52,6 +52,8 @@ public sealed class CompileCommand : ICliCommand
         DefaultValueFactory = _ => CompileOptions.DefaultSelfTestVectors,
     };
 
+    private readonly FixedPointOptionSet _fixed = new();
+
     private readonly Option<bool> _force = new("--force")
     {
         Description = "Overwrite files in the output folder even when emit did not generate them",
@@ -61,29 +63,37 @@ public sealed class CompileCommand : ICliCommand
     {
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _force })
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest })
             cmd.Options.Add(option);
-        cmd.SetAction(parse => Run(ctx,
-            parse.GetValue(_model)!.FullName,
-            parse.GetValue(_target)!,
-            parse.GetValue(_numeric)!,
-            parse.GetValue(_name),
-            parse.GetValue(_namespace)!,
-            parse.GetValue(_out)!,
-            parse.GetValue(_templates)?.FullName,
-            parse.GetValue(_selfTest),
-            parse.GetValue(_force)));
+        _fixed.AddTo(cmd);
+        cmd.Options.Add(_force);
+        cmd.SetAction(parse =>
+        {
+            var mode = NumericModeNames.Parse(parse.GetValue(_numeric)!)
+                       ?? throw new EmitException($"--numeric {Naming.CommentText(parse.GetValue(_numeric)!)} is unknown", "use f32, f64 or fixed");
+            if (mode != NumericMode.Fixed && _fixed.GivenOption(parse) is { } given)
+                throw new EmitException($"{given} applies to --numeric fixed only", "add --numeric fixed or leave the option out");
+            return Run(ctx,
+                parse.GetValue(_model)!.FullName,
+                parse.GetValue(_target)!,
+                mode,
+                parse.GetValue(_name),
+                parse.GetValue(_namespace)!,
+                parse.GetValue(_out)!,
+                parse.GetValue(_templates)?.FullName,
+                parse.GetValue(_selfTest),
+                mode == NumericMode.Fixed ? _fixed.Read(parse) : null,
+                parse.GetValue(_force));
+        });
         return cmd;
     }
 
-    private static int Run(CliContext ctx, string modelPath, string target, string numeric, string? name, string ns,
-        string outDir, string? templates, int selfTest, bool force)
+    private static int Run(CliContext ctx, string modelPath, string target, NumericMode mode, string? name, string ns,
+        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, bool force)
     {
-        var mode = NumericModeNames.Parse(numeric)
-                   ?? throw new EmitException($"--numeric {Naming.CommentText(numeric)} is unknown", "use f32 or f64");
         var targets = target.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries);
         name ??= Naming.ScorerNameFromFile(modelPath);
-        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates);
+        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
         var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);

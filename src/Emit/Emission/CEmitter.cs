@@ -4,21 +4,31 @@ using Emit.Model;
 namespace Emit.Emission;
 
 /// <summary>C99 target: <c>NAME.h</c> (API, configuration macros) and <c>NAME.c</c> (tables, scoring, self-test).</summary>
-public sealed class CEmitter : ITargetEmitter
+public sealed partial class CEmitter : ITargetEmitter
 {
     public const string HeaderTemplate = "scorer.h.sbn";
     public const string FloatSourceTemplate = "scorer-float.c.sbn";
+    public const string FixedSourceTemplate = "scorer-fixed.c.sbn";
 
     public string Name => "c";
     public string Description => "C99 header and source (NAME.h, NAME.c), stdint.h only";
     public IReadOnlyList<string> Extensions { get; } = [".h", ".c"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [HeaderTemplate, FloatSourceTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = [HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan scorer, TemplateRenderer templates)
     {
         templates.CheckOverrides(Name, TemplateFiles.ToArray());
+        if (scorer is FixedScorerPlan fixedPlan)
+        {
+            var fixedModel = BuildFixedModel(fixedPlan);
+            return
+            [
+                new GeneratedFile(fixedModel.HeaderFile, templates.Render(Name, HeaderTemplate, fixedModel)),
+                new GeneratedFile(fixedPlan.Options.Name + ".c", templates.Render(Name, FixedSourceTemplate, fixedModel)),
+            ];
+        }
         var plan = scorer as FloatScorerPlan
-                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()} yet");
+                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()}");
         var model = BuildModel(plan);
         return
         [

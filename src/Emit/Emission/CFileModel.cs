@@ -1,19 +1,10 @@
 namespace Emit.Emission;
 
-/// <summary>What the C templates print: every number and table already formatted. Members keep their C# names in templates.</summary>
-public sealed class CFileModel
+/// <summary>What the float-mode C templates print: every number and table already formatted. Members keep their C# names in templates.</summary>
+public sealed class CFileModel : CHeaderModel
 {
-    public required string Name { get; init; }
-    public required string UName { get; init; }
-    public required string HeaderFile { get; init; }
-    public required string Guard { get; init; }
-    public required string HeaderBanner { get; init; }
-    public required string SourceBanner { get; init; }
-    public required string ModelId { get; init; }
-    public required string Mode { get; init; }
     public required bool IsF32 { get; init; }
 
-    public required string EnergyType { get; init; }
     public required string Zero { get; init; }
     public required string One { get; init; }
     public required string Exp { get; init; }
@@ -23,8 +14,6 @@ public sealed class CFileModel
     public required string LinkStartType { get; init; }
     public required string LinkOtherType { get; init; }
 
-    public required int Visible { get; init; }
-    public required int Hidden { get; init; }
     public required int PackedBytes { get; init; }
     public required string LastByteMask { get; init; }
     public required bool HasPartialByte { get; init; }
@@ -32,10 +21,6 @@ public sealed class CFileModel
     public required bool IsGeneral { get; init; }
     public required bool HasLinks { get; init; }
     public required int LinkCount { get; init; }
-
-    public required bool HasThreshold { get; init; }
-    public required string Threshold { get; init; }
-    public required string ErrorBound { get; init; }
 
     public required int GrayBlockBits { get; init; }
     public required string GrayBlockSize { get; init; }
@@ -50,11 +35,7 @@ public sealed class CFileModel
     public required string LinkWeightRows { get; init; }
     public required string HiddenPairRows { get; init; }
 
-    public required int SelfTestCount { get; init; }
     public required string SelfTestVectorRows { get; init; }
     public required string SelfTestExpectedRows { get; init; }
     public required string SelfTestToleranceRows { get; init; }
-
-    public required bool HasUnitMacros { get; init; }
-    public required string UnitMacros { get; init; }
 }

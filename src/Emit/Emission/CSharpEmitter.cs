@@ -4,9 +4,10 @@ using Emit.Model;
 namespace Emit.Emission;
 
 /// <summary>C# target: one file <c>NAME.cs</c> holding a static class, BCL only, no allocation per call.</summary>
-public sealed class CSharpEmitter : ITargetEmitter
+public sealed partial class CSharpEmitter : ITargetEmitter
 {
     public const string FloatTemplate = "scorer-float.cs.sbn";
+    public const string FixedTemplate = "scorer-fixed.cs.sbn";
 
     /// <summary>Members of the generated class; the class name must differ from all of them.</summary>
     public static readonly IReadOnlySet<string> ClassMembers = new HashSet<string>(StringComparer.Ordinal)
@@ -15,18 +16,24 @@ public sealed class CSharpEmitter : ITargetEmitter
         "FreeEnergy", "FreeEnergyUnits", "IsUnusual", "SelfTest", "Units", "Softplus", "HiddenWalk",
         "HiddenLogSumExp", "VisibleBiasTable", "HiddenBiasTable", "WeightTable", "LinkStartTable", "LinkOtherTable",
         "LinkWeightTable", "HiddenPairTable", "SelfTestInputTable", "SelfTestExpectedTable", "SelfTestToleranceTable",
+        "EnergyFractionBits", "EnergyMin", "EnergyMax", "ToEnergy", "G", "Lse2", "FractionBitsTable", "SoftplusTable",
     };
 
     public string Name => "csharp";
     public string Description => "C# static class (NAME.cs), BCL only";
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan scorer, TemplateRenderer templates)
     {
         templates.CheckOverrides(Name, TemplateFiles.ToArray());
+        if (scorer is FixedScorerPlan fixedPlan)
+        {
+            var fixedModel = BuildFixedModel(fixedPlan);
+            return [new GeneratedFile(fixedModel.FileName, templates.Render(Name, FixedTemplate, fixedModel))];
+        }
         var plan = scorer as FloatScorerPlan
-                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()} yet");
+                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()}");
         var model = BuildModel(plan);
         return [new GeneratedFile(model.FileName, templates.Render(Name, FloatTemplate, model))];
     }

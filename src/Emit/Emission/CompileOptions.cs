@@ -1,9 +1,13 @@
+using Emit.Quantize;
+
 namespace Emit.Emission;
 
 /// <summary>
 /// What <c>emit compile</c> was asked for. <see cref="Name"/> must already be a valid C identifier
 /// (see <see cref="Naming.CheckScorerName"/>). <see cref="TemplatesDirectory"/> is a folder whose
-/// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file.
+/// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file. <see cref="Fixed"/> holds the
+/// fixed-point choices (weights, accumulator, table size) and is used only with <see cref="NumericMode.Fixed"/>
+/// (null there means the defaults).
 /// </summary>
 public sealed record CompileOptions(
     IReadOnlyList<string> Targets,
@@ -11,8 +15,12 @@ public sealed record CompileOptions(
     string Name,
     string Namespace = CompileOptions.DefaultNamespace,
     int SelfTestVectors = CompileOptions.DefaultSelfTestVectors,
-    string? TemplatesDirectory = null)
+    string? TemplatesDirectory = null,
+    FixedPointOptions? Fixed = null)
 {
+    /// <summary>The fixed-point options in effect (the defaults when none were given).</summary>
+    public FixedPointOptions FixedOptions => Fixed ?? new FixedPointOptions();
+
     public const string DefaultNamespace = "Emit.Generated";
     public const int DefaultSelfTestVectors = 8;
     public const int MaxSelfTestVectors = 4096;
@@ -23,7 +31,13 @@ public sealed record CompileOptions(
     /// </summary>
     public string BannerText(string target)
     {
-        var text = $"--target {target} --numeric {Numeric.ToText()} --name {Name}";
+        var text = $"--target {target} --numeric {Numeric.ToText()}";
+        if (Numeric == NumericMode.Fixed)
+        {
+            var f = FixedOptions;
+            text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+        }
+        text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
         text += $" --selftest-vectors {SelfTestVectors}";
         if (TemplatesDirectory is not null) text += " --templates (custom)";

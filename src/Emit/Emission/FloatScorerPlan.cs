@@ -39,10 +39,7 @@ public sealed class FloatScorerPlan : ScorerPlan
     {
         var mode = options.Numeric;
         if (!mode.IsFloat()) throw new ArgumentException("float modes only", nameof(options));
-        if (model.Kind == ModelKind.General && model.Hidden > MaxGeneralHidden)
-            throw new EmitException(
-                $"a general model's free energy sums over all 2^{model.Hidden} hidden states for every input, too slow for generated code",
-                $"generated code allows hidden <= {MaxGeneralHidden} for kind general (2^{MaxGeneralHidden} states); retrain with fewer hidden units or without hidden links");
+        CheckGeneralHidden(model);
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
             throw new EmitException($"--selftest-vectors {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
 

@@ -7,7 +7,7 @@ public enum NumericMode
     F64,
     /// <summary>IEEE 754 binary32 (<c>float</c>).</summary>
     F32,
-    /// <summary>Integer-only arithmetic with a proven error bound (not implemented yet).</summary>
+    /// <summary>Integer-only arithmetic with a proven error bound (docs/fixed-point.md).</summary>
     Fixed,
 }
 

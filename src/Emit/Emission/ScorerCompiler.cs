@@ -20,9 +20,9 @@ public static class ScorerCompiler
             var emitter = Targets.Find(name) ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"", $"use one or more of: {Targets.NameList}");
             if (!emitters.Contains(emitter)) emitters.Add(emitter);
         }
-        if (options.Numeric == NumericMode.Fixed)
-            throw new EmitException("--numeric fixed is not implemented yet", "use --numeric f32 or f64");
-        var plan = FloatScorerPlan.Build(model, options, modelLabel);
+        ScorerPlan plan = options.Numeric == NumericMode.Fixed
+            ? FixedScorerPlan.Build(model, options, modelLabel)
+            : FloatScorerPlan.Build(model, options, modelLabel);
         var templates = new TemplateRenderer(options.TemplatesDirectory);
         return emitters.SelectMany(e => e.Emit(plan, templates)).ToArray();
     }

@@ -33,6 +33,15 @@ public abstract class ScorerPlan
         }
     }
 
+    /// <summary>Refuses a general model with more than <see cref="FloatScorerPlan.MaxGeneralHidden"/> hidden units, with the reason.</summary>
+    private protected static void CheckGeneralHidden(BoltzmannModel model)
+    {
+        if (model.Kind == ModelKind.General && model.Hidden > FloatScorerPlan.MaxGeneralHidden)
+            throw new EmitException(
+                $"a general model's free energy sums over all 2^{model.Hidden} hidden states for every input, too slow for generated code",
+                $"generated code allows hidden <= {FloatScorerPlan.MaxGeneralHidden} for kind general (2^{FloatScorerPlan.MaxGeneralHidden} states); retrain with fewer hidden units or without hidden links");
+    }
+
     public BoltzmannModel Model { get; }
     public CompileOptions Options { get; }
     public NumericMode Mode => Options.Numeric;

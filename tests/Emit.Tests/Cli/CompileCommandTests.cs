@@ -55,12 +55,56 @@ public sealed class CompileCommandTests
         Assert.Contains("typedef double plant_a_energy_t;", File.ReadAllText(Path.Combine(dir, "plant_a.h")));
     }
 
+    [Fact]
+    public void Fixed_mode_takes_the_fixed_point_options_and_states_them()
+    {
+        var dir = Toolchain.TempDir("cli");
+        var model = ModelFile(dir, "m.json", Small);
+        var (exit, _, err) = Emit("compile", model, "--target", "c,csharp", "--numeric", "fixed", "--weights", "int8",
+            "--accumulator", "int64", "--softplus-table", "64", "--name", "plant_q", "--out", dir);
+        Assert.True(exit == 0, err);
+        var h = File.ReadAllText(Path.Combine(dir, "plant_q.h"));
+        Assert.Contains("options: --target c --numeric fixed --weights int8 --accumulator int64 --softplus-table 64 --name plant_q", h);
+        Assert.Contains("typedef int64_t plant_q_energy_t;", h);
+        Assert.Contains("typedef int8_t plant_q_weight_t;", h);
+        Assert.Matches(@"#define PLANT_Q_ERROR_BOUND \d\.\d+(e-\d+)? ", h);
+        Assert.Contains("static const int32_t plant_q_softplus_table[64 + 1]", File.ReadAllText(Path.Combine(dir, "plant_q.c")).Replace("uint16_t", "int32_t", StringComparison.Ordinal));
+        var cs = File.ReadAllText(Path.Combine(dir, "plant_q.cs"));
+        Assert.Contains("public static long FreeEnergy(", cs);
+        Assert.Contains("ReadOnlySpan<sbyte> WeightTable", cs);
+    }
+
+    [Theory]
+    [InlineData("--weights", "int8")]
+    [InlineData("--accumulator", "int64")]
+    [InlineData("--softplus-table", "64")]
+    public void Fixed_point_options_without_numeric_fixed_exit_2(string option, string value)
+    {
+        var dir = Toolchain.TempDir("cli");
+        var model = ModelFile(dir, "m.json", Small);
+        var (exit, _, err) = Emit("compile", model, option, value, "--out", Path.Combine(dir, "out"));
+        Assert.Equal(2, exit);
+        Assert.Contains($"{option} applies to --numeric fixed only", err);
+    }
+
+    [Fact]
+    public void Fixed_mode_refuses_a_table_size_that_is_not_a_power_of_two()
+    {
+        var dir = Toolchain.TempDir("cli");
+        var model = ModelFile(dir, "m.json", Small);
+        var (exit, _, err) = Emit("compile", model, "--numeric", "fixed", "--softplus-table", "100", "--out", Path.Combine(dir, "out"));
+        Assert.Equal(2, exit);
+        Assert.StartsWith("emit: error: --softplus-table 100 is not allowed", err);
+    }
+
     [Theory]
     [InlineData("--name", "9lives")]
     [InlineData("--name", "pump-a")]
     [InlineData("--target", "rust")]
     [InlineData("--numeric", "f16")]
-    [InlineData("--numeric", "fixed")]
+    [InlineData("--weights", "int4")]
+    [InlineData("--accumulator", "int16")]
+    [InlineData("--softplus-table", "100")]
     [InlineData("--namespace", "a..b")]
     [InlineData("--selftest-vectors", "0")]
     [InlineData("--no-such-option", "x")]

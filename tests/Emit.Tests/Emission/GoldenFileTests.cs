@@ -27,6 +27,7 @@ public sealed class GoldenFileTests
     public static TheoryData<string, NumericMode> TargetModes() => new()
     {
         { "c", NumericMode.F32 }, { "c", NumericMode.F64 }, { "csharp", NumericMode.F32 }, { "csharp", NumericMode.F64 },
+        { "c", NumericMode.Fixed }, { "csharp", NumericMode.Fixed },
     };
 
     [Theory]
@@ -40,6 +41,8 @@ public sealed class GoldenFileTests
     [Theory]
     [InlineData("c", NumericMode.F32)]
     [InlineData("csharp", NumericMode.F32)]
+    [InlineData("c", NumericMode.Fixed)]
+    [InlineData("csharp", NumericMode.Fixed)]
     public void Small_general_model(string target, NumericMode mode)
     {
         foreach (var f in Compile(SmallGeneral(), "general.json", target, mode, "small_general"))
@@ -104,11 +107,57 @@ public sealed class GoldenFileTests
         Assert.Matches(@"    \{ /\* 3: temp > 80 <U\+00B0>C \*/\n", c);   // one weight row per visible unit, with its name
     }
 
+    /// <summary>What a firmware reviewer must find in fixed-mode C (issue 4 §2, §4; the style guide's fixed-point notes).</summary>
+    [Fact]
+    public void Fixed_c_files_state_formats_limits_rounding_bound_and_threshold()
+    {
+        var files = Compile(SmallLateral(), "plant.json", "c", NumericMode.Fixed, "plant");
+        var h = files.Single(f => f.FileName == "plant.h").Text;
+        var c = files.Single(f => f.FileName == "plant.c").Text;
+        var plan = FixedScorerPlan.Build(SmallLateral(), new CompileOptions(["c"], NumericMode.Fixed, "plant", SelfTestVectors: 5), "plant.json");
+        int e = plan.EnergyFractionBits;
+        Assert.Matches(@"options: --target c --numeric fixed --weights int16 --accumulator auto --softplus-table 256 --name plant --selftest-vectors 5", h);
+        Assert.Matches($@"#define PLANT_ENERGY_FRACTION_BITS {e} ", h);
+        Assert.Matches($@"#define PLANT_ENERGY_SCALE {Math.ScaleB(1.0, e).ToString("R", CultureInfo.InvariantCulture)}\.0 ", h);
+        Assert.Matches(@"#define PLANT_ERROR_BOUND \d\.\d+(e-\d+)? /\* nats", h);
+        // 4.5 nats lies above every reachable free energy of this model: the threshold is clamped to the largest result
+        Assert.True(plan.ThresholdClamped);
+        Assert.Equal((long)plan.ResultRange.Max, plan.ThresholdUnits);
+        Assert.Contains($"#define PLANT_THRESHOLD ((plant_energy_t){plan.ThresholdUnits})", h);
+        Assert.Contains("so f > this exactly when f / 2^" + e + " > 4.5", h.Replace("\n * ", " ", StringComparison.Ordinal));
+        Assert.Contains("lies within PLANT_ERROR_BOUND nats of the threshold", h.Replace("\n * ", " ", StringComparison.Ordinal));
+        Assert.Matches(@"typedef int32_t plant_energy_t;", h);
+        Assert.Matches(@"typedef int32_t plant_acc_t;", h);
+        Assert.Matches(@"typedef int16_t plant_weight_t;", h);
+        Assert.Matches(@"#define PLANT_ACC_MIN \(-2147483647\)", h);
+        Assert.Matches(@"#define PLANT_WEIGHT_MAX 32767\n", h);
+        Assert.Matches(@"#define PLANT_ENERGY_MIN \(?-?\d+\)? ", h);
+        Assert.Matches(@"Q-?\d+\.\d+", h);
+        Assert.Contains("Rounding: half away from zero", h);
+        // one "scaling and overflow" comment per function, section labels, no floating point in the source
+        foreach (var fn in new[] { "plant_to_energy", "plant_g", "plant_softplus", "plant_free_energy" })
+        {
+            int at = c.IndexOf("\n" + (fn == "plant_free_energy" ? "plant_energy_t " : "static plant_acc_t ") + fn + "(", StringComparison.Ordinal);
+            Assert.True(at > 0, fn);
+            int comment = c.LastIndexOf("/*", at, StringComparison.Ordinal);
+            Assert.Contains("Scaling and overflow", c[comment..at]);
+        }
+        foreach (var section in new[] { "configuration checks", "tables", "scoring", "self-test" })
+            Assert.Contains($"/* ==== {section} ==== */", c);
+        Assert.DoesNotMatch(@"\b(float|double)\b|#include <(math|float)\.h>", c);   // comments included; literals: GeneratedFixedCTests
+        Assert.DoesNotMatch(@"\b(malloc|free)\s*\(", c);
+        Assert.All(System.Text.RegularExpressions.Regex.Matches(c, @"^static const .*\] (\w+) = \{$", System.Text.RegularExpressions.RegexOptions.Multiline), x => Assert.Equal("PLANT_TABLE_ATTR", x.Groups[1].Value));
+        Assert.Matches(@"typedef char plant_check_softplus_table\[", c);
+        // every visible bias carries its represented value
+        Assert.Matches(@"    -?\d+, /\* 0: inlet valve open = -?\d", c);
+    }
+
     [Fact]
     public void Regeneration_is_byte_identical_in_any_culture_and_on_any_thread()
     {
         var m = SmallLateral();
-        string All(BoltzmannModel model) => string.Concat(ScorerCompiler.Compile(model, "plant.json", new CompileOptions(["c", "csharp"], NumericMode.F32, "plant")).Select(f => f.FileName + "\n" + f.Text));
+        string All(BoltzmannModel model) => string.Concat(new[] { NumericMode.F32, NumericMode.Fixed }.SelectMany(mode =>
+            ScorerCompiler.Compile(model, "plant.json", new CompileOptions(["c", "csharp"], mode, "plant")).Select(f => f.FileName + "\n" + f.Text)));
         var first = All(m);
         var saved = CultureInfo.CurrentCulture;
         try
@@ -147,7 +196,10 @@ public sealed class GoldenFileTests
             ("reserved name", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.F32, "_Plant"))),
             ("bad namespace", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["csharp"], NumericMode.F32, "plant", "a..b"))),
             ("unknown target", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["rust"], NumericMode.F32, "plant"))),
-            ("fixed not yet", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.Fixed, "plant"))),
+            ("fixed table size", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.Fixed, "plant", Fixed: new Emit.Quantize.FixedPointOptions(SoftplusTableSize: 100)))),
+            ("fixed general too large", () => ScorerCompiler.Compile(TestModels.Random(ModelKind.General, 2, 17, seed: 1), "m.json", new CompileOptions(["c"], NumericMode.Fixed, "plant"))),
+            ("fixed int32 impossible", () => ScorerCompiler.Compile(new BoltzmannModel(ModelKind.Rbm, 1, 1, [1e10], [0], [1]), "m.json",
+                new CompileOptions(["c"], NumericMode.Fixed, "plant", Fixed: new Emit.Quantize.FixedPointOptions(Accumulator: Emit.Quantize.AccumulatorType.Int32)))),
             ("self-test count", () => ScorerCompiler.Compile(small, "m.json", new CompileOptions(["c"], NumericMode.F32, "plant", SelfTestVectors: 0))),
             ("general too large", () => ScorerCompiler.Compile(TestModels.Random(ModelKind.General, 2, 17, seed: 1), "m.json", new CompileOptions(["c"], NumericMode.F32, "plant"))),
             ("weight beyond float", () => ScorerCompiler.Compile(new BoltzmannModel(ModelKind.Rbm, 1, 1, [0], [0], [1e39]), "m.json", new CompileOptions(["c"], NumericMode.F32, "plant"))),

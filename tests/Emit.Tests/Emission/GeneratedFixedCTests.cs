@@ -1,0 +1,172 @@
+using System.Text.RegularExpressions;
+using Emit.Emission;
+using Emit.Model;
+using Emit.Quantize;
+using Emit.Reference;
+
+namespace Emit.Tests.Emission;
+
+/// <summary>
+/// Compile-and-run of the generated fixed-point C: bit-exact against <see cref="FixedPointSimulator"/> on every input,
+/// within the proved bound of the double reference scorer (which the reference tests check against brute-force
+/// enumeration and numpy), decisions explained by the bound, strict flags with gcc, clang and g++, sanitizers,
+/// cppcheck, and no floating point in the compiled code.
+/// </summary>
+public sealed class GeneratedFixedCTests
+{
+    public static TheoryData<string> Combos() => FixedCodegenCases.Names();
+
+    [SkippableTheory]
+    [MemberData(nameof(Combos))]
+    public void Generated_c_gives_the_simulators_integers_and_stays_within_the_bound(string combo)
+    {
+        var c = FixedCodegenCases.Find(combo);
+        var plan = FixedCodegenCases.Plan(c);
+        var dir = Toolchain.TempDir("cfix-" + combo);
+        var name = FixedCodegenCases.Generate(c, dir);
+        var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue, integer: true);
+        var vectors = FixedCodegenCases.Vectors(c);
+        var result = CHarness.Run(exe, vectors);
+        var sim = new FixedPointSimulator(plan);
+        var reference = new ReferenceScorer(c.Case.Model);
+        var scorer = FixedScorerPlan.Build(c.Case.Model, FixedCodegenCases.Options(c, "c"), "x.json", plan);
+
+        Assert.Equal(0, result.SelfTestFailures);
+        Assert.Equal(vectors.Count, result.Rows.Count);
+        for (int k = 0; k < vectors.Count; k++)
+        {
+            var row = result.Rows[k];
+            long expected = sim.FreeEnergy(vectors[k]);
+            Assert.True(expected == row.Integer, $"{name} vector {k}: generated {row.Integer}, simulator {expected}");
+            Assert.True(row.SameBits, $"{name} vector {k}: packed and units entry points differ");
+            double error = Math.Abs(row.Integer / plan.EnergyScale - reference.FreeEnergy(vectors[k]));
+            Assert.True(error <= plan.ErrorBound, $"{name} vector {k}: error {error:R} above the stated bound {plan.ErrorBound:R}");
+            if (scorer.ThresholdUnits is { } t)
+            {
+                Assert.Equal(row.Integer > t ? 1 : 0, row.Unusual);
+                // the integer comparison is the real comparison of value / 2^E with the model's threshold
+                Assert.Equal(row.Integer / plan.EnergyScale > c.Case.Model.Threshold!.Value ? 1 : 0, row.Unusual);
+            }
+        }
+    }
+
+    /// <summary>AddressSanitizer and UndefinedBehaviorSanitizer (signed overflow, shifts, bounds) over every combination.</summary>
+    [SkippableFact]
+    public void Generated_fixed_c_runs_clean_under_address_and_undefined_behaviour_sanitizers()
+    {
+        foreach (var c in FixedCodegenCases.All)
+        {
+            var dir = Toolchain.TempDir("fsan-" + c.Name);
+            var name = FixedCodegenCases.Generate(c, dir);
+            var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue,
+                "-g -fsanitize=address,undefined,shift,signed-integer-overflow -fno-sanitize-recover=all", integer: true);
+            var vectors = FixedCodegenCases.Vectors(c);
+            var result = CHarness.Run(exe, vectors.Take(6).Concat(vectors.Skip(vectors.Count - 3)));
+            Assert.Equal(0, result.SelfTestFailures);
+        }
+    }
+
+    [SkippableFact]
+    public void Generated_fixed_c_compiles_with_clang_and_as_cpp17_with_strict_flags()
+    {
+        var clang = Toolchain.Require("clang");
+        var gpp = Toolchain.Require("g++");
+        var dir = Toolchain.TempDir("fstrict");
+        foreach (var c in FixedCodegenCases.All)
+        {
+            var name = FixedCodegenCases.Generate(c, dir);
+            var src = Path.Combine(dir, name + ".c");
+            Toolchain.RunOk(clang, [.. Toolchain.Split(Toolchain.StrictC), "-O2", "-c", src, "-o", Path.Combine(dir, name + ".clang.o")]);
+            Toolchain.RunOk(gpp, [.. Toolchain.Split(Toolchain.StrictCpp), "-c", src, "-o", Path.Combine(dir, name + ".cpp.o")]);
+        }
+    }
+
+    [SkippableFact]
+    public void Cppcheck_reports_nothing_on_generated_fixed_c()
+    {
+        var cppcheck = Toolchain.Require("cppcheck");
+        var dir = Toolchain.TempDir("fcppcheck");
+        var sources = FixedCodegenCases.All.Where(c => c.Weights == WeightType.Int16 || c.Case.Id == "lat_a")
+            .Select(c => Path.Combine(dir, FixedCodegenCases.Generate(c, dir) + ".c")).ToList();
+        var (exit, output, err) = Toolchain.Run(cppcheck, ["-q", "--enable=warning,style,portability,performance", "--std=c99", "--error-exitcode=1", "-I", dir, .. sources]);
+        Assert.True(exit == 0 && err.Trim().Length == 0, output + err);
+    }
+
+    /// <summary>
+    /// No floating point reaches the compiled code: with float and double poisoned (any use is a compile error) and
+    /// -Wdouble-promotion -Wfloat-conversion, the source compiles; after preprocessing it holds no floating literal
+    /// (the header's two double macros are for callers and are never expanded in NAME.c); and it has no division
+    /// or remainder operator.
+    /// </summary>
+    [SkippableFact]
+    public void Generated_fixed_c_holds_no_floating_point_and_no_division()
+    {
+        var cc = Toolchain.Require("cc");
+        var dir = Toolchain.TempDir("fnofloat");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        foreach (var c in FixedCodegenCases.All)
+        {
+            var name = FixedCodegenCases.Generate(c, dir);
+            var src = Path.Combine(dir, name + ".c");
+            Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), "-Wdouble-promotion", "-Wfloat-conversion", "-include", poison, "-O2", "-c", src, "-o", Path.Combine(dir, name + ".o")]);
+            var pre = Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), "-E", "-P", src]);
+            // the generated code's own part starts at its first typedef (before it: stdint.h)
+            var code = pre[pre.LastIndexOf("typedef", pre.IndexOf(name + "_acc_t;", StringComparison.Ordinal), StringComparison.Ordinal)..];
+            Assert.DoesNotMatch(@"\b\d+\.\d*|\.\d+|\b\d+[eE][+-]?\d+\b", code);
+            Assert.DoesNotMatch(@"\b(float|double)\b", code);
+            // divisions only in constant expressions the compiler evaluates: table-length checks and the packed size
+            var runtime = Regex.Replace(code, @"(?m)^typedef char .*$", "");
+            runtime = Regex.Replace(runtime, @"\(\(\d+ \+ 7\) / 8\)", "");
+            Assert.DoesNotMatch(@"/|%", runtime);
+        }
+    }
+
+    [SkippableFact]
+    public void Hostile_unit_names_cannot_break_out_of_fixed_mode_comments()
+    {
+        var cc = Toolchain.Require("cc");
+        var m = CodegenCases.WithNames(TestModels.Random(ModelKind.Lateral, CodegenCases.HostileNames.Length, 4, seed: 5), CodegenCases.HostileNames);
+        var dir = Toolchain.TempDir("fhostile");
+        foreach (var f in ScorerCompiler.Compile(m, "*/ evil\n#define model.json", new CompileOptions(["c", "csharp"], NumericMode.Fixed, "hostile")))
+            File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+        var pre = Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), "-E", "-P", Path.Combine(dir, "hostile.c")]);
+        Assert.DoesNotContain("injected", pre);
+        Assert.DoesNotContain("broken", pre);
+        var result = CHarness.Run(CHarness.Build(dir, "hostile", false, integer: true), [new byte[m.Visible]]);
+        Assert.Equal(0, result.SelfTestFailures);
+    }
+
+    /// <summary>The self-test must notice a damaged table: one weight changed by one LSB (as a flash bit error might).</summary>
+    [SkippableFact]
+    public void Fixed_self_test_fails_when_a_weight_is_damaged()
+    {
+        var c = FixedCodegenCases.All.Single(x => x.Name == "lat_a_int16_int32");
+        var dir = Toolchain.TempDir("fdamaged");
+        var name = FixedCodegenCases.Generate(c, dir);
+        var path = Path.Combine(dir, name + ".c");
+        var text = File.ReadAllText(path);
+        int table = text.IndexOf($"{name}_weights[", StringComparison.Ordinal);
+        var literal = Regex.Match(text[table..], @"\n        (-?\d+),");
+        int at = table + literal.Groups[1].Index;
+        long value = long.Parse(literal.Groups[1].Value, System.Globalization.CultureInfo.InvariantCulture);
+        File.WriteAllText(path, text[..at] + (value ^ 1).ToString(System.Globalization.CultureInfo.InvariantCulture) + text[(at + literal.Groups[1].Length)..]);
+        var result = CHarness.Run(CHarness.Build(dir, name, true, integer: true), [new byte[c.Case.Model.Visible]]);
+        Assert.True(result.SelfTestFailures > 0, "the self-test passed with a damaged weight");
+    }
+
+    [SkippableFact]
+    public void Mismatched_fixed_point_options_refuse_to_compile()
+    {
+        var cc = Toolchain.Require("cc");
+        var dir = Toolchain.TempDir("fmismatch");
+        var c = CodegenCases.All.Single(x => x.Id == "rbm_b");
+        var a = ScorerCompiler.Compile(c.Model, "a.json", new CompileOptions(["c"], NumericMode.Fixed, "same", Fixed: new FixedPointOptions(WeightType.Int16)));
+        var b = ScorerCompiler.Compile(c.Model, "a.json", new CompileOptions(["c"], NumericMode.Fixed, "same", Fixed: new FixedPointOptions(WeightType.Int8)));
+        File.WriteAllText(Path.Combine(dir, "same.h"), b.Single(f => f.FileName == "same.h").Text);
+        File.WriteAllText(Path.Combine(dir, "same.c"), a.Single(f => f.FileName == "same.c").Text);
+        var (exit, _, err) = Toolchain.Run(cc, [.. Toolchain.Split(Toolchain.StrictC), "-c", Path.Combine(dir, "same.c"), "-o", Path.Combine(dir, "same.o")]);
+        Assert.NotEqual(0, exit);
+        Assert.Contains("other fixed-point options", err);
+    }
+}
