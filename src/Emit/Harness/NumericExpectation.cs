@@ -76,9 +76,10 @@ public sealed class NumericExpectation
         var fixedBasis = $"proved worst-case bound of the integer plan ({plan.ErrorBound.ToString("G3", inv).ToLowerInvariant()} nats: {options.Weights.ToText()} weights, " +
                          $"{plan.Accumulator.ToText()} accumulator, {options.SoftplusTableSize.ToString(inv)}-segment softplus table) " +
                          $"plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
-        // one LSB of the energy format covers the threshold's rounding to an integer whichever way it is rounded
+        // The generated threshold is floor(t·2^E) (FixedScorerPlan.ThresholdUnits), so an integer result f is above it
+        // exactly when f / 2^E > t: the threshold adds nothing to the bound.
         return new NumericExpectation(mode, options.Weights.ToText(), plan.Accumulator.Bits() / 8, plan.EnergyScale, plan.ErrorBound + reference,
-            fixedBasis, new FixedPointSimulator(plan), model.Threshold, model.Threshold is null ? 0 : 1 / plan.EnergyScale);
+            fixedBasis, new FixedPointSimulator(plan), model.Threshold, 0);
     }
 
     /// <summary>The harness layout for this mode and model.</summary>

@@ -56,7 +56,7 @@ public static class Verifier
             {
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
-                var options = new CompileOptions(languages, mode, defaultName);
+                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions);
                 foreach (var f in ScorerCompiler.Compile(model, request.ModelLabel, options))
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)

@@ -206,6 +206,51 @@ public sealed class VerifyCommandTests
         Assert.All(xml.Descendants("failure"), f => Assert.Contains("above the bound", f.Attribute("message")!.Value));
     }
 
+    /// <summary>
+    /// Fixed point from existing sources: the numeric mode and the weight width come from the sources' banner; one
+    /// weight changed by one unit in the last place fails the C targets for not being bit-exact, even where the error
+    /// stays within the proved bound.
+    /// </summary>
+    [SkippableFact]
+    public void Fixed_point_sources_are_checked_bit_for_bit_and_one_changed_integer_fails()
+    {
+        VerifyCases.Require("c", "csharp", "cortex-m3");
+        var (dir, model, vectors) = Setup("verify-fixed", Lateral.Model);
+        var gen = Path.Combine(dir, "gen");
+        var compiled = CliRunner.Run("compile", model, "--target", "c,csharp", "--numeric", "fixed", "--weights", "int8", "--out", gen);
+        Assert.True(compiled.ExitCode == 0, compiled.Error);
+        var json = Path.Combine(dir, "r.json");
+        var good = CliRunner.Run("verify", model, "--input", vectors, "--generated", gen, "--target", "c,cortex-m3", "--report", json);
+        Assert.True(good.ExitCode == 0, good.Out + good.Error);
+        foreach (var t in ReadReport(json).GetProperty("targets").EnumerateArray())
+        {
+            Assert.Equal("fixed", t.GetProperty("numeric").GetString());
+            Assert.Equal("int8", t.GetProperty("weights").GetString());
+            Assert.True(t.GetProperty("bit_exact").GetBoolean());
+        }
+
+        var path = Path.Combine(gen, "plant.c");
+        var text = File.ReadAllText(path);
+        int table = text.IndexOf("plant_weights[", StringComparison.Ordinal);
+        var literal = Regex.Match(text[table..], @"\n\s+(-?[0-9]+),");
+        long value = long.Parse(literal.Groups[1].Value, CultureInfo.InvariantCulture);
+        long changed = value == 127 ? 126 : value + 1;
+        int at = table + literal.Groups[1].Index;
+        File.WriteAllText(path, text[..at] + changed.ToString(CultureInfo.InvariantCulture) + text[(at + literal.Groups[1].Length)..]);
+        var bad = CliRunner.Run("verify", model, "--input", vectors, "--generated", gen, "--target", "c,csharp,cortex-m3", "--report", json);
+        Assert.True(bad.ExitCode == 1, bad.Out + bad.Error);
+        var report = ReadReport(json);
+        foreach (var name in new[] { "c", "cortex-m3" })
+        {
+            var t = Target(report, name);
+            Assert.False(t.GetProperty("passed").GetBoolean());
+            Assert.False(t.GetProperty("bit_exact").GetBoolean());
+            Assert.True(t.GetProperty("bit_mismatches").GetInt64() > 0);
+            Assert.Contains(t.GetProperty("failures").EnumerateArray(), f => f.GetString()!.Contains("differ from the integer simulator", StringComparison.Ordinal));
+        }
+        Assert.True(Target(report, "csharp").GetProperty("bit_exact").GetBoolean());
+    }
+
     // ---- existing sources from another model ----
 
     [SkippableFact]

@@ -1,6 +1,7 @@
 using Emit.Emission;
 using Emit.Harness;
 using Emit.Model;
+using Emit.Quantize;
 using Emit.Reference;
 using Emit.Tests.Emission;
 using Emit.Tests.Model;
@@ -64,11 +65,50 @@ public sealed class VerifierTests
                 $"{t.Target}: {t.MaxAbsError:R} against the reference, which is {worst:R} from scikit-learn");
     }
 
+    /// <summary>
+    /// Fixed point: every target's integers equal the library's integer simulator on the scikit-learn digits model, and
+    /// the error stays within the proved bound, for each weight width (int8 without the slow .NET build; the CLI tests
+    /// cover int8 in C#).
+    /// </summary>
+    [SkippableTheory]
+    [InlineData(WeightType.Int16, "c,csharp,cortex-m3")]
+    [InlineData(WeightType.Int8, "c,cortex-m3")]
+    public void Fixed_point_is_bit_exact_on_every_target(WeightType weights, string targets)
+    {
+        var names = targets.Split(',');
+        VerifyCases.Require(names);
+        var model = ModelLoader.Load(NpzFixtures.Path("sklearn_digits_rbm.npz"));
+        var report = Verifier.Run(new VerifyRequest
+        {
+            Model = model,
+            ModelLabel = "sklearn_digits_rbm.npz",
+            InputPath = NpzFixtures.Path("sklearn_digits_vectors.csv"),
+            Targets = names,
+            Numeric = NumericMode.Fixed,
+            Fixed = new FixedPointOptions(weights),
+            Settings = VerifyCases.Settings(),
+            BatchRows = 64,
+        });
+        Assert.True(report.Passed, VerifyCases.Describe(report));
+        var plan = FixedPointPlanner.Build(model, new FixedPointOptions(weights));
+        foreach (var t in report.Targets)
+        {
+            Assert.Equal(200, t.Vectors);
+            Assert.Equal("fixed", t.Numeric);
+            Assert.Equal(weights.ToText(), t.Weights);
+            Assert.True(t.BitExact);
+            Assert.Equal(0, t.BitMismatches);
+            Assert.Equal(plan.ErrorBound + FloatErrorBound.ReferenceWorst(model), t.ErrorBound);
+            Assert.True(t.MaxAbsError <= t.ErrorBound);
+            Assert.Equal(0, t.SelfTestFailures);
+        }
+    }
+
     public static TheoryData<string, NumericMode> KindCases()
     {
         var data = new TheoryData<string, NumericMode>();
         foreach (var id in new[] { "lat_a", "gen_a" })
-            foreach (var mode in new[] { NumericMode.F64, NumericMode.F32 })
+            foreach (var mode in new[] { NumericMode.F64, NumericMode.F32, NumericMode.Fixed })
                 data.Add(id, mode);
         return data;
     }
