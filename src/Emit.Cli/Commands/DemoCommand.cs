@@ -1,6 +1,8 @@
 using System.CommandLine;
 using System.Globalization;
 using Emit.Demo;
+using Emit.Emission;
+using Emit.Harness;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Vectors;
@@ -9,7 +11,8 @@ namespace Emit.Cli.Commands;
 
 /// <summary>
 /// <c>emit demo [--data DIR]</c>: runs the pipeline on the shipped reefer-fleet demo (demo-data/): the model,
-/// its exact log Z, and how its threshold separates the normal and faulty logs, fault by fault.
+/// its exact log Z, how its threshold separates the normal and faulty logs, fault by fault, and the generated C scorer
+/// compiled and verified against the reference on the host.
 /// </summary>
 public sealed class DemoCommand : ICliCommand
 {
@@ -67,9 +70,59 @@ public sealed class DemoCommand : ICliCommand
         o.WriteLine("             detected by fault:");
         foreach (var g in faults.Select((name, i) => (name, flagged: faulty[i] > threshold)).GroupBy(x => x.name).OrderByDescending(g => g.Count(x => x.flagged) / (double)g.Count()))
             o.WriteLine($"               {g.Key,-32} {g.Count(x => x.flagged),3} / {g.Count(),-3}");
+        CompileAndVerify(o, model, P(DemoData.ModelFileName), P(DemoData.NormalFileName));
         o.WriteLine();
         o.WriteLine("Caution: this detector is a monitoring aid, not a safety function; defer to local codes and licensed practice.");
     }
+
+    /// <summary>
+    /// Steps 4 and 5: compile the model to C (f32) in a temporary folder and verify those sources on the host C compiler
+    /// over the normal logs, as QA would in CI. Without a C compiler the step says what to install and is skipped.
+    /// </summary>
+    private static void CompileAndVerify(TextWriter o, BoltzmannModel model, string modelPath, string vectorsPath)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        var name = Naming.ScorerNameFromFile(modelPath);
+        var dir = Path.Combine(Path.GetTempPath(), "emit-demo-" + Guid.NewGuid().ToString("N")[..12]);
+        try
+        {
+            var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), new CompileOptions(["c"], NumericMode.F32, name));
+            OutputFolder.Write(dir, files, force: false);
+            var header = files.Single(f => f.FileName.EndsWith(".h", StringComparison.Ordinal)).Text;
+            var bound = double.Parse(System.Text.RegularExpressions.Regex.Match(header, @"_ERROR_BOUND (\S+)").Groups[1].Value, inv);
+            o.WriteLine($"4. compile   emit compile --target c --numeric f32: {string.Join(", ", files.Select(f => $"{f.FileName} ({f.Text.Length / 1024.0:F0} KiB)"))}");
+            o.WriteLine($"             stated error bound {G(bound)} nats; self-test of {CompileOptions.DefaultSelfTestVectors} embedded vectors");
+            VerifyReport report;
+            try
+            {
+                report = Verifier.Run(new VerifyRequest
+                {
+                    Model = model,
+                    ModelLabel = Path.GetFileName(modelPath),
+                    InputPath = vectorsPath,
+                    Targets = ["c"],
+                    GeneratedDirectory = dir,
+                    Name = name,
+                });
+            }
+            catch (EmitException e)
+            {
+                o.WriteLine($"5. verify    skipped: {e.OneLine()}");
+                return;
+            }
+            var t = report.Targets[0];
+            o.WriteLine($"5. verify    emit verify --target c over {Path.GetFileName(vectorsPath)}: {t.Vectors} vectors on the host C compiler (strict flags)");
+            o.WriteLine($"             max |error| {G(t.MaxAbsError)} nats, mean {G(t.MeanAbsError)}, bound {G(t.ErrorBound)}; " +
+                        $"{t.DecisionMismatches} decision mismatches ({t.UnexplainedMismatches} unexplained): {(t.Passed ? "pass" : "FAIL: " + string.Join("; ", t.Failures))}");
+            o.WriteLine("             (emit verify MODEL --input DATA --target c,csharp,cortex-m3 adds .NET and an emulated Cortex-M3)");
+        }
+        finally
+        {
+            try { Directory.Delete(dir, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+        }
+    }
+
+    private static string G(double? x) => x?.ToString("G3", CultureInfo.InvariantCulture).ToLowerInvariant() ?? "-";
 
     private static List<double> Score(BoltzmannModel model, string path)
     {

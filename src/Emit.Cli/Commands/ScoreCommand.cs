@@ -30,7 +30,7 @@ public sealed class ScoreCommand : ICliCommand
         {
             var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
-            CheckNames(model, reader);
+            VectorNames.Check(model, reader);
             var output = parse.GetValue(_output);
             if (output is null)
             {
@@ -47,16 +47,6 @@ public sealed class ScoreCommand : ICliCommand
             return CliApp.Ok;
         });
         return cmd;
-    }
-
-    /// <summary>A header whose names differ from the model's means the columns are in another order: refuse.</summary>
-    private static void CheckNames(BoltzmannModel model, VectorReader reader)
-    {
-        if (model.Names.IsEmpty || reader.Names.IsEmpty) return;
-        for (int i = 0; i < model.Visible; i++)
-            if (reader.Names[i] != model.Names[i])
-                throw new EmitException($"column {i + 1} is named \"{reader.Names[i]}\" but the model's unit {i} is \"{model.Names[i]}\"",
-                    "put the columns in the model's order, or remove the header", reader.Source, reader.HeaderLine);
     }
 
     private static void Score(BoltzmannModel model, VectorReader reader, TextWriter w)

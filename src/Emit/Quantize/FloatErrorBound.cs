@@ -73,6 +73,10 @@ public static class FloatErrorBound
     public static double Reference(BoltzmannModel model, ReadOnlySpan<byte> units) =>
         Compute(model, UnitRoundoff(NumericMode.F64), units.ToArray(), Math.Min(model.Hidden, 14), pairwise: false);
 
+    /// <summary>A bound on the error of <see cref="ReferenceScorer"/> over every input (as <see cref="Reference"/>, with the largest term sums).</summary>
+    public static double ReferenceWorst(BoltzmannModel model) =>
+        Compute(model, UnitRoundoff(NumericMode.F64), null, Math.Min(model.Hidden, 14), pairwise: false);
+
     private static double Compute(BoltzmannModel m, double u, byte[]? units, int blockBits, bool pairwise)
     {
         int v = m.Visible, h = m.Hidden;

@@ -21,6 +21,12 @@ public sealed class DemoCommandTests
         Assert.Matches(@"normal\.csv: \d+ of 2000 flagged", r.Out);
         Assert.Matches(@"faulty\.csv: \d+ of 400 flagged", r.Out);
         Assert.Contains("monitoring aid, not a safety function", r.Out);
+        // the generated C compiled and verified on the host (skipped with the package to install when there is no cc)
+        Assert.Matches(@"4\. compile   emit compile --target c --numeric f32: reefer_fleet\.h \(\d+ KiB\), reefer_fleet\.c", r.Out);
+        if (Emit.Harness.Tool.Find("cc") is null && !Emit.Tests.Emission.Toolchain.InCi)
+            Assert.Contains("5. verify    skipped: target c: C compiler \"cc\" not found (install the Debian package gcc", r.Out);
+        else
+            Assert.Matches(@"5\. verify    emit verify --target c over normal\.csv: 2000 vectors[^\n]*\n\s+max \|error\| \S+ nats.*: pass\n", r.Out);
     }
 
     [Fact]

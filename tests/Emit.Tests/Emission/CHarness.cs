@@ -1,73 +1,62 @@
-using System.Globalization;
+using Emit.Emission;
+using Emit.Harness;
 
 namespace Emit.Tests.Emission;
 
 /// <summary>
-/// Builds a generated C scorer with a test main that reads one input per line ('0'/'1' per unit) and prints, per
-/// input, the free energy from the packed entry point (round-trip precision; in fixed mode the integer), whether the
-/// units entry point gave the same bits, and the decision; the first line is the self-test result.
+/// Builds a generated C scorer in a folder with the product's harness main (<see cref="HostCRunner"/>, strict flags) and
+/// runs it over inputs: per input the free energy from the packed entry point, whether the units entry point gave the
+/// same bits, and the decision; plus the self-test result.
 /// </summary>
 internal static class CHarness
 {
-    /// <summary>One output line; in fixed mode <see cref="Integer"/> is the returned integer and <see cref="Energy"/> the same value as a double.</summary>
+    /// <summary>One result; in fixed mode <see cref="Integer"/> is the returned integer and <see cref="Energy"/> the same value as a double.</summary>
     public sealed record Row(double Energy, bool SameBits, int Unusual, long Integer = 0);
 
     public sealed record Result(int SelfTestFailures, IReadOnlyList<Row> Rows);
 
-    public static string MainSource(string name, bool hasThreshold, bool integer = false) => $$"""
-        #include <stdio.h>
-        #include <string.h>
-        #include "{{name}}.h"
+    /// <summary>A built harness: the executable and how to read its results.</summary>
+    public sealed record Built(string Exe, ScorerSources Sources, HarnessLayout Layout, bool IsFixed);
 
-        int main(void)
-        {
-            static char line[{{name.ToUpperInvariant()}}_VISIBLE + 16];
-            printf("selftest %d\n", {{name}}_selftest());
-            while (fgets(line, (int)sizeof line, stdin) != NULL) {
-                uint8_t units[{{name.ToUpperInvariant()}}_VISIBLE];
-                uint8_t packed[{{name.ToUpperInvariant()}}_PACKED_BYTES];
-                {{name}}_energy_t e1, e2;
-                int i;
-                memset(packed, 0, sizeof packed);
-                for (i = 0; i < {{name.ToUpperInvariant()}}_VISIBLE; ++i) {
-                    /* any nonzero byte means on */
-                    units[i] = (uint8_t)(line[i] == '1' ? 1 + i % 200 : 0);
-                    if (units[i] != 0) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7)));
-                }
-                /* bits beyond the last unit must be ignored */
-                if ({{name.ToUpperInvariant()}}_VISIBLE % 8 != 0)
-                    packed[{{name.ToUpperInvariant()}}_PACKED_BYTES - 1] = (uint8_t)(packed[{{name.ToUpperInvariant()}}_PACKED_BYTES - 1] | (0xFFu << ({{name.ToUpperInvariant()}}_VISIBLE % 8)));
-                e1 = {{name}}_free_energy(packed);
-                e2 = {{name}}_free_energy_units(units);
-                printf("{{(integer ? "%lld" : "%.17g")}} %d %d\n", {{(integer ? "(long long)e1" : "(double)e1")}}, memcmp(&e1, &e2, sizeof e1) == 0, {{(hasThreshold ? name + "_is_unusual(e1)" : "-1")}});
-            }
-            return 0;
-        }
-        """;
-
-    /// <summary>Compiles NAME.c and the test main in <paramref name="dir"/> with the strict flags (plus extra flags).</summary>
-    public static string Build(string dir, string name, bool hasThreshold, string extraFlags = "", bool integer = false)
+    /// <summary>
+    /// Compiles NAME.c in <paramref name="dir"/> and the harness main with the strict flags (plus extra flags). The
+    /// numeric mode comes from the file's banner; <paramref name="integer"/> states that it is fixed point.
+    /// </summary>
+    public static Built Build(string dir, string name, bool hasThreshold, string extraFlags = "", bool integer = false)
     {
-        var cc = Toolchain.Require("cc");
-        File.WriteAllText(Path.Combine(dir, "main_" + name + ".c"), MainSource(name, hasThreshold, integer));
-        var exe = Path.Combine(dir, "run_" + name);
-        Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), .. Toolchain.Split(extraFlags), "-O2", "-I", dir,
-            Path.Combine(dir, name + ".c"), Path.Combine(dir, "main_" + name + ".c"), "-o", exe, "-lm"]);
-        return exe;
+        Toolchain.Require("cc");
+        var sources = ScorerSources.Locate(dir, "c", name, name);
+        Assert.Equal(hasThreshold, sources.HasThreshold);
+        var mode = NumericModeNames.Parse(sources.StampedOptions["--numeric"]) ?? throw new InvalidOperationException("no numeric mode in the banner");
+        Assert.Equal(integer, mode == NumericMode.Fixed);
+        int bytes = mode == NumericMode.F32 ? 4 : 8;
+        if (mode == NumericMode.Fixed)
+            bytes = File.ReadAllText(sources.MainFile).Contains("typedef int64_t " + name + "_energy_t", StringComparison.Ordinal) ? 8 : 4;
+        var layout = new HarnessLayout(int.Parse(System.Text.RegularExpressions.Regex.Match(File.ReadAllText(sources.MainFile), $@"#define {Naming.MacroPrefix(name)}_VISIBLE (\d+)").Groups[1].Value,
+            System.Globalization.CultureInfo.InvariantCulture), bytes);
+        var exe = HostCRunner.Build(sources, layout, new RunnerSettings("cc", extraFlags, Toolchain.Limit), Path.Combine(dir, "harness-" + name), out var failure);
+        Assert.True(exe is not null, failure);
+        return new Built(exe!, sources, layout, mode == NumericMode.Fixed);
     }
 
-    public static Result Run(string exe, IEnumerable<byte[]> vectors)
+    public static Result Run(Built built, IEnumerable<byte[]> vectors)
     {
-        var input = string.Concat(vectors.Select(v => CodegenCases.Bits(v) + "\n"));
-        var output = Toolchain.RunOk(exe, [], stdin: input);
+        var input = string.Concat(vectors.Select(v => Convert.ToHexStringLower(SelfTestVectors.Pack(v)) + "\n"));
+        var output = Toolchain.RunOk(built.Exe, [], stdin: input);
         var lines = output.Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        Assert.StartsWith("selftest ", lines[0]);
+        int? selfTest = built.Layout.ReadHeader(lines[0], out var failure);
+        Assert.True(selfTest is not null, failure);
         var rows = lines.Skip(1).Select(l =>
         {
-            var p = l.Split(' ');
-            bool isInteger = long.TryParse(p[0], NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out long n);
-            return new Row(isInteger ? n : double.Parse(p[0], CultureInfo.InvariantCulture), p[1] == "1", int.Parse(p[2], CultureInfo.InvariantCulture), isInteger ? n : 0);
+            Assert.True(built.Layout.TryParseRow(l, out var row), l);
+            if (built.IsFixed)
+            {
+                long n = built.Layout.EnergyBytes == 4 ? unchecked((int)(uint)row.Bits) : unchecked((long)row.Bits);
+                return new Row(n, row.SameBits, row.Decision, n);
+            }
+            double energy = built.Layout.EnergyBytes == 4 ? BitConverter.UInt32BitsToSingle((uint)row.Bits) : BitConverter.UInt64BitsToDouble(row.Bits);
+            return new Row(energy, row.SameBits, row.Decision);
         }).ToArray();
-        return new Result(int.Parse(lines[0]["selftest ".Length..], CultureInfo.InvariantCulture), rows);
+        return new Result(selfTest!.Value, rows);
     }
 }

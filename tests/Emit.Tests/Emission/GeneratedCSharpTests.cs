@@ -1,15 +1,16 @@
 using System.Globalization;
 using System.Text;
 using Emit.Emission;
+using Emit.Harness;
 using Emit.Quantize;
 using Emit.Reference;
 
 namespace Emit.Tests.Emission;
 
 /// <summary>
-/// Builds the generated C# of every test model and mode in ONE temporary console project (dotnet build is slow),
-/// with nullable enabled, warnings as errors and C# 12 (the language version of net8.0), then runs it over the
-/// test vectors. The results are shared by the tests of this class.
+/// Builds the generated C# of every test model and mode in ONE temporary console project (dotnet build is slow) with the
+/// library's project builder (<see cref="CSharpProject"/>: nullable enabled; here warnings as errors and C# 12, the
+/// language version of net8.0), then runs it over the test vectors. The results are shared by the tests of this class.
 /// </summary>
 public sealed class CSharpBuildFixture
 {
@@ -28,21 +29,6 @@ public sealed class CSharpBuildFixture
         var dotnet = Toolchain.Find("dotnet");
         if (dotnet is null) { SkipReason = "dotnet is not on PATH"; return; }
         var dir = Toolchain.TempDir("csharp");
-        File.WriteAllText(Path.Combine(dir, "Harness.csproj"), """
-            <Project Sdk="Microsoft.NET.Sdk">
-              <PropertyGroup>
-                <OutputType>Exe</OutputType>
-                <TargetFramework>net10.0</TargetFramework>
-                <LangVersion>12</LangVersion>
-                <Nullable>enable</Nullable>
-                <ImplicitUsings>disable</ImplicitUsings>
-                <TreatWarningsAsErrors>true</TreatWarningsAsErrors>
-                <WarningLevel>9999</WarningLevel>
-                <EnableNETAnalyzers>true</EnableNETAnalyzers>
-                <InvariantGlobalization>true</InvariantGlobalization>
-              </PropertyGroup>
-            </Project>
-            """);
         var program = new StringBuilder();
         program.Append("""
             using System;
@@ -121,12 +107,13 @@ public sealed class CSharpBuildFixture
         touch.Append("        _ => throw new ArgumentException(name),\n    };\n");
         score.Append("            default: throw new ArgumentException(name);\n        }\n    }\n");
         program.Append(selfTest).Append('\n').Append(touch).Append('\n').Append(score).Append("}\n");
-        File.WriteAllText(Path.Combine(dir, "Program.cs"), program.ToString());
         File.WriteAllText(Path.Combine(dir, "input.txt"), input.ToString());
 
-        var (exit, output, err) = Toolchain.Run(dotnet, ["build", "-c", "Release", "-nologo", "-v", "q", "-o", Path.Combine(dir, "bin")], dir);
-        Assert.True(exit == 0, $"generated C# did not build:\n{output}\n{err}");
-        var run = Toolchain.RunOk(dotnet, [Path.Combine(dir, "bin", "Harness.dll"), Path.Combine(dir, "input.txt")], dir);
+        // the library's temporary-project builder, with warnings as errors and C# 12 (the language version of net8.0)
+        var dll = CSharpProject.Build(dir, [new("Program.cs", program.ToString())],
+            new CSharpProject.Settings("net10.0", "12", WarningsAsErrors: true), Toolchain.Limit, out var failure);
+        Assert.True(dll is not null, $"generated C# did not build:\n{failure}");
+        var run = Toolchain.RunOk(dotnet, [dll!, Path.Combine(dir, "input.txt")], dir);
         foreach (var line in run.Split('\n', StringSplitOptions.RemoveEmptyEntries))
         {
             var p = line.Split(' ');

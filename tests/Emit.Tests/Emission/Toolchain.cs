@@ -1,30 +1,27 @@
-using System.Diagnostics;
-using System.Text;
+using Emit.Harness;
 
 namespace Emit.Tests.Emission;
 
-/// <summary>Runs external tools (C compiler, dotnet, python3) for compile-and-run tests.</summary>
+/// <summary>
+/// Test-side access to external tools. Finding and running programs is the library's (<see cref="Tool"/>,
+/// <see cref="ExternalProcess"/>, <see cref="CFlags"/>); this adds what only tests need: skipping a test when a tool is
+/// missing (failing it under CI=true) and temporary folders.
+/// </summary>
 internal static class Toolchain
 {
     /// <summary>The strict flags every C compile in the tests uses (issue 3 §3).</summary>
-    public const string StrictC = "-std=c99 -Wall -Wextra -Wpedantic -Wconversion -Wshadow -Wstrict-prototypes -Werror";
+    public const string StrictC = CFlags.Strict;
 
-    /// <summary>The same for a C++17 compile of the generated C (-Wstrict-prototypes is C only).</summary>
-    public const string StrictCpp = "-std=c++17 -x c++ -Wall -Wextra -Wpedantic -Wconversion -Wshadow -Werror";
+    /// <summary>The same for a C++17 compile of the generated C.</summary>
+    public const string StrictCpp = CFlags.StrictCpp;
+
+    /// <summary>Time limit of every external program run by a test.</summary>
+    public static readonly TimeSpan Limit = TimeSpan.FromMinutes(10);
 
     public static bool InCi => string.Equals(Environment.GetEnvironmentVariable("CI"), "true", StringComparison.OrdinalIgnoreCase);
 
     /// <summary>Full path of a program on PATH, or null.</summary>
-    public static string? Find(string program)
-    {
-        foreach (var dir in (Environment.GetEnvironmentVariable("PATH") ?? "").Split(Path.PathSeparator))
-        {
-            if (dir.Length == 0) continue;
-            var path = Path.Combine(dir, program);
-            if (File.Exists(path)) return path;
-        }
-        return null;
-    }
+    public static string? Find(string program) => Tool.Find(program);
 
     /// <summary>The path of <paramref name="program"/>; skips the test when missing, fails it under CI=true.</summary>
     public static string Require(string program)
@@ -38,35 +35,26 @@ internal static class Toolchain
         return path!;
     }
 
-    /// <summary>Runs a program to completion; returns exit code and captured output.</summary>
-    public static (int Exit, string Out, string Err) Run(string program, IEnumerable<string> args, string? workDir = null, string? stdin = null, int timeoutSeconds = 600)
+    /// <summary>Skips the test (fails it under CI=true) unless <paramref name="check"/> passes; it throws the library's message naming the package.</summary>
+    public static void RequireTools(Action check)
     {
-        var psi = new ProcessStartInfo(program)
+        try
         {
-            RedirectStandardOutput = true,
-            RedirectStandardError = true,
-            RedirectStandardInput = stdin is not null,
-            UseShellExecute = false,
-            WorkingDirectory = workDir ?? Environment.CurrentDirectory,
-            StandardOutputEncoding = Encoding.UTF8,
-        };
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        psi.Environment["DOTNET_CLI_TELEMETRY_OPTOUT"] = "1";
-        psi.Environment["DOTNET_NOLOGO"] = "1";
-        using var p = Process.Start(psi)!;
-        var stdoutTask = p.StandardOutput.ReadToEndAsync();
-        var stderrTask = p.StandardError.ReadToEndAsync();
-        if (stdin is not null)
-        {
-            p.StandardInput.Write(stdin);
-            p.StandardInput.Close();
+            check();
         }
-        if (!p.WaitForExit(timeoutSeconds * 1000))
+        catch (EmitException e)
         {
-            p.Kill(entireProcessTree: true);
-            throw new TimeoutException($"{program} did not finish in {timeoutSeconds} s");
+            Assert.False(InCi, $"required under CI=true (.ci/run installs it): {e.OneLine()}");
+            Skip.If(true, e.OneLine());
         }
-        return (p.ExitCode, stdoutTask.Result, stderrTask.Result);
+    }
+
+    /// <summary>Runs a program to completion; returns exit code and captured output.</summary>
+    public static (int Exit, string Out, string Err) Run(string program, IEnumerable<string> args, string? workDir = null, string? stdin = null)
+    {
+        var r = ExternalProcess.Run(program, args, Limit, workDir, stdin);
+        if (r.TimedOut) throw new TimeoutException($"{program} did not finish in {Limit.TotalSeconds} s");
+        return (r.ExitCode, r.Out, r.Err);
     }
 
     /// <summary>Runs and asserts exit code 0, showing the output otherwise.</summary>
@@ -99,5 +87,5 @@ internal static class Toolchain
         return dir;
     }
 
-    public static IEnumerable<string> Split(string flags) => flags.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+    public static IEnumerable<string> Split(string flags) => CFlags.Split(flags);
 }

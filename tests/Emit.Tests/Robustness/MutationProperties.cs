@@ -71,6 +71,26 @@ public sealed class MutationProperties
         }
     }
 
+    private static readonly byte[][] NpzBytes =
+    [
+        File.ReadAllBytes(Path.Combine(AppContext.BaseDirectory, "Model", "Fixtures", "fmt_f8_le_c_stored.npz")),
+        File.ReadAllBytes(Path.Combine(AppContext.BaseDirectory, "Model", "Fixtures", "fmt_f4_be_c_deflated.npz")),
+    ];
+
+    [Property]
+    public bool Mutated_npz_archives_import_or_fail_cleanly(bool deflated, Mutation[] edits)
+    {
+        var bytes = edits.Aggregate(NpzBytes[deflated ? 1 : 0], (b, m) => m.Apply(b));
+        try
+        {
+            return NpzModelReader.Read(new MemoryStream(bytes), "m.npz").Visible > 0;
+        }
+        catch (EmitException e)
+        {
+            return e.File == "m.npz";
+        }
+    }
+
     [Property]
     public bool Mutated_vector_files_read_or_fail_cleanly(Mutation[] edits)
     {

@@ -1,0 +1,13 @@
+namespace Emit.Harness;
+
+/// <summary>Template model of the C# harness program (<c>templates/harness/Program.cs.sbn</c>).</summary>
+public sealed class CSharpHarnessModel
+{
+    public required string FileName { get; init; }
+    public required string ClassName { get; init; }
+
+    /// <summary>The generated class as a fully qualified expression.</summary>
+    public required string Class { get; init; }
+
+    public required bool HasThreshold { get; init; }
+}

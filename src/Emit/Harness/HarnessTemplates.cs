@@ -1,0 +1,70 @@
+using System.Globalization;
+using System.Text;
+using Emit.Emission;
+
+namespace Emit.Harness;
+
+/// <summary>Lays out the harness sources from the shipped templates in <c>templates/harness/</c>.</summary>
+public static class HarnessTemplates
+{
+    public const string Folder = "harness";
+    public const string MainTemplate = "main.c.sbn";
+    public const string ProgramTemplate = "Program.cs.sbn";
+    public const string StartupTemplate = "startup-cortex-m3.c.sbn";
+    public const string LinkerTemplate = "cortex-m3.ld.sbn";
+
+    /// <summary>qemu's exit status when the Cortex-M3 image takes a fault.</summary>
+    public const int FaultStatus = 99;
+
+    private static readonly TemplateRenderer Renderer = new(null);
+
+    /// <summary>The C harness main for <paramref name="sources"/>, reading packed inputs as hex lines from standard input.</summary>
+    public static string Main(ScorerSources sources, HarnessLayout layout, string fileName) => Main(sources, layout, fileName, default, 0, false);
+
+    /// <summary>The C harness main with <paramref name="rows"/> packed inputs compiled in (for an emulator image).</summary>
+    public static string EmbeddedMain(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> inputs, int rows) =>
+        Main(sources, layout, fileName, inputs, rows, true);
+
+    private static string Main(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> embedded, int embeddedRows, bool isEmbedded)
+    {
+        int partial = layout.Visible % 8;
+        var rows = new StringBuilder();
+        for (int r = 0; r < embeddedRows; r++)
+        {
+            rows.Append("    {");
+            var row = embedded.Slice(r * layout.PackedBytes, layout.PackedBytes);
+            for (int b = 0; b < row.Length; b++)
+                rows.Append(b == 0 ? " " : ", ").Append("0x").Append(row[b].ToString("X2", CultureInfo.InvariantCulture)).Append('u');
+            rows.Append(" },\n");
+        }
+        var model = new HarnessMainModel
+        {
+            FileName = fileName,
+            Name = sources.Name,
+            UName = Naming.MacroPrefix(sources.Name),
+            HeaderFile = sources.Name + ".h",
+            EnergyBytes = layout.EnergyBytes,
+            HasThreshold = sources.HasThreshold,
+            HasPartialByte = partial != 0,
+            UnusedBitsMask = "0x" + ((0xFF << partial) & 0xFF).ToString("X2", CultureInfo.InvariantCulture) + "u",
+            Embedded = isEmbedded,
+            VectorCount = embeddedRows,
+            VectorRows = rows.ToString().TrimEnd('\n'),
+        };
+        return Renderer.Render(Folder, MainTemplate, model);
+    }
+
+    /// <summary>The C# harness program around the generated class of <paramref name="sources"/>.</summary>
+    public static string Program(ScorerSources sources, string fileName) =>
+        Renderer.Render(Folder, ProgramTemplate, new CSharpHarnessModel
+        {
+            FileName = fileName,
+            ClassName = sources.ClassName!,
+            Class = sources.QualifiedClass,
+            HasThreshold = sources.HasThreshold,
+        });
+
+    public static string Startup(string fileName) => Renderer.Render(Folder, StartupTemplate, new StartupModel { FileName = fileName, FaultStatus = FaultStatus });
+
+    public static string LinkerScript(string fileName) => Renderer.Render(Folder, LinkerTemplate, new StartupModel { FileName = fileName, FaultStatus = FaultStatus });
+}

@@ -1,0 +1,95 @@
+using System.Globalization;
+using System.Text;
+using System.Xml;
+
+namespace Emit.Harness;
+
+/// <summary>
+/// The JUnit XML report CI servers read: one <c>testsuites</c> holding one <c>testsuite</c> with one <c>testcase</c> per
+/// target; a failed target has a <c>failure</c> element whose message is the first reason and whose text lists them all.
+/// The model and its SHA-256 go into the suite's <c>properties</c>.
+/// </summary>
+public static class ReportJUnit
+{
+    public static void Write(VerifyReport report, Stream output)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        var settings = new XmlWriterSettings { Indent = true, Encoding = new UTF8Encoding(false), NewLineChars = "\n" };
+        using var w = XmlWriter.Create(output, settings);
+        int failures = report.Targets.Count(t => !t.Passed);
+        string time = report.Targets.Sum(t => t.Seconds).ToString("F3", inv);
+        string suite = "emit verify " + report.Model;
+        w.WriteStartDocument();
+        w.WriteStartElement("testsuites");
+        w.WriteAttributeString("name", "emit verify");
+        w.WriteAttributeString("tests", report.Targets.Count.ToString(inv));
+        w.WriteAttributeString("failures", failures.ToString(inv));
+        w.WriteAttributeString("errors", "0");
+        w.WriteAttributeString("time", time);
+        w.WriteStartElement("testsuite");
+        w.WriteAttributeString("name", suite);
+        w.WriteAttributeString("tests", report.Targets.Count.ToString(inv));
+        w.WriteAttributeString("failures", failures.ToString(inv));
+        w.WriteAttributeString("errors", "0");
+        w.WriteAttributeString("skipped", "0");
+        w.WriteAttributeString("time", time);
+        w.WriteStartElement("properties");
+        Property(w, "model", report.Model);
+        Property(w, "model_sha256", report.ModelSha256);
+        Property(w, "input", report.Input);
+        Property(w, "vectors", report.Vectors.ToString(inv));
+        Property(w, "tool", "emit " + report.ToolVersion);
+        w.WriteEndElement();
+        foreach (var t in report.Targets)
+        {
+            w.WriteStartElement("testcase");
+            w.WriteAttributeString("name", $"{t.Target} {t.Numeric} {t.Weights}");
+            w.WriteAttributeString("classname", "emit.verify." + report.Model);
+            w.WriteAttributeString("time", t.Seconds.ToString("F3", inv));
+            if (!t.Passed)
+            {
+                w.WriteStartElement("failure");
+                w.WriteAttributeString("message", Clean(t.Failures.FirstOrDefault() ?? "failed").Split('\n')[0]);
+                w.WriteAttributeString("type", "emit.verify.mismatch");
+                w.WriteString(Clean(string.Join("\n", t.Failures)));
+                w.WriteEndElement();
+            }
+            w.WriteStartElement("system-out");
+            w.WriteString(Clean(Summary(t)));
+            w.WriteEndElement();
+            w.WriteEndElement();
+        }
+        w.WriteEndElement();
+        w.WriteEndElement();
+        w.WriteEndDocument();
+    }
+
+    private static string Summary(TargetResult t)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        string G(double? x) => x is { } v ? v.ToString("G4", inv) : "-";
+        return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound {G(t.ErrorBound)} nats, " +
+               $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches {t.DecisionMismatches} " +
+               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash {(t.ModelHashMatches ? "matches" : "DIFFERS")}";
+    }
+
+    private static void Property(XmlWriter w, string name, string value)
+    {
+        w.WriteStartElement("property");
+        w.WriteAttributeString("name", name);
+        w.WriteAttributeString("value", Clean(value));
+        w.WriteEndElement();
+    }
+
+    /// <summary>Drops characters XML 1.0 cannot hold (compiler output may carry control characters).</summary>
+    private static string Clean(string text)
+    {
+        var sb = new StringBuilder(text.Length);
+        for (int i = 0; i < text.Length; i++)
+        {
+            if (i + 1 < text.Length && XmlConvert.IsXmlSurrogatePair(text[i + 1], text[i])) sb.Append(text[i]).Append(text[++i]);
+            else if (XmlConvert.IsXmlChar(text[i]) && (text[i] >= ' ' || text[i] is '\n' or '\t')) sb.Append(text[i]);
+        }
+        return sb.ToString();
+    }
+}

@@ -1,0 +1,10 @@
+namespace Emit.Harness;
+
+/// <summary>Template model of the Cortex-M3 start-up code and linker script.</summary>
+public sealed class StartupModel
+{
+    public required string FileName { get; init; }
+
+    /// <summary>qemu's exit status when the image faults.</summary>
+    public required int FaultStatus { get; init; }
+}

@@ -1,0 +1,208 @@
+using System.Diagnostics;
+using Emit.Emission;
+using Emit.Quantize;
+using Emit.Reference;
+using Emit.Vectors;
+
+namespace Emit.Harness;
+
+/// <summary>
+/// Runs generated scorers on their targets over a vector file and compares every result with the double-precision
+/// reference scorer (and, in fixed mode, with the bit-exact integer simulator). The file is read once, in batches:
+/// each batch is scored by the reference and sent to every target, so memory stays constant and standard input works.
+/// </summary>
+public static class Verifier
+{
+    /// <summary>
+    /// Verifies; throws <see cref="EmitException"/> for bad input or a missing tool (before anything is built). Failures of
+    /// the generated code (does not compile, crashes, wrong numbers) are verdicts in the report, not exceptions.
+    /// </summary>
+    public static VerifyReport Run(VerifyRequest request)
+    {
+        var model = request.Model;
+        if (request.Targets.Count == 0) throw new EmitException("no target given", $"use --target with one or more of: {Runners.NameList}");
+        var runners = new List<ITargetRunner>();
+        foreach (var name in request.Targets)
+        {
+            var runner = Runners.Find(name) ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"", $"use one or more of: {Runners.NameList}");
+            if (!runners.Contains(runner)) runners.Add(runner);
+        }
+        foreach (var runner in runners) runner.CheckTools(request.Settings);
+        if (request.BatchRows < 1) throw new ArgumentOutOfRangeException(nameof(request), "BatchRows must be at least 1");
+
+        var languages = runners.Select(r => r.Language).Distinct().ToArray();
+        var defaultName = request.Name ?? Naming.ScorerNameFromFile(request.ModelLabel);
+        var warnings = new List<string>();
+        var located = new Dictionary<string, ScorerSources>();
+        if (request.GeneratedDirectory is { } dir)
+            foreach (var language in languages)
+                located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
+        var mode = ResolveMode(request, located.Values);
+        if (request.Fixed is not null && mode != NumericMode.Fixed)
+            throw new EmitException($"--weights, --accumulator and --softplus-table apply to --numeric fixed, not {mode.ToText()}", "leave them out, or use --numeric fixed");
+        var fixedOptions = mode == NumericMode.Fixed ? request.Fixed ?? StampedFixedOptions(located.Values) : null;
+        var expectation = NumericExpectation.For(model, mode, fixedOptions);
+        var layout = expectation.Layout(model);
+
+        using var reader = VectorReader.Open(request.InputPath, model.Visible, request.Stdin);
+        VectorNames.Check(model, reader);
+
+        bool temporary = request.WorkDirectory is null;
+        var work = request.WorkDirectory ?? Path.Combine(Path.GetTempPath(), "emit-verify-" + Guid.NewGuid().ToString("N")[..12]);
+        Directory.CreateDirectory(work);
+        try
+        {
+            if (request.GeneratedDirectory is null)
+            {
+                var src = Path.Combine(work, "src");
+                Directory.CreateDirectory(src);
+                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions);
+                foreach (var f in ScorerCompiler.Compile(model, request.ModelLabel, options))
+                    File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
+                foreach (var language in languages)
+                    located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
+            }
+            else
+            {
+                foreach (var (language, sources) in located)
+                {
+                    var files = string.Join(", ", sources.Files.Select(Path.GetFileName));
+                    if (sources.StampedSha256 is null)
+                        warnings.Add($"{files}: no model SHA-256 stamped in the sources; the numbers are compared all the same");
+                    else if (sources.StampedSha256 != model.Sha256)
+                        warnings.Add($"{files}: generated from model {sources.StampedSha256}, but {request.ModelLabel} is {model.Sha256}; the numbers are compared all the same");
+                }
+            }
+            return Compare(request, runners, located, expectation, layout, reader, work, warnings);
+        }
+        finally
+        {
+            if (temporary)
+                try { Directory.Delete(work, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+        }
+    }
+
+    private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string, ScorerSources> located,
+        NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings)
+    {
+        var model = request.Model;
+        var states = new List<State>();
+        foreach (var runner in runners)
+        {
+            var state = new State(runner, located[runner.Language], new TargetComparison(expectation));
+            var watch = Stopwatch.StartNew();
+            state.Session = runner.Start(state.Sources, layout, request.Settings, Path.Combine(work, runner.Name), out var failure);
+            state.BuildSeconds = watch.Elapsed.TotalSeconds;
+            if (state.Session is null) state.Failures.Add(failure);
+            else state.SelfTest = state.Session.SelfTestFailures;
+            states.Add(state);
+        }
+
+        var scorer = new ReferenceScorer(model);
+        int batch = request.BatchRows, v = model.Visible, pb = layout.PackedBytes;
+        var units = new byte[batch * v];
+        var packed = new byte[batch * pb];
+        var reference = new double[batch];
+        var expectedRaw = new long[batch];
+        var results = new ScoredRow[batch];
+        long index = 0;
+        int rows;
+        try
+        {
+            while ((rows = reader.ReadBatch(units, batch)) > 0)
+            {
+                scorer.FreeEnergies(units, rows, reference);
+                Array.Clear(packed);
+                for (int r = 0; r < rows; r++)
+                {
+                    var row = units.AsSpan(r * v, v);
+                    for (int i = 0; i < v; i++)
+                        if (row[i] != 0) packed[r * pb + (i >> 3)] |= (byte)(1 << (i & 7));
+                    if (expectation.Simulator is { } sim) expectedRaw[r] = sim.FreeEnergy(row);
+                }
+                foreach (var s in states)
+                {
+                    if (s.Session is null) continue;
+                    var watch = Stopwatch.StartNew();
+                    bool ok = s.Session.TryScore(packed.AsSpan(0, rows * pb), rows, results, out var failure);
+                    s.ScoreSeconds += watch.Elapsed.TotalSeconds;
+                    s.SelfTest = s.Session.SelfTestFailures;
+                    if (!ok)
+                    {
+                        s.Failures.Add(failure);
+                        s.Session.Dispose();
+                        s.Session = null;
+                        continue;
+                    }
+                    for (int r = 0; r < rows; r++)
+                        s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null, results[r]);
+                }
+                index += rows;
+            }
+            if (index == 0)
+                throw new EmitException("the vector file has a header but no vectors", "write one vector of 0/1 values per line", reader.Source);
+        }
+        finally
+        {
+            foreach (var s in states) s.Session?.Dispose();
+        }
+
+        return new VerifyReport
+        {
+            ToolVersion = ScorerPlan.ToolVersion,
+            Model = request.ModelLabel,
+            ModelSha256 = model.Sha256,
+            Input = reader.Source,
+            Vectors = index,
+            Threshold = model.Threshold,
+            Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources, request.GeneratedDirectory is null, model.Sha256, s.SelfTest,
+                s.Failures, s.BuildSeconds, s.ScoreSeconds)).ToArray(),
+            Warnings = warnings,
+        };
+    }
+
+    /// <summary>The requested mode, or the one stamped in the sources, or f32; a request that contradicts the sources is an error.</summary>
+    private static NumericMode ResolveMode(VerifyRequest request, IEnumerable<ScorerSources> sources)
+    {
+        NumericMode? stamped = null;
+        foreach (var s in sources)
+        {
+            if (!s.StampedOptions.TryGetValue("--numeric", out var text) || NumericModeNames.Parse(text) is not { } m) continue;
+            if (stamped is { } other && other != m)
+                throw new EmitException($"the C and C# sources were generated with different numeric modes ({other.ToText()}, {m.ToText()})", "regenerate them with the same --numeric", s.Directory);
+            stamped = m;
+            if (request.Numeric is { } asked && asked != m)
+                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with --numeric {m.ToText()}, not {asked.ToText()}",
+                    $"pass --numeric {m.ToText()}, or leave --numeric out to take it from the sources", s.SourceFile);
+        }
+        return request.Numeric ?? stamped ?? NumericMode.F32;
+    }
+
+    /// <summary>Fixed-point options from the sources' banners (defaults where a banner does not say).</summary>
+    private static FixedPointOptions? StampedFixedOptions(IEnumerable<ScorerSources> sources)
+    {
+        foreach (var s in sources)
+        {
+            var o = s.StampedOptions;
+            if (!o.ContainsKey("--weights") && !o.ContainsKey("--accumulator") && !o.ContainsKey("--softplus-table")) continue;
+            var weights = o.TryGetValue("--weights", out var w) ? WeightTypeInfo.Parse(w) ?? WeightType.Int16 : WeightType.Int16;
+            var accumulator = o.TryGetValue("--accumulator", out var a) ? AccumulatorTypeInfo.Parse(a) : null;
+            int table = o.TryGetValue("--softplus-table", out var t) && int.TryParse(t, System.Globalization.NumberStyles.None, System.Globalization.CultureInfo.InvariantCulture, out int n)
+                ? n : FixedPointOptions.DefaultTableSize;
+            return new FixedPointOptions(weights, accumulator, table);
+        }
+        return null;
+    }
+
+    private sealed class State(ITargetRunner runner, ScorerSources sources, TargetComparison comparison)
+    {
+        public ITargetRunner Runner { get; } = runner;
+        public ScorerSources Sources { get; } = sources;
+        public TargetComparison Comparison { get; } = comparison;
+        public IScorerSession? Session { get; set; }
+        public int? SelfTest { get; set; }
+        public List<string> Failures { get; } = [];
+        public double BuildSeconds { get; set; }
+        public double ScoreSeconds { get; set; }
+    }
+}

@@ -1,0 +1,34 @@
+namespace Emit.Harness;
+
+/// <summary>Everything <c>emit verify</c> found: the model, the input, one result per target, and warnings.</summary>
+public sealed record VerifyReport
+{
+    /// <summary>emit's version.</summary>
+    public required string ToolVersion { get; init; }
+
+    /// <summary>The model's file name (not path).</summary>
+    public required string Model { get; init; }
+
+    public required string ModelSha256 { get; init; }
+
+    /// <summary>The vector file's name as given.</summary>
+    public required string Input { get; init; }
+
+    /// <summary>Inputs read from the vector file.</summary>
+    public required long Vectors { get; init; }
+
+    /// <summary>The model's threshold, or null.</summary>
+    public double? Threshold { get; init; }
+
+    public required IReadOnlyList<TargetResult> Targets { get; init; }
+
+    /// <summary>Things worth knowing that do not fail a target (a model hash differing from the stamped one).</summary>
+    public required IReadOnlyList<string> Warnings { get; init; }
+
+    /// <summary>True when every target passed.</summary>
+    public bool Passed => Targets.Count > 0 && Targets.All(t => t.Passed);
+
+    public const string Caution =
+        "A monitoring aid, not a safety function: this report compares generated code with the reference scorer; it does not " +
+        "show that the model detects what matters for the plant. Defer to local codes and licensed practice.";
+}

@@ -1,0 +1,42 @@
+using Emit.Emission;
+using Emit.Model;
+using Emit.Quantize;
+
+namespace Emit.Harness;
+
+/// <summary>What <c>emit verify</c> was asked to do.</summary>
+public sealed record VerifyRequest
+{
+    public required BoltzmannModel Model { get; init; }
+
+    /// <summary>The model's file name (not path): names it in reports and gives the default scorer name.</summary>
+    public required string ModelLabel { get; init; }
+
+    /// <summary>Vector file, or <c>-</c> for <see cref="Stdin"/>.</summary>
+    public required string InputPath { get; init; }
+
+    public Stream? Stdin { get; init; }
+
+    /// <summary>Target names from <see cref="Runners"/>.</summary>
+    public required IReadOnlyList<string> Targets { get; init; }
+
+    /// <summary>Numeric mode; null: the one stamped in existing sources, else f32 (emit compile's default).</summary>
+    public NumericMode? Numeric { get; init; }
+
+    /// <summary>Fixed-point options; null: those stamped in existing sources, else the defaults.</summary>
+    public FixedPointOptions? Fixed { get; init; }
+
+    /// <summary>Folder of existing generated sources to check; null: generate into the work folder.</summary>
+    public string? GeneratedDirectory { get; init; }
+
+    /// <summary>Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an identifier.</summary>
+    public string? Name { get; init; }
+
+    public RunnerSettings Settings { get; init; } = new();
+
+    /// <summary>Where to build; null: a temporary folder deleted afterwards.</summary>
+    public string? WorkDirectory { get; init; }
+
+    /// <summary>Inputs read, scored by the reference and sent to every target per step.</summary>
+    public int BatchRows { get; init; } = 4096;
+}
