@@ -75,7 +75,7 @@ internal static class FixedText
         var f = p.Fixed;
         var lines = new List<string>
         {
-            "Integer arithmetic only: no floating point, no division, no library call. Q notation: a Qm.n value is an " +
+            "Integer arithmetic only: no floating point, no division, no library call in the source. Q notation: a Qm.n value is an " +
             "integer q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).",
             $"  free energy, visible biases{(p.Model.Kind == ModelKind.General ? ", hidden links, scores" : "")}: {f.EnergyFormat} ({p.AccumulatorBits}-bit)",
         };

@@ -60,8 +60,8 @@ extern "C" {
 /* ==== fixed-point formats ==== */
 
 /*
- * Integer arithmetic only: no floating point, no division, no library call. Q notation: a Qm.n value is an integer
- * q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).
+ * Integer arithmetic only: no floating point, no division, no library call in the source. Q notation: a Qm.n value
+ * is an integer q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).
  *   free energy, visible biases: Q7.24 (32-bit)
  *   weights W (int16_t): Q1.14 (1 unit), Q0.15 (1 unit), Q-1.16 (1 unit); each hidden unit j has its own fraction
  *     bits f_j, shared by its weight column, bias and accumulator

@@ -46,8 +46,8 @@ namespace Emit.Generated
         /// <summary>Number of inputs <see cref="SelfTest"/> checks.</summary>
         public const int SelfTestVectors = 5;
 
-        // Integer arithmetic only: no floating point, no division, no library call. Q notation: a Qm.n value is an integer
-        // q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).
+        // Integer arithmetic only: no floating point, no division, no library call in the source. Q notation: a Qm.n value
+        // is an integer q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).
         //   free energy, visible biases, hidden links, scores: Q11.20 (32-bit)
         //   weights W (int16_t): Q0.15 (2 units), Q1.14 (1 unit); each hidden unit j has its own fraction bits f_j, shared
         //     by its weight column, bias and accumulator
