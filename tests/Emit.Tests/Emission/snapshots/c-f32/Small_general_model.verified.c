@@ -8,6 +8,7 @@
 #include "small_general.h"
 
 #include <float.h>
+#include <stddef.h>
 #include <math.h>
 
 /* ==== configuration checks ==== */
@@ -32,13 +33,13 @@ static const small_general_energy_t small_general_visible_bias[SMALL_GENERAL_VIS
     0.546024978f, /* unit 2 */
     0.367632896f, /* unit 3 */
 };
-typedef char small_general_check_visible_bias[(sizeof small_general_visible_bias / sizeof small_general_visible_bias[0] == SMALL_GENERAL_VISIBLE) ? 1 : -1];
+typedef char small_general_check_visible_bias[((sizeof small_general_visible_bias / sizeof small_general_visible_bias[0]) == SMALL_GENERAL_VISIBLE) ? 1 : -1];
 
 /* c: hidden bias, one per hidden unit. */
 static const small_general_energy_t small_general_hidden_bias[SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
     0.345067471f, 1.55364311f, 0.211590797f,
 };
-typedef char small_general_check_hidden_bias[(sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_bias[((sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /* W: one row per visible unit; row i is added to the hidden pre-activations when unit i is on. */
 static const small_general_energy_t small_general_weights[SMALL_GENERAL_VISIBLE][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -55,7 +56,7 @@ static const small_general_energy_t small_general_weights[SMALL_GENERAL_VISIBLE]
         0.730626941f, -0.615098655f, -0.342734873f,
     },
 };
-typedef char small_general_check_weights[(sizeof small_general_weights / sizeof small_general_weights[0] == SMALL_GENERAL_VISIBLE && sizeof small_general_weights[0] / sizeof small_general_weights[0][0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_weights[((sizeof small_general_weights / sizeof small_general_weights[0]) == SMALL_GENERAL_VISIBLE && (sizeof small_general_weights[0] / sizeof small_general_weights[0][0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 3 in all. The links of unit i to units j < i are entries
@@ -70,7 +71,7 @@ static const uint16_t small_general_link_other[3] SMALL_GENERAL_TABLE_ATTR = {
 static const small_general_energy_t small_general_link_weight[3] SMALL_GENERAL_TABLE_ATTR = {
     -0.378103703f, -0.41286245f, 0.457901388f,
 };
-typedef char small_general_check_links[(sizeof small_general_link_start / sizeof small_general_link_start[0] == SMALL_GENERAL_VISIBLE + 1 && sizeof small_general_link_other / sizeof small_general_link_other[0] == 3 && sizeof small_general_link_weight / sizeof small_general_link_weight[0] == 3) ? 1 : -1];
+typedef char small_general_check_links[((sizeof small_general_link_start / sizeof small_general_link_start[0]) == SMALL_GENERAL_VISIBLE + 1 && (sizeof small_general_link_other / sizeof small_general_link_other[0]) == 3 && (sizeof small_general_link_weight / sizeof small_general_link_weight[0]) == 3) ? 1 : -1];
 
 /* M: links between hidden units as a symmetric matrix with zero diagonal. */
 static const small_general_energy_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -84,7 +85,7 @@ static const small_general_energy_t small_general_hidden_pairs[SMALL_GENERAL_HID
         0.289481282f, 0.449767977f, 0.0f,
     },
 };
-typedef char small_general_check_hidden_pairs[(sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_pairs[((sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -173,7 +174,7 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
 {
     small_general_energy_t linear = 0.0f;
     small_general_energy_t acc[SMALL_GENERAL_HIDDEN];
-    const small_general_energy_t *pending = 0; /* a row waiting for a partner: rows are added two at a time */
+    const small_general_energy_t *pending = NULL; /* a row waiting for a partner: rows are added two at a time */
     uint_fast16_t j;
     uint_fast16_t byte_index;
     for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
@@ -193,17 +194,17 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
                     if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) linear += small_general_link_weight[n];
                 }
             }
-            if (pending == 0) {
+            if (pending == NULL) {
                 pending = small_general_weights[i];
             } else {
                 const small_general_energy_t *row = small_general_weights[i];
                 for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j] + row[j];
-                pending = 0;
+                pending = NULL;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != 0)
+    if (pending != NULL)
         for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j];
     return -(linear + small_general_hidden_log_sum_exp(acc));
 }

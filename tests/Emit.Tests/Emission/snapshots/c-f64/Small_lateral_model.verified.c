@@ -8,6 +8,7 @@
 #include "plant.h"
 
 #include <float.h>
+#include <stddef.h>
 #include <math.h>
 
 /* ==== configuration checks ==== */
@@ -34,13 +35,13 @@ static const plant_energy_t plant_visible_bias[PLANT_VISIBLE] PLANT_TABLE_ATTR =
     0.026174439197783086, /* 4: door * / open */
     -0.020175310926494112, /* 5: alarm */
 };
-typedef char plant_check_visible_bias[(sizeof plant_visible_bias / sizeof plant_visible_bias[0] == PLANT_VISIBLE) ? 1 : -1];
+typedef char plant_check_visible_bias[((sizeof plant_visible_bias / sizeof plant_visible_bias[0]) == PLANT_VISIBLE) ? 1 : -1];
 
 /* c: hidden bias, one per hidden unit. */
 static const plant_energy_t plant_hidden_bias[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     -0.30416940443153029, -0.037799204812477706, 0.70656153624969931,
 };
-typedef char plant_check_hidden_bias[(sizeof plant_hidden_bias / sizeof plant_hidden_bias[0] == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_hidden_bias[((sizeof plant_hidden_bias / sizeof plant_hidden_bias[0]) == PLANT_HIDDEN) ? 1 : -1];
 
 /* W: one row per visible unit; row i is added to the hidden pre-activations when unit i is on. */
 static const plant_energy_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TABLE_ATTR = {
@@ -63,7 +64,7 @@ static const plant_energy_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TAB
         0.063917758426994278, -0.29630356065751795, 0.3211680776670377,
     },
 };
-typedef char plant_check_weights[(sizeof plant_weights / sizeof plant_weights[0] == PLANT_VISIBLE && sizeof plant_weights[0] / sizeof plant_weights[0][0] == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_weights[((sizeof plant_weights / sizeof plant_weights[0]) == PLANT_VISIBLE && (sizeof plant_weights[0] / sizeof plant_weights[0][0]) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 7 in all. The links of unit i to units j < i are entries
@@ -79,7 +80,7 @@ static const plant_energy_t plant_link_weight[7] PLANT_TABLE_ATTR = {
     -0.044952277107959779, -0.16883155426844412, 0.6682591178887558, -0.12340192334252482, -0.064891649859828746, 1.1236445070068477,
     1.1975257707762088,
 };
-typedef char plant_check_links[(sizeof plant_link_start / sizeof plant_link_start[0] == PLANT_VISIBLE + 1 && sizeof plant_link_other / sizeof plant_link_other[0] == 7 && sizeof plant_link_weight / sizeof plant_link_weight[0] == 7) ? 1 : -1];
+typedef char plant_check_links[((sizeof plant_link_start / sizeof plant_link_start[0]) == PLANT_VISIBLE + 1 && (sizeof plant_link_other / sizeof plant_link_other[0]) == 7 && (sizeof plant_link_weight / sizeof plant_link_weight[0]) == 7) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -105,7 +106,7 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
 {
     plant_energy_t linear = 0.0;
     plant_energy_t acc[PLANT_HIDDEN];
-    const plant_energy_t *pending = 0; /* a row waiting for a partner: rows are added two at a time */
+    const plant_energy_t *pending = NULL; /* a row waiting for a partner: rows are added two at a time */
     uint_fast16_t j;
     uint_fast16_t byte_index;
     for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] = plant_hidden_bias[j];
@@ -125,17 +126,17 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
                     if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) linear += plant_link_weight[n];
                 }
             }
-            if (pending == 0) {
+            if (pending == NULL) {
                 pending = plant_weights[i];
             } else {
                 const plant_energy_t *row = plant_weights[i];
                 for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += pending[j] + row[j];
-                pending = 0;
+                pending = NULL;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != 0)
+    if (pending != NULL)
         for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += pending[j];
     {
         plant_energy_t energy = -linear;

@@ -44,7 +44,7 @@ static const small_general_acc_t small_general_visible_bias[SMALL_GENERAL_VISIBL
     572549, /* unit 2 = 0.5460253 */
     385491, /* unit 3 = 0.3676329 */
 };
-typedef char small_general_check_visible_bias[(sizeof small_general_visible_bias / sizeof small_general_visible_bias[0] == SMALL_GENERAL_VISIBLE) ? 1 : -1];
+typedef char small_general_check_visible_bias[((sizeof small_general_visible_bias / sizeof small_general_visible_bias[0]) == SMALL_GENERAL_VISIBLE) ? 1 : -1];
 
 /*
  * c: hidden bias, the starting value of each hidden accumulator, in that unit's format:
@@ -55,7 +55,7 @@ static const small_general_acc_t small_general_hidden_bias[SMALL_GENERAL_HIDDEN]
     50910, /* hidden 1, Q16.15 = 1.55365 */
     3467, /* hidden 2, Q17.14 = 0.2116089 */
 };
-typedef char small_general_check_hidden_bias[(sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_bias[((sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * f_j: fraction bits of hidden unit j (weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j).
@@ -64,7 +64,7 @@ typedef char small_general_check_hidden_bias[(sizeof small_general_hidden_bias /
 static const int8_t small_general_fraction_bits[SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
     15, 15, 14,
 };
-typedef char small_general_check_fraction_bits[(sizeof small_general_fraction_bits / sizeof small_general_fraction_bits[0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_fraction_bits[((sizeof small_general_fraction_bits / sizeof small_general_fraction_bits[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * W: one row per visible unit; row i is added to the hidden accumulators when unit i is on. Column j is in unit j's
@@ -84,7 +84,7 @@ static const small_general_weight_t small_general_weights[SMALL_GENERAL_VISIBLE]
         23941, -20156, -5615,
     },
 };
-typedef char small_general_check_weights[(sizeof small_general_weights / sizeof small_general_weights[0] == SMALL_GENERAL_VISIBLE && sizeof small_general_weights[0] / sizeof small_general_weights[0][0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_weights[((sizeof small_general_weights / sizeof small_general_weights[0]) == SMALL_GENERAL_VISIBLE && (sizeof small_general_weights[0] / sizeof small_general_weights[0][0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 3 in all, in Q-1.16. The links of unit i to units j < i are entries
@@ -101,7 +101,7 @@ static const small_general_weight_t small_general_link_weight[3] SMALL_GENERAL_T
     -27057, /* L(1, 2) = -0.4128571 */
     30009, /* L(2, 3) = 0.457901 */
 };
-typedef char small_general_check_links[(sizeof small_general_link_start / sizeof small_general_link_start[0] == SMALL_GENERAL_VISIBLE + 1 && sizeof small_general_link_other / sizeof small_general_link_other[0] == 3 && sizeof small_general_link_weight / sizeof small_general_link_weight[0] == 3) ? 1 : -1];
+typedef char small_general_check_links[((sizeof small_general_link_start / sizeof small_general_link_start[0]) == SMALL_GENERAL_VISIBLE + 1 && (sizeof small_general_link_other / sizeof small_general_link_other[0]) == 3 && (sizeof small_general_link_weight / sizeof small_general_link_weight[0]) == 3) ? 1 : -1];
 
 /* M: links between hidden units in Q11.20, as a symmetric matrix with zero diagonal. */
 static const small_general_acc_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -115,7 +115,7 @@ static const small_general_acc_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN
         303543, 471616, 0,
     },
 };
-typedef char small_general_check_hidden_pairs[(sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0] == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_pairs[((sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * T[k] = round(G(k h) * 2^20), G(d) = log(1 + e^-d), k = 0..256: 256 segments of width h = 2^-4 over
@@ -156,7 +156,7 @@ static const int32_t small_general_softplus_table[256 + 1] SMALL_GENERAL_TABLE_A
     0, 0, 0, 0, 0, 0, 0, 0, /* T[248..255], d = 15.5 .. 15.9375 */
     0, /* T[256], d = 16 */
 };
-typedef char small_general_check_softplus_table[(sizeof small_general_softplus_table / sizeof small_general_softplus_table[0] == 256 + 1) ? 1 : -1];
+typedef char small_general_check_softplus_table[((sizeof small_general_softplus_table / sizeof small_general_softplus_table[0]) == 256 + 1) ? 1 : -1];
 
 /* ==== scoring ==== */
 

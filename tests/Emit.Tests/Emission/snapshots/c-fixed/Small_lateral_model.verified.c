@@ -46,7 +46,7 @@ static const plant_acc_t plant_visible_bias[PLANT_VISIBLE] PLANT_TABLE_ATTR = {
     439134, /* 4: door * / open = 0.02617443 */
     -338486, /* 5: alarm = -0.02017534 */
 };
-typedef char plant_check_visible_bias[(sizeof plant_visible_bias / sizeof plant_visible_bias[0] == PLANT_VISIBLE) ? 1 : -1];
+typedef char plant_check_visible_bias[((sizeof plant_visible_bias / sizeof plant_visible_bias[0]) == PLANT_VISIBLE) ? 1 : -1];
 
 /*
  * c: hidden bias, the starting value of each hidden accumulator, in that unit's format:
@@ -57,7 +57,7 @@ static const plant_acc_t plant_hidden_bias[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     -2477, /* hidden 1, Q15.16 = -0.03779602 */
     23153, /* hidden 2, Q16.15 = 0.7065735 */
 };
-typedef char plant_check_hidden_bias[(sizeof plant_hidden_bias / sizeof plant_hidden_bias[0] == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_hidden_bias[((sizeof plant_hidden_bias / sizeof plant_hidden_bias[0]) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * f_j: fraction bits of hidden unit j (weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j).
@@ -66,7 +66,7 @@ typedef char plant_check_hidden_bias[(sizeof plant_hidden_bias / sizeof plant_hi
 static const int8_t plant_fraction_bits[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     14, 16, 15,
 };
-typedef char plant_check_fraction_bits[(sizeof plant_fraction_bits / sizeof plant_fraction_bits[0] == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_fraction_bits[((sizeof plant_fraction_bits / sizeof plant_fraction_bits[0]) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * W: one row per visible unit; row i is added to the hidden accumulators when unit i is on. Column j is in unit j's
@@ -92,7 +92,7 @@ static const plant_weight_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TAB
         1047, -19419, 10524,
     },
 };
-typedef char plant_check_weights[(sizeof plant_weights / sizeof plant_weights[0] == PLANT_VISIBLE && sizeof plant_weights[0] / sizeof plant_weights[0][0] == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_weights[((sizeof plant_weights / sizeof plant_weights[0]) == PLANT_VISIBLE && (sizeof plant_weights[0] / sizeof plant_weights[0][0]) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 7 in all, in Q1.14. The links of unit i to units j < i are entries
@@ -113,7 +113,7 @@ static const plant_weight_t plant_link_weight[7] PLANT_TABLE_ATTR = {
     18410, /* L(2, 5) = 1.123657 */
     19620, /* L(3, 5) = 1.19751 */
 };
-typedef char plant_check_links[(sizeof plant_link_start / sizeof plant_link_start[0] == PLANT_VISIBLE + 1 && sizeof plant_link_other / sizeof plant_link_other[0] == 7 && sizeof plant_link_weight / sizeof plant_link_weight[0] == 7) ? 1 : -1];
+typedef char plant_check_links[((sizeof plant_link_start / sizeof plant_link_start[0]) == PLANT_VISIBLE + 1 && (sizeof plant_link_other / sizeof plant_link_other[0]) == 7 && (sizeof plant_link_weight / sizeof plant_link_weight[0]) == 7) ? 1 : -1];
 
 /*
  * T[k] = round(G(k h) * 2^24), G(d) = log(1 + e^-d), k = 0..256: 256 segments of width h = 2^-6 over
@@ -154,7 +154,7 @@ static const int32_t plant_softplus_table[256 + 1] PLANT_TABLE_ATTR = {
     344636, 339346, 334137, 329008, 323956, 318981, 314081, 309257, /* T[248..255], d = 3.875 .. 3.984375 */
     304505, /* T[256], d = 4 */
 };
-typedef char plant_check_softplus_table[(sizeof plant_softplus_table / sizeof plant_softplus_table[0] == 256 + 1) ? 1 : -1];
+typedef char plant_check_softplus_table[((sizeof plant_softplus_table / sizeof plant_softplus_table[0]) == 256 + 1) ? 1 : -1];
 
 /* ==== scoring ==== */
 
