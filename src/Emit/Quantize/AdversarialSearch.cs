@@ -11,15 +11,14 @@ namespace Emit.Quantize;
 /// </summary>
 public static class AdversarialSearch
 {
-    /// <summary>Runs the search; <paramref name="maxStarts"/> limits the start vectors (in the order above).</summary>
-    public static AdversarialResult Run(FixedPointPlan plan, int maxStarts = int.MaxValue, int maxPasses = 8)
+    /// <summary>
+    /// The start vectors, in order: all off, all on, then per hidden unit j the inputs that maximise and minimise its
+    /// weight-rounding error and its pre-activation.
+    /// </summary>
+    public static List<byte[]> StartingVectors(FixedPointPlan plan)
     {
         var model = plan.Model;
-        var sim = new FixedPointSimulator(plan);
-        var reference = new ReferenceScorer(model);
         int v = model.Visible, h = model.Hidden;
-        double Error(byte[] u) => sim.FreeEnergy(u) / sim.Scale - reference.FreeEnergy(u);
-
         var starts = new List<byte[]> { new byte[v], Enumerable.Repeat((byte)1, v).ToArray() };
         for (int j = 0; j < h; j++)
         {
@@ -37,6 +36,19 @@ public static class AdversarialSearch
             starts.Add(plan.Ranges.MaximisingVector(j));
             starts.Add(plan.Ranges.MinimisingVector(j));
         }
+        return starts;
+    }
+
+    /// <summary>Runs the search; <paramref name="maxStarts"/> limits the start vectors (in the order above).</summary>
+    public static AdversarialResult Run(FixedPointPlan plan, int maxStarts = int.MaxValue, int maxPasses = 8)
+    {
+        var model = plan.Model;
+        var sim = new FixedPointSimulator(plan);
+        var reference = new ReferenceScorer(model);
+        int v = model.Visible, h = model.Hidden;
+        double Error(byte[] u) => sim.FreeEnergy(u) / sim.Scale - reference.FreeEnergy(u);
+
+        var starts = StartingVectors(plan);
 
         double best = 0;
         byte[] bestVector = new byte[v];

@@ -63,22 +63,7 @@ internal static class FixedCodegenCases
         var model = c.Case.Model;
         int v = model.Visible, h = model.Hidden;
         var list = new List<byte[]>(CodegenCases.Vectors(c.Case));
-        for (int j = 0; j < h; j++)
-        {
-            double scale = Math.ScaleB(1.0, -plan.Units[j].FractionBits);
-            var up = new byte[v];
-            var down = new byte[v];
-            for (int i = 0; i < v; i++)
-            {
-                double d = plan.Weights[i * h + j] * scale - model.Weight(i, j);
-                up[i] = d > 0 ? (byte)1 : (byte)0;
-                down[i] = d < 0 ? (byte)1 : (byte)0;
-            }
-            list.Add(up);
-            list.Add(down);
-            list.Add(plan.Ranges.MaximisingVector(j));
-            list.Add(plan.Ranges.MinimisingVector(j));
-        }
+        list.AddRange(AdversarialSearch.StartingVectors(plan).Skip(2)); // per-unit worst-rounding and extreme inputs
         // The greedy search is cheap except for general models with many hidden units (2^H states per input).
         bool big = model.Kind == ModelKind.General && h > 8;
         list.Add(AdversarialSearch.Run(plan, maxStarts: big ? 2 : 8, maxPasses: big ? 1 : 3).Vector);
