@@ -119,11 +119,9 @@ public sealed partial class CEmitter
         {
             Name = name,
             UName = uname,
-            HeaderFile = name + ".h",
-            Guard = "EMIT_GENERATED_" + uname + "_H",
             HeaderBanner = banner(name + ".h"),
             SourceBanner = banner(name + ".c"),
-            ModelId = "0x" + plan.Model.Sha256[..8].ToUpperInvariant() + "u",
+            ModelId = CHeaderModel.ModelIdOf(plan.Model.Sha256),
             Mode = plan.Mode.ToText(),
             EnergyType = acc.ToText() + "_t",
             Visible = plan.Visible,

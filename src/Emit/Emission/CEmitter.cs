@@ -101,11 +101,9 @@ public sealed partial class CEmitter : ITargetEmitter
         {
             Name = name,
             UName = uname,
-            HeaderFile = name + ".h",
-            Guard = "EMIT_GENERATED_" + uname + "_H",
             HeaderBanner = banner(name + ".h"),
             SourceBanner = banner(name + ".c"),
-            ModelId = "0x" + plan.Model.Sha256[..8].ToUpperInvariant() + "u",
+            ModelId = CHeaderModel.ModelIdOf(plan.Model.Sha256),
             Mode = mode.ToText(),
             IsF32 = f32,
             EnergyType = f32 ? "float" : "double",

@@ -8,11 +8,14 @@ public abstract class CHeaderModel
 {
     public required string Name { get; init; }
     public required string UName { get; init; }
-    public required string HeaderFile { get; init; }
-    public required string Guard { get; init; }
+    public string HeaderFile => Name + ".h";
+    public string Guard => "EMIT_GENERATED_" + UName + "_H";
     public required string HeaderBanner { get; init; }
     public required string SourceBanner { get; init; }
     public required string ModelId { get; init; }
+
+    /// <summary>The model identity the header and source compare at compile time: the SHA-256's first 32 bits as a C literal.</summary>
+    public static string ModelIdOf(string sha256) => "0x" + sha256[..8].ToUpperInvariant() + "u";
     public required string Mode { get; init; }
 
     /// <summary>True for the integer-only mode (the header then states formats, typedefs and limits).</summary>
