@@ -101,6 +101,8 @@ public sealed partial class CEmitter
         }
         Need(acc == AccumulatorType.Int32 ? "INT32_MAX" : "INT64_MAX", acc.ToText() + "_t", "the accumulator type");
         if (hasHidden || plan.LinkCount > 0)
+            Need(acc == AccumulatorType.Int32 ? "UINT32_MAX" : "UINT64_MAX", "u" + acc.ToText() + "_t", "shifts of the accumulator");
+        if (hasHidden || plan.LinkCount > 0)
             Need(plan.WeightType switch { WeightType.Int8 => "INT8_MAX", WeightType.Int16 => "INT16_MAX", _ => "INT32_MAX" }, CWeightType(plan.WeightType), "the weight type");
         if (hasHidden && plan.TableEntriesUnsigned16) Need("UINT16_MAX", "uint16_t", "the softplus table");
         if (hasHidden && !plan.TableEntriesUnsigned16) Need("INT32_MAX", "int32_t", "the softplus table");
@@ -139,6 +141,7 @@ public sealed partial class CEmitter
             EnergyScaleLiteral = Literals.Double(f.EnergyScale),
             FormatComment = FixedText.CCommentBody(FixedText.FormatLines(plan)),
             AccType = acc.ToText() + "_t",
+            UAccType = "u" + acc.ToText() + "_t",
             WeightType = CWeightType(plan.WeightType),
             AccBits = plan.AccumulatorBits,
             AccMin = FixedText.CMacroInt(-accMax, acc),

@@ -117,7 +117,6 @@ public sealed partial class CEmitter : ITargetEmitter
             LinkOtherType = plan.Visible <= 0x10000 ? "uint16_t" : "uint32_t",
             Visible = plan.Visible,
             Hidden = plan.Hidden,
-            PackedBytes = plan.PackedBytes,
             LastByteMask = "0x" + plan.LastByteMask.ToString("X2", System.Globalization.CultureInfo.InvariantCulture) + "u",
             HasPartialByte = plan.LastByteMask != 0xFF,
             HasHidden = plan.Hidden > 0,

@@ -14,7 +14,6 @@ public sealed class CFileModel : CHeaderModel
     public required string LinkStartType { get; init; }
     public required string LinkOtherType { get; init; }
 
-    public required int PackedBytes { get; init; }
     public required string LastByteMask { get; init; }
     public required bool HasPartialByte { get; init; }
     public required bool HasHidden { get; init; }

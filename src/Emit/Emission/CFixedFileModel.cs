@@ -10,6 +10,7 @@ public sealed class CFixedFileModel : CHeaderModel
     public required string ThresholdComment { get; init; }
     public required string FormatComment { get; init; }
     public required string AccType { get; init; }
+    public required string UAccType { get; init; }
     public required string WeightType { get; init; }
     public required int AccBits { get; init; }
     public required string AccMin { get; init; }

@@ -33,13 +33,13 @@ static const small_general_energy_t small_general_visible_bias[SMALL_GENERAL_VIS
     0.546024978f, /* unit 2 */
     0.367632896f, /* unit 3 */
 };
-typedef char small_general_check_visible_bias[((sizeof small_general_visible_bias / sizeof small_general_visible_bias[0]) == SMALL_GENERAL_VISIBLE) ? 1 : -1];
+typedef char small_general_check_visible_bias[(((sizeof(small_general_visible_bias) / sizeof(small_general_visible_bias[0])) == SMALL_GENERAL_VISIBLE)) ? 1 : -1];
 
 /* c: hidden bias, one per hidden unit. */
 static const small_general_energy_t small_general_hidden_bias[SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
     0.345067471f, 1.55364311f, 0.211590797f,
 };
-typedef char small_general_check_hidden_bias[((sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_bias[(((sizeof(small_general_hidden_bias) / sizeof(small_general_hidden_bias[0])) == SMALL_GENERAL_HIDDEN)) ? 1 : -1];
 
 /* W: one row per visible unit; row i is added to the hidden pre-activations when unit i is on. */
 static const small_general_energy_t small_general_weights[SMALL_GENERAL_VISIBLE][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -56,7 +56,7 @@ static const small_general_energy_t small_general_weights[SMALL_GENERAL_VISIBLE]
         0.730626941f, -0.615098655f, -0.342734873f,
     },
 };
-typedef char small_general_check_weights[((sizeof small_general_weights / sizeof small_general_weights[0]) == SMALL_GENERAL_VISIBLE && (sizeof small_general_weights[0] / sizeof small_general_weights[0][0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_weights[(((sizeof(small_general_weights) / sizeof(small_general_weights[0])) == SMALL_GENERAL_VISIBLE) && ((sizeof(small_general_weights[0]) / sizeof(small_general_weights[0][0])) == SMALL_GENERAL_HIDDEN)) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 3 in all. The links of unit i to units j < i are entries
@@ -71,7 +71,7 @@ static const uint16_t small_general_link_other[3] SMALL_GENERAL_TABLE_ATTR = {
 static const small_general_energy_t small_general_link_weight[3] SMALL_GENERAL_TABLE_ATTR = {
     -0.378103703f, -0.41286245f, 0.457901388f,
 };
-typedef char small_general_check_links[((sizeof small_general_link_start / sizeof small_general_link_start[0]) == SMALL_GENERAL_VISIBLE + 1 && (sizeof small_general_link_other / sizeof small_general_link_other[0]) == 3 && (sizeof small_general_link_weight / sizeof small_general_link_weight[0]) == 3) ? 1 : -1];
+typedef char small_general_check_links[(((sizeof(small_general_link_start) / sizeof(small_general_link_start[0])) == (SMALL_GENERAL_VISIBLE + 1)) && ((sizeof(small_general_link_other) / sizeof(small_general_link_other[0])) == 3) && ((sizeof(small_general_link_weight) / sizeof(small_general_link_weight[0])) == 3)) ? 1 : -1];
 
 /* M: links between hidden units as a symmetric matrix with zero diagonal. */
 static const small_general_energy_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -85,7 +85,7 @@ static const small_general_energy_t small_general_hidden_pairs[SMALL_GENERAL_HID
         0.289481282f, 0.449767977f, 0.0f,
     },
 };
-typedef char small_general_check_hidden_pairs[((sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_pairs[(((sizeof(small_general_hidden_pairs) / sizeof(small_general_hidden_pairs[0])) == SMALL_GENERAL_HIDDEN)) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -102,9 +102,13 @@ static small_general_energy_t small_general_hidden_walk(const small_general_ener
     small_general_energy_t field[3];
     small_general_energy_t partial[SMALL_GENERAL_HIDDEN + 1];
     small_general_energy_t best = 0.0f; /* the all-off state scores exactly 0 */
-    uint_fast32_t block, count = 0u;
-    unsigned int k, l;
-    for (k = 0u; k <= (unsigned int)SMALL_GENERAL_HIDDEN; ++k) partial[k] = 0.0f;
+    uint_fast32_t block;
+    uint_fast32_t count = 0u;
+    unsigned int k;
+    unsigned int l;
+    for (k = 0u; k <= (unsigned int)SMALL_GENERAL_HIDDEN; ++k) {
+        partial[k] = 0.0f;
+    }
     for (block = 0u; block < 1u; ++block) {
         const uint_fast32_t first = block << 3;
         uint_fast32_t state = first ^ (first >> 1);
@@ -113,17 +117,23 @@ static small_general_energy_t small_general_hidden_walk(const small_general_ener
         for (k = 0u; k < (unsigned int)SMALL_GENERAL_HIDDEN; ++k) {
             if (((state >> k) & 1u) != 0u) {
                 score += a[k];
-                for (l = 0u; l < k; ++l)
-                    if (((state >> l) & 1u) != 0u) score += small_general_hidden_pairs[k][l];
+                for (l = 0u; l < k; ++l) {
+                    if (((state >> l) & 1u) != 0u) {
+                        score += small_general_hidden_pairs[k][l];
+                    }
+                }
             }
         }
         for (k = 0u; k < 3u; ++k) {
             small_general_energy_t f = a[k];
-            for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l)
-                if (l != k && ((state >> l) & 1u) != 0u) f += small_general_hidden_pairs[k][l];
+            for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l) {
+                if ((l != k) && (((state >> l) & 1u) != 0u)) {
+                    f += small_general_hidden_pairs[k][l];
+                }
+            }
             field[k] = f;
         }
-        for (t = 0u;; ++t) {
+        for (t = 0u; t < 8u; ++t) {
             if (summing != 0) {
                 small_general_energy_t x = expf(score - max);
                 uint_fast32_t c = count;
@@ -135,25 +145,36 @@ static small_general_energy_t small_general_hidden_walk(const small_general_ener
                 }
                 partial[level] = x;
                 ++count;
-            } else if (score > best) {
-                best = score;
-            }
-            if (t == 8u - 1u) break;
-            k = 0u;
-            while ((((t + 1u) >> k) & 1u) == 0u) ++k;
-            if (((state >> k) & 1u) == 0u) {
-                score += field[k];
-                for (l = 0u; l < 3u; ++l)
-                    if (l != k) field[l] += small_general_hidden_pairs[l][k];
             } else {
-                score -= field[k];
-                for (l = 0u; l < 3u; ++l)
-                    if (l != k) field[l] -= small_general_hidden_pairs[l][k];
+                if (score > best) {
+                    best = score;
+                }
             }
-            state ^= (uint_fast32_t)1u << k;
+            if (t != (8u - 1u)) { /* step to the next state of the block */
+                k = 0u;
+                while ((((t + 1u) >> k) & 1u) == 0u) {
+                    ++k;
+                }
+                if (((state >> k) & 1u) == 0u) {
+                    score += field[k];
+                    for (l = 0u; l < 3u; ++l) {
+                        if (l != k) {
+                            field[l] += small_general_hidden_pairs[l][k];
+                        }
+                    }
+                } else {
+                    score -= field[k];
+                    for (l = 0u; l < 3u; ++l) {
+                        if (l != k) {
+                            field[l] -= small_general_hidden_pairs[l][k];
+                        }
+                    }
+                }
+                state ^= (uint_fast32_t)1u << k;
+            }
         }
     }
-    return summing != 0 ? partial[SMALL_GENERAL_HIDDEN] : best;
+    return (summing != 0) ? partial[SMALL_GENERAL_HIDDEN] : best;
 }
 
 /* log sum_h exp(s(h)), exactly over all hidden states: max + log(sum exp(s - max)); the sum lies in [1, 2^HIDDEN]. */
@@ -177,35 +198,48 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     const small_general_energy_t *pending = NULL; /* a row waiting for a partner: rows are added two at a time */
     uint_fast16_t j;
     uint_fast16_t byte_index;
-    for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
-    for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
+    for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+        acc[j] = small_general_hidden_bias[j];
+    }
+    for (byte_index = 0u; byte_index < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        if (byte_index == SMALL_GENERAL_PACKED_BYTES - 1) bits &= 0x0Fu;
+        if (byte_index == ((uint_fast16_t)SMALL_GENERAL_PACKED_BYTES - 1u)) {
+            bits &= 0x0Fu;
+        }
         while (bits != 0u) {
             unsigned int bit = 0u;
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) ++bit;
-            i = (uint_fast16_t)(byte_index * 8u + bit);
+            while (((bits >> bit) & 1u) == 0u) {
+                ++bit;
+            }
+            i = (uint_fast16_t)((byte_index * 8u) + bit);
             linear += small_general_visible_bias[i];
             {
                 uint_fast16_t n;
                 for (n = small_general_link_start[i]; n < small_general_link_start[i + 1u]; ++n) {
                     const uint_fast16_t other = small_general_link_other[n];
-                    if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) linear += small_general_link_weight[n];
+                    if ((((unsigned int)packed[other >> 3u] >> (other & 7u)) & 1u) != 0u) {
+                        linear += small_general_link_weight[n];
+                    }
                 }
             }
             if (pending == NULL) {
                 pending = small_general_weights[i];
             } else {
                 const small_general_energy_t *row = small_general_weights[i];
-                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j] + row[j];
+                for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+                    acc[j] += pending[j] + row[j];
+                }
                 pending = NULL;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != NULL)
-        for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += pending[j];
+    if (pending != NULL) {
+        for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+            acc[j] += pending[j];
+        }
+    }
     return -(linear + small_general_hidden_log_sum_exp(acc));
 }
 
@@ -213,9 +247,14 @@ small_general_energy_t small_general_free_energy_units(const uint8_t units[SMALL
 {
     uint8_t packed[SMALL_GENERAL_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < SMALL_GENERAL_PACKED_BYTES; ++i) packed[i] = 0u;
-    for (i = 0u; i < SMALL_GENERAL_VISIBLE; ++i)
-        if (units[i] != 0u) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7u)));
+    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++i) {
+        packed[i] = 0u;
+    }
+    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_VISIBLE; ++i) {
+        if (units[i] != 0u) {
+            packed[i >> 3u] = (uint8_t)(packed[i >> 3u] | (1u << (i & 7u)));
+        }
+    }
     return small_general_free_energy(packed);
 }
 
@@ -262,9 +301,11 @@ int small_general_selftest(void)
 {
     int failures = 0;
     uint_fast16_t k;
-    for (k = 0u; k < SMALL_GENERAL_SELFTEST_VECTORS; ++k) {
+    for (k = 0u; k < (uint_fast16_t)SMALL_GENERAL_SELFTEST_VECTORS; ++k) {
         const small_general_energy_t d = small_general_free_energy(small_general_selftest_inputs[k]) - small_general_selftest_expected[k];
-        if (!(d <= small_general_selftest_tolerance[k] && -d <= small_general_selftest_tolerance[k])) ++failures;
+        if (!((d <= small_general_selftest_tolerance[k]) && (-d <= small_general_selftest_tolerance[k]))) {
+            ++failures;
+        }
     }
     return failures;
 }

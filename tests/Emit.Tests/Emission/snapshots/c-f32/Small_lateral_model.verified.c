@@ -35,13 +35,13 @@ static const plant_energy_t plant_visible_bias[PLANT_VISIBLE] PLANT_TABLE_ATTR =
     0.0261744391f, /* 4: door * / open */
     -0.0201753117f, /* 5: alarm */
 };
-typedef char plant_check_visible_bias[((sizeof plant_visible_bias / sizeof plant_visible_bias[0]) == PLANT_VISIBLE) ? 1 : -1];
+typedef char plant_check_visible_bias[(((sizeof(plant_visible_bias) / sizeof(plant_visible_bias[0])) == PLANT_VISIBLE)) ? 1 : -1];
 
 /* c: hidden bias, one per hidden unit. */
 static const plant_energy_t plant_hidden_bias[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     -0.304169416f, -0.0377992056f, 0.706561565f,
 };
-typedef char plant_check_hidden_bias[((sizeof plant_hidden_bias / sizeof plant_hidden_bias[0]) == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_hidden_bias[(((sizeof(plant_hidden_bias) / sizeof(plant_hidden_bias[0])) == PLANT_HIDDEN)) ? 1 : -1];
 
 /* W: one row per visible unit; row i is added to the hidden pre-activations when unit i is on. */
 static const plant_energy_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TABLE_ATTR = {
@@ -64,7 +64,7 @@ static const plant_energy_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TAB
         0.0639177561f, -0.29630357f, 0.321168065f,
     },
 };
-typedef char plant_check_weights[((sizeof plant_weights / sizeof plant_weights[0]) == PLANT_VISIBLE && (sizeof plant_weights[0] / sizeof plant_weights[0][0]) == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_weights[(((sizeof(plant_weights) / sizeof(plant_weights[0])) == PLANT_VISIBLE) && ((sizeof(plant_weights[0]) / sizeof(plant_weights[0][0])) == PLANT_HIDDEN)) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 7 in all. The links of unit i to units j < i are entries
@@ -80,7 +80,7 @@ static const plant_energy_t plant_link_weight[7] PLANT_TABLE_ATTR = {
     -0.0449522771f, -0.168831557f, 0.668259144f, -0.123401925f, -0.0648916513f, 1.12364447f,
     1.19752574f,
 };
-typedef char plant_check_links[((sizeof plant_link_start / sizeof plant_link_start[0]) == PLANT_VISIBLE + 1 && (sizeof plant_link_other / sizeof plant_link_other[0]) == 7 && (sizeof plant_link_weight / sizeof plant_link_weight[0]) == 7) ? 1 : -1];
+typedef char plant_check_links[(((sizeof(plant_link_start) / sizeof(plant_link_start[0])) == (PLANT_VISIBLE + 1)) && ((sizeof(plant_link_other) / sizeof(plant_link_other[0])) == 7) && ((sizeof(plant_link_weight) / sizeof(plant_link_weight[0])) == 7)) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -91,7 +91,7 @@ typedef char plant_check_links[((sizeof plant_link_start / sizeof plant_link_sta
  */
 static plant_energy_t plant_softplus(plant_energy_t x)
 {
-    const plant_energy_t positive = x > 0.0f ? x : 0.0f;
+    const plant_energy_t positive = (x > 0.0f) ? x : 0.0f;
     return positive + logf(1.0f + expf(-fabsf(x)));
 }
 
@@ -107,51 +107,70 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     plant_energy_t linear = 0.0f;
     plant_energy_t acc[PLANT_HIDDEN];
     const plant_energy_t *pending = NULL; /* a row waiting for a partner: rows are added two at a time */
+    plant_energy_t energy;
     uint_fast16_t j;
     uint_fast16_t byte_index;
-    for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] = plant_hidden_bias[j];
-    for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES; ++byte_index) {
+    for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+        acc[j] = plant_hidden_bias[j];
+    }
+    for (byte_index = 0u; byte_index < (uint_fast16_t)PLANT_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        if (byte_index == PLANT_PACKED_BYTES - 1) bits &= 0x3Fu;
+        if (byte_index == ((uint_fast16_t)PLANT_PACKED_BYTES - 1u)) {
+            bits &= 0x3Fu;
+        }
         while (bits != 0u) {
             unsigned int bit = 0u;
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) ++bit;
-            i = (uint_fast16_t)(byte_index * 8u + bit);
+            while (((bits >> bit) & 1u) == 0u) {
+                ++bit;
+            }
+            i = (uint_fast16_t)((byte_index * 8u) + bit);
             linear += plant_visible_bias[i];
             {
                 uint_fast16_t n;
                 for (n = plant_link_start[i]; n < plant_link_start[i + 1u]; ++n) {
                     const uint_fast16_t other = plant_link_other[n];
-                    if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) linear += plant_link_weight[n];
+                    if ((((unsigned int)packed[other >> 3u] >> (other & 7u)) & 1u) != 0u) {
+                        linear += plant_link_weight[n];
+                    }
                 }
             }
             if (pending == NULL) {
                 pending = plant_weights[i];
             } else {
                 const plant_energy_t *row = plant_weights[i];
-                for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += pending[j] + row[j];
+                for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+                    acc[j] += pending[j] + row[j];
+                }
                 pending = NULL;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != NULL)
-        for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += pending[j];
-    {
-        plant_energy_t energy = -linear;
-        for (j = 0u; j < PLANT_HIDDEN; ++j) energy -= plant_softplus(acc[j]);
-        return energy;
+    if (pending != NULL) {
+        for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+            acc[j] += pending[j];
+        }
     }
+    energy = -linear;
+    for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+        energy -= plant_softplus(acc[j]);
+    }
+    return energy;
 }
 
 plant_energy_t plant_free_energy_units(const uint8_t units[PLANT_VISIBLE])
 {
     uint8_t packed[PLANT_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < PLANT_PACKED_BYTES; ++i) packed[i] = 0u;
-    for (i = 0u; i < PLANT_VISIBLE; ++i)
-        if (units[i] != 0u) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7u)));
+    for (i = 0u; i < (uint_fast16_t)PLANT_PACKED_BYTES; ++i) {
+        packed[i] = 0u;
+    }
+    for (i = 0u; i < (uint_fast16_t)PLANT_VISIBLE; ++i) {
+        if (units[i] != 0u) {
+            packed[i >> 3u] = (uint8_t)(packed[i >> 3u] | (1u << (i & 7u)));
+        }
+    }
     return plant_free_energy(packed);
 }
 
@@ -203,9 +222,11 @@ int plant_selftest(void)
 {
     int failures = 0;
     uint_fast16_t k;
-    for (k = 0u; k < PLANT_SELFTEST_VECTORS; ++k) {
+    for (k = 0u; k < (uint_fast16_t)PLANT_SELFTEST_VECTORS; ++k) {
         const plant_energy_t d = plant_free_energy(plant_selftest_inputs[k]) - plant_selftest_expected[k];
-        if (!(d <= plant_selftest_tolerance[k] && -d <= plant_selftest_tolerance[k])) ++failures;
+        if (!((d <= plant_selftest_tolerance[k]) && (-d <= plant_selftest_tolerance[k]))) {
+            ++failures;
+        }
     }
     return failures;
 }

@@ -28,12 +28,18 @@
 #ifndef INT32_MAX
 #error "small_general.c needs int32_t (the accumulator type); this compiler's stdint.h has none"
 #endif
+#ifndef UINT32_MAX
+#error "small_general.c needs uint32_t (shifts of the accumulator); this compiler's stdint.h has none"
+#endif
 #ifndef INT16_MAX
 #error "small_general.c needs int16_t (the weight type); this compiler's stdint.h has none"
 #endif
 #ifndef INT8_MAX
 #error "small_general.c needs int8_t (the per-unit fraction bits); this compiler's stdint.h has none"
 #endif
+
+/* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative, in this type. */
+typedef uint32_t small_general_uacc_t;
 
 /* ==== tables ==== */
 
@@ -44,7 +50,7 @@ static const small_general_acc_t small_general_visible_bias[SMALL_GENERAL_VISIBL
     572549, /* unit 2 = 0.5460253 */
     385491, /* unit 3 = 0.3676329 */
 };
-typedef char small_general_check_visible_bias[((sizeof small_general_visible_bias / sizeof small_general_visible_bias[0]) == SMALL_GENERAL_VISIBLE) ? 1 : -1];
+typedef char small_general_check_visible_bias[((sizeof(small_general_visible_bias) / sizeof(small_general_visible_bias[0])) == SMALL_GENERAL_VISIBLE) ? 1 : -1];
 
 /*
  * c: hidden bias, the starting value of each hidden accumulator, in that unit's format:
@@ -55,7 +61,7 @@ static const small_general_acc_t small_general_hidden_bias[SMALL_GENERAL_HIDDEN]
     50910, /* hidden 1, Q16.15 = 1.55365 */
     3467, /* hidden 2, Q17.14 = 0.2116089 */
 };
-typedef char small_general_check_hidden_bias[((sizeof small_general_hidden_bias / sizeof small_general_hidden_bias[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_bias[((sizeof(small_general_hidden_bias) / sizeof(small_general_hidden_bias[0])) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * f_j: fraction bits of hidden unit j (weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j).
@@ -64,7 +70,7 @@ typedef char small_general_check_hidden_bias[((sizeof small_general_hidden_bias 
 static const int8_t small_general_fraction_bits[SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
     15, 15, 14,
 };
-typedef char small_general_check_fraction_bits[((sizeof small_general_fraction_bits / sizeof small_general_fraction_bits[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_fraction_bits[((sizeof(small_general_fraction_bits) / sizeof(small_general_fraction_bits[0])) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * W: one row per visible unit; row i is added to the hidden accumulators when unit i is on. Column j is in unit j's
@@ -84,7 +90,7 @@ static const small_general_weight_t small_general_weights[SMALL_GENERAL_VISIBLE]
         23941, -20156, -5615,
     },
 };
-typedef char small_general_check_weights[((sizeof small_general_weights / sizeof small_general_weights[0]) == SMALL_GENERAL_VISIBLE && (sizeof small_general_weights[0] / sizeof small_general_weights[0][0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_weights[(((sizeof(small_general_weights) / sizeof(small_general_weights[0])) == SMALL_GENERAL_VISIBLE) && ((sizeof(small_general_weights[0]) / sizeof(small_general_weights[0][0])) == SMALL_GENERAL_HIDDEN)) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 3 in all, in Q-1.16. The links of unit i to units j < i are entries
@@ -101,7 +107,7 @@ static const small_general_weight_t small_general_link_weight[3] SMALL_GENERAL_T
     -27057, /* L(1, 2) = -0.4128571 */
     30009, /* L(2, 3) = 0.457901 */
 };
-typedef char small_general_check_links[((sizeof small_general_link_start / sizeof small_general_link_start[0]) == SMALL_GENERAL_VISIBLE + 1 && (sizeof small_general_link_other / sizeof small_general_link_other[0]) == 3 && (sizeof small_general_link_weight / sizeof small_general_link_weight[0]) == 3) ? 1 : -1];
+typedef char small_general_check_links[(((sizeof(small_general_link_start) / sizeof(small_general_link_start[0])) == (SMALL_GENERAL_VISIBLE + 1)) && ((sizeof(small_general_link_other) / sizeof(small_general_link_other[0])) == 3) && ((sizeof(small_general_link_weight) / sizeof(small_general_link_weight[0])) == 3)) ? 1 : -1];
 
 /* M: links between hidden units in Q11.20, as a symmetric matrix with zero diagonal. */
 static const small_general_acc_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN][SMALL_GENERAL_HIDDEN] SMALL_GENERAL_TABLE_ATTR = {
@@ -115,7 +121,7 @@ static const small_general_acc_t small_general_hidden_pairs[SMALL_GENERAL_HIDDEN
         303543, 471616, 0,
     },
 };
-typedef char small_general_check_hidden_pairs[((sizeof small_general_hidden_pairs / sizeof small_general_hidden_pairs[0]) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
+typedef char small_general_check_hidden_pairs[((sizeof(small_general_hidden_pairs) / sizeof(small_general_hidden_pairs[0])) == SMALL_GENERAL_HIDDEN) ? 1 : -1];
 
 /*
  * T[k] = round(G(k h) * 2^20), G(d) = log(1 + e^-d), k = 0..256: 256 segments of width h = 2^-4 over
@@ -156,7 +162,7 @@ static const int32_t small_general_softplus_table[256 + 1] SMALL_GENERAL_TABLE_A
     0, 0, 0, 0, 0, 0, 0, 0, /* T[248..255], d = 15.5 .. 15.9375 */
     0, /* T[256], d = 16 */
 };
-typedef char small_general_check_softplus_table[((sizeof small_general_softplus_table / sizeof small_general_softplus_table[0]) == 256 + 1) ? 1 : -1];
+typedef char small_general_check_softplus_table[((sizeof(small_general_softplus_table) / sizeof(small_general_softplus_table[0])) == (256 + 1)) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -169,11 +175,23 @@ typedef char small_general_check_softplus_table[((sizeof small_general_softplus_
  */
 static small_general_acc_t small_general_to_energy(small_general_acc_t x, int s)
 {
+    small_general_acc_t result;
     if (s > 0) {
-        const small_general_acc_t half = (small_general_acc_t)1 << (s - 1);
-        return x >= 0 ? (x + half) >> s : -((-x + half) >> s);
+        const unsigned int shift = (unsigned int)s;
+        const small_general_uacc_t half = (small_general_uacc_t)1u << (shift - 1u);
+        small_general_uacc_t magnitude;
+        if (x >= 0) {
+            magnitude = ((small_general_uacc_t)x + half) >> shift;
+            result = (small_general_acc_t)magnitude;
+        } else {
+            magnitude = ((small_general_uacc_t)(-x) + half) >> shift;
+            result = -(small_general_acc_t)magnitude;
+        }
+    } else {
+        const small_general_uacc_t scale = (small_general_uacc_t)1u << (unsigned int)(-s);
+        result = x * (small_general_acc_t)scale;
     }
-    return x * ((small_general_acc_t)1 << -s);
+    return result;
 }
 
 /*
@@ -186,14 +204,24 @@ static small_general_acc_t small_general_to_energy(small_general_acc_t x, int s)
  */
 static small_general_acc_t small_general_g(small_general_acc_t mag, int d)
 {
-    small_general_acc_t k, r, upper, lower;
-    if (mag >= ((small_general_acc_t)256 << d)) return 0;
-    k = mag >> d;
-    if (d == 0) return (small_general_acc_t)small_general_softplus_table[k];
-    r = mag & (((small_general_acc_t)1 << d) - 1);
-    upper = (small_general_acc_t)small_general_softplus_table[k];
-    lower = (small_general_acc_t)small_general_softplus_table[k + 1];
-    return lower + (((upper - lower) * (((small_general_acc_t)1 << d) - r) + ((small_general_acc_t)1 << (d - 1))) >> d);
+    const small_general_uacc_t m = (small_general_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
+    const unsigned int shift = (unsigned int)d;
+    const small_general_uacc_t k = m >> shift;
+    small_general_acc_t result = 0;
+    if (k < 256u) {
+        const small_general_acc_t upper = (small_general_acc_t)small_general_softplus_table[k];
+        if (shift == 0u) {
+            result = upper;
+        } else {
+            const small_general_acc_t lower = (small_general_acc_t)small_general_softplus_table[k + 1u];
+            const small_general_acc_t drop = upper - lower; /* >= 0: the table decreases */
+            const small_general_uacc_t one = (small_general_uacc_t)1u << shift;
+            const small_general_uacc_t r = m & (one - 1u);
+            const small_general_uacc_t step = (((small_general_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
+            result = lower + (small_general_acc_t)step;
+        }
+    }
+    return result;
 }
 
 /*
@@ -202,9 +230,9 @@ static small_general_acc_t small_general_g(small_general_acc_t mag, int d)
  */
 static small_general_acc_t small_general_lse2(small_general_acc_t a, small_general_acc_t b)
 {
-    const small_general_acc_t larger = a >= b ? a : b;
-    const small_general_acc_t diff = a >= b ? a - b : b - a;
-    return larger + small_general_g(diff, 16);
+    const small_general_acc_t larger = (a >= b) ? a : b;
+    const small_general_acc_t smaller = (a >= b) ? b : a;
+    return larger + small_general_g(larger - smaller, 16);
 }
 
 /*
@@ -220,31 +248,44 @@ static small_general_acc_t small_general_hidden_log_sum_exp(const small_general_
     small_general_acc_t field[SMALL_GENERAL_HIDDEN];
     small_general_acc_t partial[SMALL_GENERAL_HIDDEN + 1];
     small_general_acc_t score = 0;
-    uint_fast32_t t, state = 0u;
-    unsigned int k, l, level;
+    uint_fast32_t t;
+    uint_fast32_t state = 0u;
+    unsigned int k;
+    unsigned int l;
+    unsigned int level;
     for (k = 0u; k < (unsigned int)SMALL_GENERAL_HIDDEN; ++k) {
         field[k] = small_general_to_energy(acc[k], (int)small_general_fraction_bits[k] - 20);
         partial[k] = 0;
     }
     partial[SMALL_GENERAL_HIDDEN] = 0;
-    for (t = 0u; t < (uint_fast32_t)1u << SMALL_GENERAL_HIDDEN; ++t) {
+    for (t = 0u; t < ((uint_fast32_t)1u << SMALL_GENERAL_HIDDEN); ++t) {
         small_general_acc_t v;
         if (t != 0u) {
             k = 0u;
-            while (((t >> k) & 1u) == 0u) ++k;
+            while (((t >> k) & 1u) == 0u) {
+                ++k;
+            }
             if (((state >> k) & 1u) == 0u) {
                 score += field[k];
-                for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l)
-                    if (l != k) field[l] += small_general_hidden_pairs[l][k];
+                for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l) {
+                    if (l != k) {
+                        field[l] += small_general_hidden_pairs[l][k];
+                    }
+                }
             } else {
                 score -= field[k];
-                for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l)
-                    if (l != k) field[l] -= small_general_hidden_pairs[l][k];
+                for (l = 0u; l < (unsigned int)SMALL_GENERAL_HIDDEN; ++l) {
+                    if (l != k) {
+                        field[l] -= small_general_hidden_pairs[l][k];
+                    }
+                }
             }
             state ^= (uint_fast32_t)1u << k;
         }
         v = score;
-        for (level = 0u; ((t >> level) & 1u) != 0u; ++level) v = small_general_lse2(partial[level], v);
+        for (level = 0u; ((t >> level) & 1u) != 0u; ++level) {
+            v = small_general_lse2(partial[level], v);
+        }
         partial[level] = v;
     }
     return partial[SMALL_GENERAL_HIDDEN];
@@ -273,36 +314,53 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     unsigned int count = 0u;
     uint_fast16_t j;
     uint_fast16_t byte_index;
-    for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] = small_general_hidden_bias[j];
-    for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
+    for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+        acc[j] = small_general_hidden_bias[j];
+    }
+    for (byte_index = 0u; byte_index < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
         unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
-        if (byte_index == SMALL_GENERAL_PACKED_BYTES - 1) bits &= 0x0Fu;
+        if (byte_index == ((uint_fast16_t)SMALL_GENERAL_PACKED_BYTES - 1u)) {
+            bits &= 0x0Fu;
+        }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) ++bit;
-            i = (uint_fast16_t)(byte_index * 8u + bit);
+            while (((bits >> bit) & 1u) == 0u) {
+                ++bit;
+            }
+            i = (uint_fast16_t)((byte_index * 8u) + bit);
             energy += small_general_visible_bias[i];
             {
                 uint_fast16_t n;
                 for (n = small_general_link_start[i]; n < small_general_link_start[i + 1u]; ++n) {
                     const uint_fast16_t other = small_general_link_other[n];
-                    if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) lateral += (small_general_acc_t)small_general_link_weight[n];
+                    if ((((unsigned int)packed[other >> 3u] >> (other & 7u)) & 1u) != 0u) {
+                        lateral += (small_general_acc_t)small_general_link_weight[n];
+                    }
                 }
             }
-            waiting[count++] = small_general_weights[i];
+            waiting[count] = small_general_weights[i];
+            ++count;
             if (count == 4u) {
-                const small_general_weight_t *r0 = waiting[0], *r1 = waiting[1], *r2 = waiting[2], *r3 = waiting[3];
-                for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j)
+                const small_general_weight_t *r0 = waiting[0];
+                const small_general_weight_t *r1 = waiting[1];
+                const small_general_weight_t *r2 = waiting[2];
+                const small_general_weight_t *r3 = waiting[3];
+                for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
                     acc[j] += (small_general_acc_t)r0[j] + (small_general_acc_t)r1[j] + (small_general_acc_t)r2[j] + (small_general_acc_t)r3[j];
+                }
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
     while (count != 0u) { /* the last one to three rows, one at a time */
-        const small_general_weight_t *row = waiting[--count];
-        for (j = 0u; j < SMALL_GENERAL_HIDDEN; ++j) acc[j] += (small_general_acc_t)row[j];
+        const small_general_weight_t *row;
+        --count;
+        row = waiting[count];
+        for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+            acc[j] += (small_general_acc_t)row[j];
+        }
     }
     energy += small_general_to_energy(lateral, -4);
     energy += small_general_hidden_log_sum_exp(acc);
@@ -313,9 +371,14 @@ small_general_energy_t small_general_free_energy_units(const uint8_t units[SMALL
 {
     uint8_t packed[SMALL_GENERAL_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < SMALL_GENERAL_PACKED_BYTES; ++i) packed[i] = 0u;
-    for (i = 0u; i < SMALL_GENERAL_VISIBLE; ++i)
-        if (units[i] != 0u) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7u)));
+    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++i) {
+        packed[i] = 0u;
+    }
+    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_VISIBLE; ++i) {
+        if (units[i] != 0u) {
+            packed[i >> 3u] = (uint8_t)(packed[i >> 3u] | (1u << (i & 7u)));
+        }
+    }
     return small_general_free_energy(packed);
 }
 
@@ -353,7 +416,10 @@ int small_general_selftest(void)
 {
     int failures = 0;
     uint_fast16_t k;
-    for (k = 0u; k < SMALL_GENERAL_SELFTEST_VECTORS; ++k)
-        if (small_general_free_energy(small_general_selftest_inputs[k]) != small_general_selftest_expected[k]) ++failures;
+    for (k = 0u; k < (uint_fast16_t)SMALL_GENERAL_SELFTEST_VECTORS; ++k) {
+        if (small_general_free_energy(small_general_selftest_inputs[k]) != small_general_selftest_expected[k]) {
+            ++failures;
+        }
+    }
     return failures;
 }

@@ -28,12 +28,18 @@
 #ifndef INT32_MAX
 #error "plant.c needs int32_t (the accumulator type); this compiler's stdint.h has none"
 #endif
+#ifndef UINT32_MAX
+#error "plant.c needs uint32_t (shifts of the accumulator); this compiler's stdint.h has none"
+#endif
 #ifndef INT16_MAX
 #error "plant.c needs int16_t (the weight type); this compiler's stdint.h has none"
 #endif
 #ifndef INT8_MAX
 #error "plant.c needs int8_t (the per-unit fraction bits); this compiler's stdint.h has none"
 #endif
+
+/* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative, in this type. */
+typedef uint32_t plant_uacc_t;
 
 /* ==== tables ==== */
 
@@ -46,7 +52,7 @@ static const plant_acc_t plant_visible_bias[PLANT_VISIBLE] PLANT_TABLE_ATTR = {
     439134, /* 4: door * / open = 0.02617443 */
     -338486, /* 5: alarm = -0.02017534 */
 };
-typedef char plant_check_visible_bias[((sizeof plant_visible_bias / sizeof plant_visible_bias[0]) == PLANT_VISIBLE) ? 1 : -1];
+typedef char plant_check_visible_bias[((sizeof(plant_visible_bias) / sizeof(plant_visible_bias[0])) == PLANT_VISIBLE) ? 1 : -1];
 
 /*
  * c: hidden bias, the starting value of each hidden accumulator, in that unit's format:
@@ -57,7 +63,7 @@ static const plant_acc_t plant_hidden_bias[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     -2477, /* hidden 1, Q15.16 = -0.03779602 */
     23153, /* hidden 2, Q16.15 = 0.7065735 */
 };
-typedef char plant_check_hidden_bias[((sizeof plant_hidden_bias / sizeof plant_hidden_bias[0]) == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_hidden_bias[((sizeof(plant_hidden_bias) / sizeof(plant_hidden_bias[0])) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * f_j: fraction bits of hidden unit j (weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j).
@@ -66,7 +72,7 @@ typedef char plant_check_hidden_bias[((sizeof plant_hidden_bias / sizeof plant_h
 static const int8_t plant_fraction_bits[PLANT_HIDDEN] PLANT_TABLE_ATTR = {
     14, 16, 15,
 };
-typedef char plant_check_fraction_bits[((sizeof plant_fraction_bits / sizeof plant_fraction_bits[0]) == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_fraction_bits[((sizeof(plant_fraction_bits) / sizeof(plant_fraction_bits[0])) == PLANT_HIDDEN) ? 1 : -1];
 
 /*
  * W: one row per visible unit; row i is added to the hidden accumulators when unit i is on. Column j is in unit j's
@@ -92,7 +98,7 @@ static const plant_weight_t plant_weights[PLANT_VISIBLE][PLANT_HIDDEN] PLANT_TAB
         1047, -19419, 10524,
     },
 };
-typedef char plant_check_weights[((sizeof plant_weights / sizeof plant_weights[0]) == PLANT_VISIBLE && (sizeof plant_weights[0] / sizeof plant_weights[0][0]) == PLANT_HIDDEN) ? 1 : -1];
+typedef char plant_check_weights[(((sizeof(plant_weights) / sizeof(plant_weights[0])) == PLANT_VISIBLE) && ((sizeof(plant_weights[0]) / sizeof(plant_weights[0][0])) == PLANT_HIDDEN)) ? 1 : -1];
 
 /*
  * L: lateral links between visible units, 7 in all, in Q1.14. The links of unit i to units j < i are entries
@@ -113,7 +119,7 @@ static const plant_weight_t plant_link_weight[7] PLANT_TABLE_ATTR = {
     18410, /* L(2, 5) = 1.123657 */
     19620, /* L(3, 5) = 1.19751 */
 };
-typedef char plant_check_links[((sizeof plant_link_start / sizeof plant_link_start[0]) == PLANT_VISIBLE + 1 && (sizeof plant_link_other / sizeof plant_link_other[0]) == 7 && (sizeof plant_link_weight / sizeof plant_link_weight[0]) == 7) ? 1 : -1];
+typedef char plant_check_links[(((sizeof(plant_link_start) / sizeof(plant_link_start[0])) == (PLANT_VISIBLE + 1)) && ((sizeof(plant_link_other) / sizeof(plant_link_other[0])) == 7) && ((sizeof(plant_link_weight) / sizeof(plant_link_weight[0])) == 7)) ? 1 : -1];
 
 /*
  * T[k] = round(G(k h) * 2^24), G(d) = log(1 + e^-d), k = 0..256: 256 segments of width h = 2^-6 over
@@ -154,7 +160,7 @@ static const int32_t plant_softplus_table[256 + 1] PLANT_TABLE_ATTR = {
     344636, 339346, 334137, 329008, 323956, 318981, 314081, 309257, /* T[248..255], d = 3.875 .. 3.984375 */
     304505, /* T[256], d = 4 */
 };
-typedef char plant_check_softplus_table[((sizeof plant_softplus_table / sizeof plant_softplus_table[0]) == 256 + 1) ? 1 : -1];
+typedef char plant_check_softplus_table[((sizeof(plant_softplus_table) / sizeof(plant_softplus_table[0])) == (256 + 1)) ? 1 : -1];
 
 /* ==== scoring ==== */
 
@@ -168,11 +174,23 @@ typedef char plant_check_softplus_table[((sizeof plant_softplus_table / sizeof p
  */
 static plant_acc_t plant_to_energy(plant_acc_t x, int s)
 {
+    plant_acc_t result;
     if (s > 0) {
-        const plant_acc_t half = (plant_acc_t)1 << (s - 1);
-        return x >= 0 ? (x + half) >> s : -((-x + half) >> s);
+        const unsigned int shift = (unsigned int)s;
+        const plant_uacc_t half = (plant_uacc_t)1u << (shift - 1u);
+        plant_uacc_t magnitude;
+        if (x >= 0) {
+            magnitude = ((plant_uacc_t)x + half) >> shift;
+            result = (plant_acc_t)magnitude;
+        } else {
+            magnitude = ((plant_uacc_t)(-x) + half) >> shift;
+            result = -(plant_acc_t)magnitude;
+        }
+    } else {
+        const plant_uacc_t scale = (plant_uacc_t)1u << (unsigned int)(-s);
+        result = x * (plant_acc_t)scale;
     }
-    return x * ((plant_acc_t)1 << -s);
+    return result;
 }
 
 /*
@@ -185,14 +203,24 @@ static plant_acc_t plant_to_energy(plant_acc_t x, int s)
  */
 static plant_acc_t plant_g(plant_acc_t mag, int d)
 {
-    plant_acc_t k, r, upper, lower;
-    if (mag >= ((plant_acc_t)256 << d)) return 0;
-    k = mag >> d;
-    if (d == 0) return (plant_acc_t)plant_softplus_table[k];
-    r = mag & (((plant_acc_t)1 << d) - 1);
-    upper = (plant_acc_t)plant_softplus_table[k];
-    lower = (plant_acc_t)plant_softplus_table[k + 1];
-    return lower + (((upper - lower) * (((plant_acc_t)1 << d) - r) + ((plant_acc_t)1 << (d - 1))) >> d);
+    const plant_uacc_t m = (plant_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
+    const unsigned int shift = (unsigned int)d;
+    const plant_uacc_t k = m >> shift;
+    plant_acc_t result = 0;
+    if (k < 256u) {
+        const plant_acc_t upper = (plant_acc_t)plant_softplus_table[k];
+        if (shift == 0u) {
+            result = upper;
+        } else {
+            const plant_acc_t lower = (plant_acc_t)plant_softplus_table[k + 1u];
+            const plant_acc_t drop = upper - lower; /* >= 0: the table decreases */
+            const plant_uacc_t one = (plant_uacc_t)1u << shift;
+            const plant_uacc_t r = m & (one - 1u);
+            const plant_uacc_t step = (((plant_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
+            result = lower + (plant_acc_t)step;
+        }
+    }
+    return result;
 }
 
 /*
@@ -203,8 +231,8 @@ static plant_acc_t plant_g(plant_acc_t mag, int d)
  */
 static plant_acc_t plant_softplus(plant_acc_t a, int f)
 {
-    const plant_acc_t mag = a >= 0 ? a : -a;
-    const plant_acc_t positive = a > 0 ? plant_to_energy(a, f - 24) : 0;
+    const plant_acc_t mag = (a >= 0) ? a : -a;
+    const plant_acc_t positive = (a > 0) ? plant_to_energy(a, f - 24) : 0;
     return positive + plant_g(mag, f - (6));
 }
 
@@ -231,39 +259,58 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     unsigned int count = 0u;
     uint_fast16_t j;
     uint_fast16_t byte_index;
-    for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] = plant_hidden_bias[j];
-    for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES; ++byte_index) {
+    for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+        acc[j] = plant_hidden_bias[j];
+    }
+    for (byte_index = 0u; byte_index < (uint_fast16_t)PLANT_PACKED_BYTES; ++byte_index) {
         unsigned int bits = packed[byte_index];
         unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
-        if (byte_index == PLANT_PACKED_BYTES - 1) bits &= 0x3Fu;
+        if (byte_index == ((uint_fast16_t)PLANT_PACKED_BYTES - 1u)) {
+            bits &= 0x3Fu;
+        }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) ++bit;
-            i = (uint_fast16_t)(byte_index * 8u + bit);
+            while (((bits >> bit) & 1u) == 0u) {
+                ++bit;
+            }
+            i = (uint_fast16_t)((byte_index * 8u) + bit);
             energy += plant_visible_bias[i];
             {
                 uint_fast16_t n;
                 for (n = plant_link_start[i]; n < plant_link_start[i + 1u]; ++n) {
                     const uint_fast16_t other = plant_link_other[n];
-                    if ((((unsigned int)packed[other >> 3] >> (other & 7u)) & 1u) != 0u) lateral += (plant_acc_t)plant_link_weight[n];
+                    if ((((unsigned int)packed[other >> 3u] >> (other & 7u)) & 1u) != 0u) {
+                        lateral += (plant_acc_t)plant_link_weight[n];
+                    }
                 }
             }
-            waiting[count++] = plant_weights[i];
+            waiting[count] = plant_weights[i];
+            ++count;
             if (count == 4u) {
-                const plant_weight_t *r0 = waiting[0], *r1 = waiting[1], *r2 = waiting[2], *r3 = waiting[3];
-                for (j = 0u; j < PLANT_HIDDEN; ++j)
+                const plant_weight_t *r0 = waiting[0];
+                const plant_weight_t *r1 = waiting[1];
+                const plant_weight_t *r2 = waiting[2];
+                const plant_weight_t *r3 = waiting[3];
+                for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
                     acc[j] += (plant_acc_t)r0[j] + (plant_acc_t)r1[j] + (plant_acc_t)r2[j] + (plant_acc_t)r3[j];
+                }
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
     while (count != 0u) { /* the last one to three rows, one at a time */
-        const plant_weight_t *row = waiting[--count];
-        for (j = 0u; j < PLANT_HIDDEN; ++j) acc[j] += (plant_acc_t)row[j];
+        const plant_weight_t *row;
+        --count;
+        row = waiting[count];
+        for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+            acc[j] += (plant_acc_t)row[j];
+        }
     }
     energy += plant_to_energy(lateral, -10);
-    for (j = 0u; j < PLANT_HIDDEN; ++j) energy += plant_softplus(acc[j], (int)plant_fraction_bits[j]);
+    for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
+        energy += plant_softplus(acc[j], (int)plant_fraction_bits[j]);
+    }
     return -energy;
 }
 
@@ -271,9 +318,14 @@ plant_energy_t plant_free_energy_units(const uint8_t units[PLANT_VISIBLE])
 {
     uint8_t packed[PLANT_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < PLANT_PACKED_BYTES; ++i) packed[i] = 0u;
-    for (i = 0u; i < PLANT_VISIBLE; ++i)
-        if (units[i] != 0u) packed[i >> 3] = (uint8_t)(packed[i >> 3] | (1u << (i & 7u)));
+    for (i = 0u; i < (uint_fast16_t)PLANT_PACKED_BYTES; ++i) {
+        packed[i] = 0u;
+    }
+    for (i = 0u; i < (uint_fast16_t)PLANT_VISIBLE; ++i) {
+        if (units[i] != 0u) {
+            packed[i >> 3u] = (uint8_t)(packed[i >> 3u] | (1u << (i & 7u)));
+        }
+    }
     return plant_free_energy(packed);
 }
 
@@ -316,7 +368,10 @@ int plant_selftest(void)
 {
     int failures = 0;
     uint_fast16_t k;
-    for (k = 0u; k < PLANT_SELFTEST_VECTORS; ++k)
-        if (plant_free_energy(plant_selftest_inputs[k]) != plant_selftest_expected[k]) ++failures;
+    for (k = 0u; k < (uint_fast16_t)PLANT_SELFTEST_VECTORS; ++k) {
+        if (plant_free_energy(plant_selftest_inputs[k]) != plant_selftest_expected[k]) {
+            ++failures;
+        }
+    }
     return failures;
 }
