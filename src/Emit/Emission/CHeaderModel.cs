@@ -25,9 +25,6 @@ public abstract class CHeaderModel
     public required int Visible { get; init; }
     public required int Hidden { get; init; }
 
-    /// <summary>Bytes of a packed input vector: bit i of the input is bit i % 8 of byte i / 8.</summary>
-    public int PackedBytes => (Visible + 7) / 8;
-
     public required bool HasThreshold { get; init; }
     public required string Threshold { get; init; }
     public required string ErrorBound { get; init; }

@@ -24,6 +24,9 @@
 #endif
 typedef char small_general_check_float_is_32_bits[(sizeof(float) == 4u) ? 1 : -1];
 
+/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
+#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast16_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
+
 /* ==== tables ==== */
 
 /* b: visible bias, one per visible unit. */
@@ -201,9 +204,9 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
         acc[j] = small_general_hidden_bias[j];
     }
-    for (byte_index = 0u; byte_index < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
+    for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        if (byte_index == ((uint_fast16_t)SMALL_GENERAL_PACKED_BYTES - 1u)) {
+        if (byte_index == (SMALL_GENERAL_PACKED_BYTES_U - 1u)) {
             bits &= 0x0Fu;
         }
         while (bits != 0u) {
@@ -247,7 +250,7 @@ small_general_energy_t small_general_free_energy_units(const uint8_t units[SMALL
 {
     uint8_t packed[SMALL_GENERAL_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++i) {
+    for (i = 0u; i < SMALL_GENERAL_PACKED_BYTES_U; ++i) {
         packed[i] = 0u;
     }
     for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_VISIBLE; ++i) {

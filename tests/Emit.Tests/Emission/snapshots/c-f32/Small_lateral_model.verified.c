@@ -24,6 +24,9 @@
 #endif
 typedef char plant_check_float_is_32_bits[(sizeof(float) == 4u) ? 1 : -1];
 
+/* PLANT_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
+#define PLANT_PACKED_BYTES_U (((uint_fast16_t)PLANT_VISIBLE + 7u) >> 3u)
+
 /* ==== tables ==== */
 
 /* b: visible bias, one per visible unit. */
@@ -113,9 +116,9 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
         acc[j] = plant_hidden_bias[j];
     }
-    for (byte_index = 0u; byte_index < (uint_fast16_t)PLANT_PACKED_BYTES; ++byte_index) {
+    for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        if (byte_index == ((uint_fast16_t)PLANT_PACKED_BYTES - 1u)) {
+        if (byte_index == (PLANT_PACKED_BYTES_U - 1u)) {
             bits &= 0x3Fu;
         }
         while (bits != 0u) {
@@ -163,7 +166,7 @@ plant_energy_t plant_free_energy_units(const uint8_t units[PLANT_VISIBLE])
 {
     uint8_t packed[PLANT_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < (uint_fast16_t)PLANT_PACKED_BYTES; ++i) {
+    for (i = 0u; i < PLANT_PACKED_BYTES_U; ++i) {
         packed[i] = 0u;
     }
     for (i = 0u; i < (uint_fast16_t)PLANT_VISIBLE; ++i) {

@@ -20,7 +20,7 @@ extern "C" {
 #define PLANT_MODEL_ID 0x32F83EEAu /* first 32 bits of the model SHA-256; plant.c checks it */
 #define PLANT_VISIBLE 6
 #define PLANT_HIDDEN 3
-#define PLANT_PACKED_BYTES 1 /* (VISIBLE + 7) / 8: input bit i is bit i % 8 of byte i / 8 */
+#define PLANT_PACKED_BYTES ((PLANT_VISIBLE + 7) / 8)
 #define PLANT_ENERGY_SCALE 1.0 /* real free energy = value / PLANT_ENERGY_SCALE */
 #define PLANT_THRESHOLD 4.5 /* an input is unusual when its free energy is above this */
 #define PLANT_ERROR_BOUND 2.8788657904022214e-14 /* nats: |computed - exact free energy| <= this for every input */

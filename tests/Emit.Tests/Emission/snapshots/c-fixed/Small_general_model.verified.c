@@ -41,6 +41,9 @@
 /* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative, in this type. */
 typedef uint32_t small_general_uacc_t;
 
+/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
+#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast16_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
+
 /* ==== tables ==== */
 
 /* b: visible bias in Q11.20 (nats = value / 2^20), one per visible unit; the represented value in the comment. */
@@ -317,10 +320,10 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
         acc[j] = small_general_hidden_bias[j];
     }
-    for (byte_index = 0u; byte_index < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++byte_index) {
+    for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
         unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
-        if (byte_index == ((uint_fast16_t)SMALL_GENERAL_PACKED_BYTES - 1u)) {
+        if (byte_index == (SMALL_GENERAL_PACKED_BYTES_U - 1u)) {
             bits &= 0x0Fu;
         }
         while (bits != 0u) {
@@ -371,7 +374,7 @@ small_general_energy_t small_general_free_energy_units(const uint8_t units[SMALL
 {
     uint8_t packed[SMALL_GENERAL_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_PACKED_BYTES; ++i) {
+    for (i = 0u; i < SMALL_GENERAL_PACKED_BYTES_U; ++i) {
         packed[i] = 0u;
     }
     for (i = 0u; i < (uint_fast16_t)SMALL_GENERAL_VISIBLE; ++i) {

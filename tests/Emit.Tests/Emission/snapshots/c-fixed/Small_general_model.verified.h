@@ -20,7 +20,7 @@ extern "C" {
 #define SMALL_GENERAL_MODEL_ID 0x2E2A1232u /* first 32 bits of the model SHA-256; small_general.c checks it */
 #define SMALL_GENERAL_VISIBLE 4
 #define SMALL_GENERAL_HIDDEN 3
-#define SMALL_GENERAL_PACKED_BYTES 1 /* (VISIBLE + 7) / 8: input bit i is bit i % 8 of byte i / 8 */
+#define SMALL_GENERAL_PACKED_BYTES ((SMALL_GENERAL_VISIBLE + 7) / 8)
 #define SMALL_GENERAL_ENERGY_FRACTION_BITS 20 /* E: free energy values are Q11.20 integers */
 /*
  * The two double constants below are for callers that want nats (f / SMALL_GENERAL_ENERGY_SCALE); small_general.c uses

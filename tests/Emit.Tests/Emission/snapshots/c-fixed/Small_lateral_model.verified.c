@@ -41,6 +41,9 @@
 /* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative, in this type. */
 typedef uint32_t plant_uacc_t;
 
+/* PLANT_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
+#define PLANT_PACKED_BYTES_U (((uint_fast16_t)PLANT_VISIBLE + 7u) >> 3u)
+
 /* ==== tables ==== */
 
 /* b: visible bias in Q7.24 (nats = value / 2^24), one per visible unit; the represented value in the comment. */
@@ -262,10 +265,10 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     for (j = 0u; j < (uint_fast16_t)PLANT_HIDDEN; ++j) {
         acc[j] = plant_hidden_bias[j];
     }
-    for (byte_index = 0u; byte_index < (uint_fast16_t)PLANT_PACKED_BYTES; ++byte_index) {
+    for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
         unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
-        if (byte_index == ((uint_fast16_t)PLANT_PACKED_BYTES - 1u)) {
+        if (byte_index == (PLANT_PACKED_BYTES_U - 1u)) {
             bits &= 0x3Fu;
         }
         while (bits != 0u) {
@@ -318,7 +321,7 @@ plant_energy_t plant_free_energy_units(const uint8_t units[PLANT_VISIBLE])
 {
     uint8_t packed[PLANT_PACKED_BYTES];
     uint_fast16_t i;
-    for (i = 0u; i < (uint_fast16_t)PLANT_PACKED_BYTES; ++i) {
+    for (i = 0u; i < PLANT_PACKED_BYTES_U; ++i) {
         packed[i] = 0u;
     }
     for (i = 0u; i < (uint_fast16_t)PLANT_VISIBLE; ++i) {

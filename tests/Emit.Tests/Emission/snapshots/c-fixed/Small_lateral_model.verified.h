@@ -20,7 +20,7 @@ extern "C" {
 #define PLANT_MODEL_ID 0x32F83EEAu /* first 32 bits of the model SHA-256; plant.c checks it */
 #define PLANT_VISIBLE 6
 #define PLANT_HIDDEN 3
-#define PLANT_PACKED_BYTES 1 /* (VISIBLE + 7) / 8: input bit i is bit i % 8 of byte i / 8 */
+#define PLANT_PACKED_BYTES ((PLANT_VISIBLE + 7) / 8)
 #define PLANT_ENERGY_FRACTION_BITS 24 /* E: free energy values are Q7.24 integers */
 /*
  * The two double constants below are for callers that want nats (f / PLANT_ENERGY_SCALE); plant.c uses
