@@ -209,20 +209,18 @@ static small_general_acc_t small_general_g(small_general_acc_t mag, int d)
 {
     const small_general_uacc_t m = (small_general_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
     const unsigned int shift = (unsigned int)d;
-    const small_general_uacc_t k = m >> shift;
+    const small_general_uacc_t segment = m >> shift;
     small_general_acc_t result = 0;
-    if (k < 256u) {
+    if (segment < 256u) {
+        const int_least32_t k = (int_least32_t)segment; /* a signed index (k + 1 cannot wrap) lets compilers vectorize the lookups */
         const small_general_acc_t upper = (small_general_acc_t)small_general_softplus_table[k];
-        if (shift == 0u) {
-            result = upper;
-        } else {
-            const small_general_acc_t lower = (small_general_acc_t)small_general_softplus_table[k + 1u];
-            const small_general_acc_t drop = upper - lower; /* >= 0: the table decreases */
-            const small_general_uacc_t one = (small_general_uacc_t)1u << shift;
-            const small_general_uacc_t r = m & (one - 1u);
-            const small_general_uacc_t step = (((small_general_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
-            result = lower + (small_general_acc_t)step;
-        }
+        const small_general_acc_t lower = (small_general_acc_t)small_general_softplus_table[k + 1];
+        const small_general_acc_t drop = upper - lower; /* >= 0: the table decreases */
+        const small_general_uacc_t one = (small_general_uacc_t)1u << shift;
+        const small_general_uacc_t r = m & (one - 1u);
+        /* d = 0 needs no case of its own: r = 0 and the half is 0, so the result is T[k] */
+        const small_general_uacc_t step = (((small_general_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
+        result = lower + (small_general_acc_t)step;
     }
     return result;
 }

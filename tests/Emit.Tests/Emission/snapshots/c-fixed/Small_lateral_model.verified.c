@@ -208,20 +208,18 @@ static plant_acc_t plant_g(plant_acc_t mag, int d)
 {
     const plant_uacc_t m = (plant_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
     const unsigned int shift = (unsigned int)d;
-    const plant_uacc_t k = m >> shift;
+    const plant_uacc_t segment = m >> shift;
     plant_acc_t result = 0;
-    if (k < 256u) {
+    if (segment < 256u) {
+        const int_least32_t k = (int_least32_t)segment; /* a signed index (k + 1 cannot wrap) lets compilers vectorize the lookups */
         const plant_acc_t upper = (plant_acc_t)plant_softplus_table[k];
-        if (shift == 0u) {
-            result = upper;
-        } else {
-            const plant_acc_t lower = (plant_acc_t)plant_softplus_table[k + 1u];
-            const plant_acc_t drop = upper - lower; /* >= 0: the table decreases */
-            const plant_uacc_t one = (plant_uacc_t)1u << shift;
-            const plant_uacc_t r = m & (one - 1u);
-            const plant_uacc_t step = (((plant_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
-            result = lower + (plant_acc_t)step;
-        }
+        const plant_acc_t lower = (plant_acc_t)plant_softplus_table[k + 1];
+        const plant_acc_t drop = upper - lower; /* >= 0: the table decreases */
+        const plant_uacc_t one = (plant_uacc_t)1u << shift;
+        const plant_uacc_t r = m & (one - 1u);
+        /* d = 0 needs no case of its own: r = 0 and the half is 0, so the result is T[k] */
+        const plant_uacc_t step = (((plant_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
+        result = lower + (plant_acc_t)step;
     }
     return result;
 }
