@@ -1,0 +1,153 @@
+using System.Text.Json;
+
+namespace Emit.Model;
+
+/// <summary>
+/// A forward-only walk over a JSON file's tokens for emit's readers (model files, project files): every error is an
+/// <see cref="EmitException"/> naming the file, line and column of the offending token, never the JSON library's own
+/// exception. Comments are skipped; trailing commas are refused; the nesting depth is capped.
+/// </summary>
+public ref struct JsonCursor
+{
+    private readonly ReadOnlySpan<byte> _bytes;
+    private readonly string _source;
+    private readonly string _whole;
+
+    /// <summary>The underlying reader, for token values the helpers below do not cover.</summary>
+    public Utf8JsonReader R;
+
+    /// <param name="utf8">The file's bytes (a leading byte-order mark must already be removed).</param>
+    /// <param name="source">The file name used in errors.</param>
+    /// <param name="whole">What the file holds, one word for messages ("model": "file ends before the model is complete").</param>
+    public JsonCursor(ReadOnlySpan<byte> utf8, string source, string whole)
+    {
+        _bytes = utf8;
+        _source = source;
+        _whole = whole;
+        R = new Utf8JsonReader(utf8, new JsonReaderOptions { CommentHandling = JsonCommentHandling.Skip, MaxDepth = 64 });
+    }
+
+    /// <summary>The file name used in errors.</summary>
+    public readonly string Source => _source;
+
+    /// <summary>The bytes being read.</summary>
+    public readonly ReadOnlySpan<byte> Bytes => _bytes;
+
+    /// <summary>Strips a UTF-8 byte-order mark; refuses an empty or blank file.</summary>
+    public static ReadOnlySpan<byte> Content(ReadOnlySpan<byte> utf8, string source, string expected)
+    {
+        if (utf8.StartsWith("\uFEFF"u8)) utf8 = utf8[3..];
+        if (utf8.IsEmpty || utf8.Trim(" \t\r\n"u8).IsEmpty)
+            throw new EmitException("file is empty", "expected " + expected, source);
+        return utf8;
+    }
+
+    /// <summary>An error at the current token.</summary>
+    public readonly EmitException Error(string problem, string? hint = null) => Error(problem, hint, R.TokenStartIndex);
+
+    /// <summary>An error at byte <paramref name="offset"/>, given as line and column.</summary>
+    public readonly EmitException Error(string problem, string? hint, long offset)
+    {
+        long line = 1, lastNl = -1;
+        long end = Math.Min(offset, _bytes.Length);
+        for (int k = 0; k < end; k++)
+            if (_bytes[k] == (byte)'\n') { line++; lastNl = k; }
+        return new EmitException(problem, hint, _source, line, offset - lastNl);
+    }
+
+    /// <summary>The JSON library's syntax error as emit's error.</summary>
+    public readonly EmitException SyntaxError(JsonException e, string? hint = null) =>
+        new($"not valid JSON: {FirstSentence(e.Message)}", hint, _source, (e.LineNumber ?? 0) + 1, (e.BytePositionInLine ?? 0) + 1);
+
+    private static string FirstSentence(string message)
+    {
+        int k = message.IndexOf(" LineNumber", StringComparison.Ordinal);
+        return (k > 0 ? message[..k] : message).TrimEnd('.', ' ');
+    }
+
+    /// <summary>Moves to the next token; the end of the file here is an error.</summary>
+    public void Read()
+    {
+        try
+        {
+            if (!R.Read()) throw Error($"file ends before the {_whole} is complete", "the file may be truncated", _bytes.Length);
+        }
+        catch (JsonException e)
+        {
+            throw SyntaxError(e, $"the file may be truncated or not a {_whole} file");
+        }
+    }
+
+    /// <summary>Skips the current value (an object or array with everything inside it).</summary>
+    public void Skip()
+    {
+        try { R.Skip(); }
+        catch (JsonException e) { throw SyntaxError(e); }
+    }
+
+    /// <summary>Refuses anything but whitespace and comments after the top-level value.</summary>
+    public void ExpectEnd()
+    {
+        try
+        {
+            if (R.Read()) throw Error($"text after the end of the {_whole} object");
+        }
+        catch (JsonException e) { throw SyntaxError(e); }
+    }
+
+    public readonly void Expect(JsonTokenType type, string what)
+    {
+        if (R.TokenType != type) throw Error($"expected {what}, found {Describe(R.TokenType)}");
+    }
+
+    public static string Describe(JsonTokenType t) => t switch
+    {
+        JsonTokenType.StartObject => "an object",
+        JsonTokenType.StartArray => "an array",
+        JsonTokenType.String => "a string",
+        JsonTokenType.Number => "a number",
+        JsonTokenType.True or JsonTokenType.False => "true/false",
+        JsonTokenType.Null => "null",
+        JsonTokenType.EndArray => "the end of an array",
+        JsonTokenType.EndObject => "the end of an object",
+        JsonTokenType.PropertyName => "a field name",
+        _ => t.ToString(),
+    };
+
+    /// <summary>The current string token; invalid UTF-8 inside it is emit's error, not the JSON reader's.</summary>
+    public readonly string Text()
+    {
+        try { return R.GetString()!; }
+        catch (InvalidOperationException) { throw Error("text is not valid UTF-8", "save the file as UTF-8"); }
+    }
+
+    /// <summary>Reads a string value for <paramref name="field"/>.</summary>
+    public string String(string field)
+    {
+        Read();
+        Expect(JsonTokenType.String, $"a string for {field}");
+        return Text();
+    }
+
+    /// <summary>Reads a finite number for <paramref name="field"/>.</summary>
+    public double Number(string field)
+    {
+        Read();
+        Expect(JsonTokenType.Number, $"a number for {field}");
+        if (!R.TryGetDouble(out double d) || !double.IsFinite(d))
+            throw Error($"{field} is not a finite number", "every number must be finite");
+        return d;
+    }
+
+    /// <summary>Reads a whole number in [<paramref name="min"/>, <paramref name="max"/>] for <paramref name="field"/>.</summary>
+    public int Integer(string field, int min, int max)
+    {
+        Read();
+        Expect(JsonTokenType.Number, $"an integer for {field}");
+        if (!R.TryGetInt64(out long v))
+            throw Error($"{field} must be a whole number");
+        if (v < min || v > max)
+            throw Error($"{field} = {v} is out of range", $"use {min} to {max}");
+        return (int)v;
+    }
+}
