@@ -24,37 +24,50 @@ public static class OutputFolder
     }
 
     /// <summary>Writes <paramref name="files"/> into <paramref name="folder"/>; returns the paths written.</summary>
-    public static IReadOnlyList<string> Write(string folder, IReadOnlyList<GeneratedFile> files, bool force)
+    public static IReadOnlyList<string> Write(string folder, IReadOnlyList<GeneratedFile> files, bool force) =>
+        WriteAll([(folder, files)], force);
+
+    /// <summary>
+    /// Writes several folders' files as one step: every check for every folder first, then every file to a temporary
+    /// name, then the renames; returns the paths written.
+    /// </summary>
+    public static IReadOnlyList<string> WriteAll(IReadOnlyList<(string Folder, IReadOnlyList<GeneratedFile> Files)> groups, bool force)
     {
-        var paths = files.Select(f => Path.Combine(folder, f.FileName)).ToArray();
-        foreach (var path in paths)
-            if (Directory.Exists(path))
-                throw new EmitException("a folder has the name of an output file", "move it away or choose another --out folder", path);
+        var items = groups.SelectMany(g => g.Files.Select(f => (g.Folder, File: f, Path: Path.Combine(g.Folder, f.FileName)))).ToArray();
+        foreach (var item in items)
+            if (Directory.Exists(item.Path))
+                throw new EmitException("a folder has the name of an output file", "move it away or choose another --out folder", item.Path);
         if (!force)
-            foreach (var path in paths)
-                if (File.Exists(path) && !IsGeneratedByEmit(path))
-                    throw new EmitException("would overwrite a file that emit did not generate", "move it away, choose another --out folder, or use --force", path);
+            foreach (var item in items)
+                if (File.Exists(item.Path) && !IsGeneratedByEmit(item.Path))
+                    throw new EmitException("would overwrite a file that emit did not generate", "move it away, choose another --out folder, or use --force", item.Path);
         // Two phases: every file to a temporary name first, then the renames, so a failure while writing (a full disk,
         // a read-only folder) leaves none of the old files replaced.
         var temps = new List<string>();
+        string current = "";
         try
         {
-            Directory.CreateDirectory(folder);
-            for (int k = 0; k < files.Count; k++)
+            foreach (var item in items)
             {
-                var tmp = Path.Combine(folder, "." + files[k].FileName + "." + Environment.ProcessId + ".tmp");
+                current = item.Folder;
+                Directory.CreateDirectory(item.Folder);
+                var tmp = Path.Combine(item.Folder, "." + item.File.FileName + "." + Environment.ProcessId + ".tmp");
                 temps.Add(tmp);
-                File.WriteAllText(tmp, files[k].Text, Utf8NoBom);
+                File.WriteAllText(tmp, item.File.Text, Utf8NoBom);
             }
-            for (int k = 0; k < files.Count; k++) File.Move(temps[k], paths[k], overwrite: true);
+            for (int k = 0; k < items.Length; k++)
+            {
+                current = items[k].Folder;
+                File.Move(temps[k], items[k].Path, overwrite: true);
+            }
         }
-        catch (IOException e) { throw new EmitException($"cannot write: {e.Message}", "check the folder is writable and has space", folder); }
-        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot write: {e.Message}", "check permissions", folder); }
+        catch (IOException e) { throw new EmitException($"cannot write: {e.Message}", "check the folder is writable and has space", current); }
+        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot write: {e.Message}", "check permissions", current); }
         finally
         {
             foreach (var tmp in temps)
                 if (File.Exists(tmp)) File.Delete(tmp);
         }
-        return paths;
+        return items.Select(i => i.Path).ToArray();
     }
 }

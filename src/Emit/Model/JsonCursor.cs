@@ -48,11 +48,18 @@ public ref struct JsonCursor
     /// <summary>An error at byte <paramref name="offset"/>, given as line and column.</summary>
     public readonly EmitException Error(string problem, string? hint, long offset)
     {
+        var (line, column) = Position(offset);
+        return new EmitException(problem, hint, _source, line, column);
+    }
+
+    /// <summary>Line and column (both from 1) of byte <paramref name="offset"/>.</summary>
+    public readonly (long Line, long Column) Position(long offset)
+    {
         long line = 1, lastNl = -1;
         long end = Math.Min(offset, _bytes.Length);
         for (int k = 0; k < end; k++)
             if (_bytes[k] == (byte)'\n') { line++; lastNl = k; }
-        return new EmitException(problem, hint, _source, line, offset - lastNl);
+        return (line, offset - lastNl);
     }
 
     /// <summary>The JSON library's syntax error as emit's error.</summary>

@@ -1,5 +1,6 @@
 using System.Text;
 using Emit.Model;
+using Emit.Project;
 using Emit.Vectors;
 using FsCheck;
 using FsCheck.Fluent;
@@ -45,7 +46,7 @@ public static class MutationArbitraries
 }
 
 /// <summary>
-/// Issue 6 §1: mutated model and vector files (truncation, bit flips, replaced bytes, inserted tokens, deleted runs,
+/// Issue 6 §1: mutated model, project and vector files (truncation, bit flips, replaced bytes, inserted tokens, deleted runs,
 /// edited counts). The only outcomes allowed are a valid result or the tool's own error type with the file named.
 /// </summary>
 [Properties(Arbitrary = [typeof(MutationArbitraries)], MaxTest = 2000)]
@@ -68,6 +69,37 @@ public sealed class MutationProperties
         catch (EmitException e)
         {
             return e.File == "m.json" && !e.OneLine().Contains('\n');
+        }
+    }
+
+    private static readonly string ProjectFolder = Emit.Tests.Project.ProjectFileTests.FolderWithModel();
+
+    private static readonly byte[] ProjectBytes = Encoding.UTF8.GetBytes("""
+        {
+          "format": "emit.project",
+          "version": 1,
+          "scorers": [
+            { "model": "m.json", "targets": ["c", "csharp"], "numeric": "f64", "name": "plant", "out": "gen/f64" },
+            { "model": "m.json", "numeric": "fixed", "weights": "int8", "accumulator": "auto", "softplus_table": 512,
+              "selftest_vectors": 4, "namespace": "Plant.Monitoring", "out": "gen/q" }
+          ]
+        }
+        """);
+
+    [Property]
+    public bool Mutated_project_files_parse_or_fail_cleanly(Mutation[] edits)
+    {
+        var bytes = edits.Aggregate(ProjectBytes, (b, m) => m.Apply(b));
+        try
+        {
+            var project = ProjectFile.Parse(bytes, "p.json", ProjectFolder);
+            // What parses is usable: at least one scorer, each with a valid name, an existing model and known targets.
+            return project.Scorers.Count > 0 && project.Scorers.All(s =>
+                File.Exists(s.ModelPath) && s.Options.Targets.Count > 0 && System.Text.RegularExpressions.Regex.IsMatch(s.Options.Name, "^[A-Za-z_][A-Za-z0-9_]*$"));
+        }
+        catch (EmitException e)
+        {
+            return e.File == "p.json" && !e.OneLine().Contains('\n');
         }
     }
 

@@ -1,0 +1,34 @@
+using Emit.Emission;
+using Emit.Model;
+
+namespace Emit.Project;
+
+/// <summary>
+/// Generates every scorer of a project: all are compiled in memory first, and only when every one succeeded are the
+/// files written, all folders in one step (<see cref="OutputFolder.WriteAll"/>), so a failing project changes nothing.
+/// </summary>
+public static class ProjectBuilder
+{
+    /// <summary>Compiles the project's scorers and writes them; returns the paths written.</summary>
+    public static IReadOnlyList<string> Build(EmitProject project, bool force)
+    {
+        var groups = new List<(string Folder, IReadOnlyList<GeneratedFile> Files)>();
+        var models = new Dictionary<string, BoltzmannModel>(StringComparer.Ordinal);
+        for (int k = 0; k < project.Scorers.Count; k++)
+        {
+            var scorer = project.Scorers[k];
+            try
+            {
+                if (!models.TryGetValue(scorer.ModelPath, out var model))
+                    models[scorer.ModelPath] = model = ModelLoader.Load(scorer.ModelPath);
+                groups.Add((scorer.OutDirectory, ScorerCompiler.Compile(model, Path.GetFileName(scorer.ModelPath), scorer.Options)));
+            }
+            catch (EmitException e) when (e.File is null)
+            {
+                // An option the compiler refused: name the project entry it came from.
+                throw new EmitException($"scorers[{k}] ({scorer.Options.Name}): {e.Problem}", e.Hint, project.Path, scorer.Line);
+            }
+        }
+        return OutputFolder.WriteAll(groups, force);
+    }
+}

@@ -1,0 +1,258 @@
+using System.Text.Json;
+using Emit.Emission;
+using Emit.Model;
+using Emit.Quantize;
+
+namespace Emit.Project;
+
+/// <summary>
+/// Reads the project file format version 1 (<c>"format": "emit.project"</c>; docs/project-file.md): a list of scorers,
+/// each a model plus the options of <c>emit compile</c>, so that one command regenerates every output the same way.
+/// Paths are relative to the project file's folder. Errors name the line and column of the offending token.
+/// </summary>
+public static class ProjectFile
+{
+    public const string FormatName = "emit.project";
+    public const int FormatVersion = 1;
+
+    /// <summary>Largest project file accepted (bytes); refused before reading.</summary>
+    public const long MaxFileBytes = 1024 * 1024;
+
+    /// <summary>Most scorers one project may list.</summary>
+    public const int MaxScorers = 256;
+
+    /// <summary>Reads and checks a project file; errors carry <paramref name="path"/>.</summary>
+    public static EmitProject Read(string path)
+    {
+        byte[] bytes;
+        try
+        {
+            var info = new FileInfo(path);
+            if (!info.Exists) throw new EmitException("file not found", "check the path", path);
+            if (info.Length > MaxFileBytes) throw new EmitException($"file is {info.Length} bytes, more than the {MaxFileBytes} a project file may be", null, path);
+            bytes = File.ReadAllBytes(path);
+        }
+        catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+        return Parse(bytes, path, Path.GetDirectoryName(Path.GetFullPath(path))!);
+    }
+
+    /// <summary>
+    /// Parses project JSON from UTF-8 bytes (a leading byte-order mark is accepted); relative paths are taken from
+    /// <paramref name="baseDirectory"/>, and every model file must exist there.
+    /// </summary>
+    public static EmitProject Parse(ReadOnlySpan<byte> utf8, string source, string baseDirectory)
+    {
+        var parser = new Parser(JsonCursor.Content(utf8, source, "a JSON project object"), source, baseDirectory);
+        return parser.ParseProject();
+    }
+
+    private ref struct Parser
+    {
+        private JsonCursor _c;
+        private readonly string _base;
+
+        public Parser(ReadOnlySpan<byte> bytes, string source, string baseDirectory)
+        {
+            _c = new JsonCursor(bytes, source, "project");
+            _base = baseDirectory;
+        }
+
+        public EmitProject ParseProject()
+        {
+            _c.Read();
+            _c.Expect(JsonTokenType.StartObject, "a JSON object");
+            var seen = new HashSet<string>(StringComparer.Ordinal);
+            string? format = null;
+            int? version = null;
+            List<ProjectScorer>? scorers = null;
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndObject) break;
+                _c.Expect(JsonTokenType.PropertyName, "a field name");
+                string key = _c.Text();
+                if (!seen.Add(key)) throw _c.Error($"field \"{Naming.CommentText(key)}\" appears twice");
+                switch (key)
+                {
+                    case "format":
+                        format = _c.String(key);
+                        if (format != FormatName) throw _c.Error($"format \"{Naming.CommentText(format)}\" is not \"{FormatName}\"", "this is not an emit project file");
+                        break;
+                    case "version":
+                        _c.Read();
+                        _c.Expect(JsonTokenType.Number, "a version number");
+                        if (!_c.R.TryGetInt32(out int ver) || ver != FormatVersion)
+                            throw _c.Error("this version is not supported", $"this emit reads version {FormatVersion}");
+                        version = ver;
+                        break;
+                    case "scorers":
+                        scorers = Scorers();
+                        break;
+                    default:
+                        throw _c.Error($"unknown field \"{Naming.CommentText(key)}\"", "a project has format, version and scorers (docs/project-file.md)");
+                }
+            }
+            _c.ExpectEnd();
+            if (format is null) throw _c.Error("missing field \"format\"", $"add \"format\": \"{FormatName}\"", 0);
+            if (version is null) throw _c.Error("missing field \"version\"", $"add \"version\": {FormatVersion}", 0);
+            if (scorers is null) throw _c.Error("missing field \"scorers\"", "list the scorers to generate", 0);
+            return new EmitProject(_c.Source, scorers);
+        }
+
+        private List<ProjectScorer> Scorers()
+        {
+            _c.Read();
+            _c.Expect(JsonTokenType.StartArray, "an array of scorers");
+            long start = _c.R.TokenStartIndex;
+            var list = new List<ProjectScorer>();
+            var outputs = new Dictionary<string, int>(OperatingSystem.IsWindows() ? StringComparer.OrdinalIgnoreCase : StringComparer.Ordinal);
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndArray) break;
+                if (list.Count == MaxScorers) throw _c.Error($"more than {MaxScorers} scorers", "split the project");
+                long offset = _c.R.TokenStartIndex;
+                var scorer = Scorer(list.Count, offset);
+                // Two scorers must not write the same file: the second would silently replace the first.
+                foreach (var target in scorer.Options.Targets)
+                    foreach (var ext in Targets.Find(target)!.Extensions)
+                    {
+                        var file = Path.Combine(scorer.OutDirectory, scorer.Options.Name + ext);
+                        if (outputs.TryGetValue(file, out int other))
+                            throw _c.Error($"scorers[{list.Count}] writes {Naming.CommentText(Path.GetFileName(file))} in the same folder as scorers[{other}]",
+                                "give one of them another name or out folder", offset);
+                        outputs[file] = list.Count;
+                    }
+                list.Add(scorer);
+            }
+            if (list.Count == 0) throw _c.Error("scorers is empty", "list at least one scorer", start);
+            return list;
+        }
+
+        private ProjectScorer Scorer(int index, long offset)
+        {
+            _c.Expect(JsonTokenType.StartObject, $"an object for scorers[{index}]");
+            string at = $"scorers[{index}]";
+            var seen = new HashSet<string>(StringComparer.Ordinal);
+            string? model = null, name = null, ns = null, outDir = null, templates = null;
+            long nameOffset = 0;
+            List<string>? targets = null;
+            NumericMode numeric = NumericMode.F32;
+            int selfTest = CompileOptions.DefaultSelfTestVectors;
+            WeightType weights = WeightType.Int16;
+            AccumulatorType? accumulator = null;
+            int table = FixedPointOptions.DefaultTableSize;
+            (string Key, long Offset)? fixedOnly = null; // the first fixed-point field, refused unless numeric is fixed
+            long nsOffset = 0;
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndObject) break;
+                _c.Expect(JsonTokenType.PropertyName, "a field name");
+                string key = _c.Text();
+                long keyOffset = _c.R.TokenStartIndex;
+                if (!seen.Add(key)) throw _c.Error($"field \"{Naming.CommentText(key)}\" appears twice in {at}");
+                string field = at + "." + key;
+                switch (key)
+                {
+                    case "model":
+                        model = PathValue(field);
+                        if (!File.Exists(model)) throw _c.Error($"{field}: model file not found: {Naming.CommentText(model)}", "paths are relative to the project file's folder");
+                        break;
+                    case "name":
+                        name = _c.String(field);
+                        nameOffset = _c.R.TokenStartIndex;
+                        break;
+                    case "targets":
+                        targets = StringArray(field);
+                        break;
+                    case "numeric":
+                        {
+                            var text = _c.String(field);
+                            numeric = NumericModeNames.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use f32, f64 or fixed");
+                            break;
+                        }
+                    case "namespace":
+                        ns = _c.String(field);
+                        nsOffset = _c.R.TokenStartIndex;
+                        break;
+                    case "out": outDir = PathValue(field); break;
+                    case "templates":
+                        templates = PathValue(field);
+                        if (!Directory.Exists(templates)) throw _c.Error($"{field}: folder not found: {Naming.CommentText(templates)}", "paths are relative to the project file's folder");
+                        break;
+                    case "selftest_vectors": selfTest = _c.Integer(field, 1, CompileOptions.MaxSelfTestVectors); break;
+                    case "weights":
+                        {
+                            var text = _c.String(field);
+                            weights = WeightTypeInfo.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use int8, int16 or int32");
+                            fixedOnly ??= (key, keyOffset);
+                            break;
+                        }
+                    case "accumulator":
+                        {
+                            var text = _c.String(field);
+                            accumulator = text == "auto" ? null
+                                : AccumulatorTypeInfo.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use auto, int32 or int64");
+                            fixedOnly ??= (key, keyOffset);
+                            break;
+                        }
+                    case "softplus_table":
+                        table = _c.Integer(field, FixedPointOptions.MinTableSize, FixedPointOptions.MaxTableSize);
+                        if (!System.Numerics.BitOperations.IsPow2(table)) throw _c.Error($"{field} = {table} is not a power of two", $"use a power of two from {FixedPointOptions.MinTableSize} to {FixedPointOptions.MaxTableSize}");
+                        fixedOnly ??= (key, keyOffset);
+                        break;
+                    default:
+                        throw _c.Error($"unknown field \"{Naming.CommentText(key)}\" in {at}",
+                            "a scorer has model, name, targets, numeric, namespace, out, templates, selftest_vectors, and for numeric fixed weights, accumulator, softplus_table");
+                }
+            }
+            if (model is null) throw _c.Error($"{at} has no model", "add \"model\": \"path/to/model.json\"", offset);
+            if (fixedOnly is { } f && numeric != NumericMode.Fixed)
+                throw _c.Error($"{at}.{f.Key} applies to numeric fixed only", "add \"numeric\": \"fixed\" or leave the field out", f.Offset);
+            name ??= Naming.ScorerNameFromFile(model);
+            try { Naming.CheckScorerName(name); }
+            catch (EmitException e) { throw _c.Error($"{at}: {e.Problem}", e.Hint, nameOffset == 0 ? offset : nameOffset); }
+            try { Naming.CheckNamespace(ns ?? CompileOptions.DefaultNamespace); }
+            catch (EmitException e) { throw _c.Error($"{at}: {e.Problem}", e.Hint, nsOffset); }
+            targets ??= ["c"];
+            if (targets.Count == 0) throw _c.Error($"{at}.targets is empty", $"use one or more of: {Targets.NameList}", offset);
+            foreach (var t in targets)
+                if (Targets.Find(t) is null) throw _c.Error($"{at}.targets: unknown target \"{Naming.CommentText(t)}\"", $"use one or more of: {Targets.NameList}", offset);
+            var fixedOptions = numeric == NumericMode.Fixed ? new FixedPointOptions(weights, accumulator, table) : null;
+            var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name, ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions);
+            return new ProjectScorer(model, outDir ?? Path.Combine(_base, "out"), options, _c.Position(offset).Line);
+        }
+
+        /// <summary>A path value, made absolute against the project folder; control characters and NUL are refused.</summary>
+        private string PathValue(string field)
+        {
+            var text = _c.String(field);
+            if (text.Length == 0) throw _c.Error($"{field} is empty", "give a path");
+            if (text.Any(char.IsControl) || text.IndexOfAny(Path.GetInvalidPathChars()) >= 0)
+                throw _c.Error($"{field} holds characters a path cannot have");
+            try { return Path.GetFullPath(text, _base); }
+            catch (Exception e) when (e is ArgumentException or NotSupportedException or PathTooLongException)
+            {
+                throw _c.Error($"{field} is not a usable path: {e.Message}");
+            }
+        }
+
+        private List<string> StringArray(string field)
+        {
+            _c.Read();
+            _c.Expect(JsonTokenType.StartArray, $"an array of strings for {field}");
+            var list = new List<string>();
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndArray) break;
+                _c.Expect(JsonTokenType.String, $"a string in {field}");
+                if (list.Count == 16) throw _c.Error($"{field} lists more than 16 entries");
+                list.Add(_c.Text());
+            }
+            return list;
+        }
+    }
+}
