@@ -33,6 +33,20 @@ public ref struct JsonCursor
     /// <summary>The bytes being read.</summary>
     public readonly ReadOnlySpan<byte> Bytes => _bytes;
 
+    /// <summary>The bytes of a file of at most <paramref name="maxBytes"/>, refused before reading when larger.</summary>
+    public static byte[] ReadFile(string path, long maxBytes, string what)
+    {
+        try
+        {
+            var info = new FileInfo(path);
+            if (!info.Exists) throw new EmitException("file not found", "check the path", path);
+            if (info.Length > maxBytes) throw new EmitException($"file is {info.Length} bytes, more than {what} may be ({maxBytes})", null, path);
+            return File.ReadAllBytes(path);
+        }
+        catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+    }
+
     /// <summary>Strips a UTF-8 byte-order mark; refuses an empty or blank file.</summary>
     public static ReadOnlySpan<byte> Content(ReadOnlySpan<byte> utf8, string source, string expected)
     {

@@ -19,20 +19,7 @@ public static class ModelJson
     public const long MaxFileBytes = 2L * 1024 * 1024 * 1024 - 1;
 
     /// <summary>Reads a model JSON file; errors carry <paramref name="path"/>.</summary>
-    public static BoltzmannModel Read(string path)
-    {
-        byte[] bytes;
-        try
-        {
-            var info = new FileInfo(path);
-            if (!info.Exists) throw new EmitException("file not found", "check the path", path);
-            if (info.Length > MaxFileBytes) throw new EmitException($"file is {info.Length} bytes, more than a model file may be", null, path);
-            bytes = File.ReadAllBytes(path);
-        }
-        catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
-        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
-        return Parse(bytes, path);
-    }
+    public static BoltzmannModel Read(string path) => Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a model file"), path);
 
     /// <summary>Parses model JSON from UTF-8 bytes (a leading byte-order mark is accepted).</summary>
     public static BoltzmannModel Parse(ReadOnlySpan<byte> utf8, string source)

@@ -22,20 +22,8 @@ public static class ProjectFile
     public const int MaxScorers = 256;
 
     /// <summary>Reads and checks a project file; errors carry <paramref name="path"/>.</summary>
-    public static EmitProject Read(string path)
-    {
-        byte[] bytes;
-        try
-        {
-            var info = new FileInfo(path);
-            if (!info.Exists) throw new EmitException("file not found", "check the path", path);
-            if (info.Length > MaxFileBytes) throw new EmitException($"file is {info.Length} bytes, more than the {MaxFileBytes} a project file may be", null, path);
-            bytes = File.ReadAllBytes(path);
-        }
-        catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
-        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
-        return Parse(bytes, path, Path.GetDirectoryName(Path.GetFullPath(path))!);
-    }
+    public static EmitProject Read(string path) =>
+        Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a project file"), path, Path.GetDirectoryName(Path.GetFullPath(path))!);
 
     /// <summary>
     /// Parses project JSON from UTF-8 bytes (a leading byte-order mark is accepted); relative paths are taken from

@@ -168,6 +168,6 @@ public sealed class ProjectFileTests
         using (var f = File.Create(path)) f.SetLength(ProjectFile.MaxFileBytes + 1); // sparse: nothing is written
         var e = Assert.Throws<EmitException>(() => ProjectFile.Read(path));
         Assert.Equal(path, e.File);
-        Assert.Contains("more than the", e.Problem);
+        Assert.Contains("more than a project file may be", e.Problem);
     }
 }
