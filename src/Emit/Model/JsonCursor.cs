@@ -116,6 +116,38 @@ public ref struct JsonCursor
         catch (JsonException e) { throw SyntaxError(e); }
     }
 
+    /// <summary>
+    /// Moves to the next field of the current object and returns false at its end; a field named twice is refused
+    /// (<paramref name="within"/> names the object in that message, or null for the top level).
+    /// </summary>
+    public bool NextField(HashSet<string> seen, string? within, out string key)
+    {
+        Read();
+        key = "";
+        if (R.TokenType == JsonTokenType.EndObject) return false;
+        Expect(JsonTokenType.PropertyName, "a field name");
+        key = Text();
+        if (!seen.Add(key)) throw Error($"field \"{key}\" appears twice" + (within is null ? "" : " in " + within));
+        return true;
+    }
+
+    /// <summary>Reads the value of a <c>format</c> field, which must be <paramref name="expected"/>.</summary>
+    public void Format(string expected, string hint)
+    {
+        var format = String("format");
+        if (format != expected) throw Error($"format \"{format}\" is not \"{expected}\"", hint);
+    }
+
+    /// <summary>Reads the value of a <c>version</c> field, which must be <paramref name="supported"/>.</summary>
+    public int Version(int supported)
+    {
+        Read();
+        Expect(JsonTokenType.Number, "a version number");
+        if (!R.TryGetInt32(out int version) || version != supported)
+            throw Error($"version {System.Text.Encoding.UTF8.GetString(R.ValueSpan)} is not supported", $"this emit reads version {supported}");
+        return version;
+    }
+
     public readonly void Expect(JsonTokenType type, string what)
     {
         if (R.TokenType != type) throw Error($"expected {what}, found {Describe(R.TokenType)}");

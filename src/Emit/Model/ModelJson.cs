@@ -166,26 +166,17 @@ public static class ModelJson
             string? metadata = null;
             long sizeOffset = 0;
 
-            while (true)
+            while (_c.NextField(seen, null, out string key))
             {
-                _c.Read();
-                if (_c.R.TokenType == JsonTokenType.EndObject) break;
-                _c.Expect(JsonTokenType.PropertyName, "a field name");
-                string key = _c.Text();
                 long keyOffset = _c.R.TokenStartIndex;
-                if (!seen.Add(key)) throw _c.Error($"field \"{key}\" appears twice");
                 switch (key)
                 {
                     case "format":
-                        format = _c.String(key);
-                        if (format != FormatName) throw _c.Error($"format \"{format}\" is not \"{FormatName}\"", "this is not an emit model file; .npz files are read by extension");
+                        _c.Format(FormatName, "this is not an emit model file; .npz files are read by extension");
+                        format = FormatName;
                         break;
                     case "version":
-                        _c.Read();
-                        _c.Expect(JsonTokenType.Number, "a version number");
-                        if (!_c.R.TryGetInt32(out int ver) || ver != FormatVersion)
-                            throw _c.Error($"version {Encoding.UTF8.GetString(_c.R.ValueSpan)} is not supported", $"this emit reads version {FormatVersion}");
-                        version = ver;
+                        version = _c.Version(FormatVersion);
                         break;
                     case "kind":
                         {

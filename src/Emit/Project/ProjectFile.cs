@@ -54,25 +54,16 @@ public static class ProjectFile
             string? format = null;
             int? version = null;
             List<ProjectScorer>? scorers = null;
-            while (true)
+            while (_c.NextField(seen, null, out string key))
             {
-                _c.Read();
-                if (_c.R.TokenType == JsonTokenType.EndObject) break;
-                _c.Expect(JsonTokenType.PropertyName, "a field name");
-                string key = _c.Text();
-                if (!seen.Add(key)) throw _c.Error($"field \"{Naming.CommentText(key)}\" appears twice");
                 switch (key)
                 {
                     case "format":
-                        format = _c.String(key);
-                        if (format != FormatName) throw _c.Error($"format \"{Naming.CommentText(format)}\" is not \"{FormatName}\"", "this is not an emit project file");
+                        _c.Format(FormatName, "this is not an emit project file");
+                        format = FormatName;
                         break;
                     case "version":
-                        _c.Read();
-                        _c.Expect(JsonTokenType.Number, "a version number");
-                        if (!_c.R.TryGetInt32(out int ver) || ver != FormatVersion)
-                            throw _c.Error("this version is not supported", $"this emit reads version {FormatVersion}");
-                        version = ver;
+                        version = _c.Version(FormatVersion);
                         break;
                     case "scorers":
                         scorers = Scorers();
@@ -133,14 +124,9 @@ public static class ProjectFile
             int table = FixedPointOptions.DefaultTableSize;
             (string Key, long Offset)? fixedOnly = null; // the first fixed-point field, refused unless numeric is fixed
             long nsOffset = 0;
-            while (true)
+            while (_c.NextField(seen, at, out string key))
             {
-                _c.Read();
-                if (_c.R.TokenType == JsonTokenType.EndObject) break;
-                _c.Expect(JsonTokenType.PropertyName, "a field name");
-                string key = _c.Text();
                 long keyOffset = _c.R.TokenStartIndex;
-                if (!seen.Add(key)) throw _c.Error($"field \"{Naming.CommentText(key)}\" appears twice in {at}");
                 string field = at + "." + key;
                 switch (key)
                 {

@@ -86,7 +86,7 @@ public sealed class ProjectFileTests
         { "\u0001\u0002garbage", "^", "not valid JSON" },
         { "[]", "^", "expected a JSON object" },
         { "{\"format\": \"emit.model\", \"version\": 1, \"scorers\": []}", "\"emit.model\"", "is not \"emit.project\"" },
-        { "{\"format\": \"emit.project\", \"version\": 2, \"scorers\": []}", "2", "version is not supported" },
+        { "{\"format\": \"emit.project\", \"version\": 2, \"scorers\": []}", "2", "version 2 is not supported" },
         { "{\"format\": \"emit.project\", \"format\": \"emit.project\"}", "\"format\": \"emit.project\"}", "\"format\" appears twice" },
         { Head + "\"extra\": 1}", "\"extra\"", "unknown field \"extra\"" },
         { "{\"version\": 1, \"scorers\": [{\"model\": \"m.json\"}]}", "^", "missing field \"format\"" },
