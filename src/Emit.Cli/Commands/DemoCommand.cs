@@ -71,6 +71,7 @@ public sealed class DemoCommand : ICliCommand
         foreach (var g in faults.Select((name, i) => (name, flagged: faulty[i] > threshold)).GroupBy(x => x.name).OrderByDescending(g => g.Count(x => x.flagged) / (double)g.Count()))
             o.WriteLine($"               {g.Key,-32} {g.Count(x => x.flagged),3} / {g.Count(),-3}");
         CompileAndVerify(o, model, P(DemoData.ModelFileName), P(DemoData.NormalFileName));
+        Recalibrate(o, model, normal, P(DemoData.NormalFileName), P(DemoData.FaultyFileName));
         o.WriteLine();
         o.WriteLine("Caution: this detector is a monitoring aid, not a safety function; defer to local codes and licensed practice.");
     }
@@ -119,6 +120,25 @@ public sealed class DemoCommand : ICliCommand
         finally
         {
             try { Directory.Delete(dir, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+        }
+    }
+
+    /// <summary>
+    /// Step 6: what an integrator checks before shipping a recalibration: the same model with its threshold at the 99th
+    /// percentile of the normal logs, compared with the shipped one by <c>emit diff</c> on both logs.
+    /// </summary>
+    private static void Recalibrate(TextWriter o, BoltzmannModel model, List<double> normal, string normalPath, string faultyPath)
+    {
+        var sorted = normal.Order().ToArray();
+        double t99 = sorted[(int)Math.Ceiling(0.99 * sorted.Length) - 1];
+        var candidate = model.With(t99, model.LogPartition);
+        o.WriteLine($"6. diff      a recalibration with the threshold at the 99th percentile of {Path.GetFileName(normalPath)} ({t99.ToString("F3", CultureInfo.InvariantCulture)}), " +
+                    "against the shipped model (emit diff OLD NEW --input DATA):");
+        foreach (var path in new[] { normalPath, faultyPath })
+        {
+            using var reader = VectorReader.Open(path, model.Visible);
+            var d = ModelDiff.Compare(model, candidate, reader).Decisions!;
+            o.WriteLine($"             {Path.GetFileName(path)}: {d.NewlyUnusual} newly unusual, {d.NoLongerUnusual} no longer unusual, {d.BothUnusual + d.BothUsual} unchanged");
         }
     }
 

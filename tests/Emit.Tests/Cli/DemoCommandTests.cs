@@ -27,6 +27,14 @@ public sealed class DemoCommandTests
             Assert.Contains("5. verify    skipped: target c: C compiler \"cc\" not found (install the Debian package gcc", r.Out);
         else
             Assert.Matches(@"5\. verify    emit verify --target c over normal\.csv: 2000 vectors[^\n]*\n\s+max \|error\| \S+ nats.*: pass\n", r.Out);
+        // the recalibration compared with emit diff on both logs; every vector is counted once
+        Assert.Matches(@"6\. diff      a recalibration", r.Out);
+        foreach (var (file, rows) in new[] { ("normal", 2000), ("faulty", 400) })
+        {
+            var m = System.Text.RegularExpressions.Regex.Match(r.Out, file + @"\.csv: (\d+) newly unusual, (\d+) no longer unusual, (\d+) unchanged");
+            Assert.True(m.Success, r.Out);
+            Assert.Equal(rows, Enumerable.Range(1, 3).Sum(g => int.Parse(m.Groups[g].Value, System.Globalization.CultureInfo.InvariantCulture)));
+        }
     }
 
     [Fact]
