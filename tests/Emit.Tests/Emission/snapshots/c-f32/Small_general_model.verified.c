@@ -24,8 +24,8 @@
 #endif
 typedef char small_general_check_float_is_32_bits[(sizeof(float) == 4u) ? 1 : -1];
 
-/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
-#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast16_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
+/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic for loop bounds (32 bits, so VISIBLE + 7 cannot wrap). */
+#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast32_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
 
 /* ==== tables ==== */
 

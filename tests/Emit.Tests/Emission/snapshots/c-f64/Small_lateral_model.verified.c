@@ -24,8 +24,8 @@
 #endif
 typedef char plant_check_double_is_64_bits[(sizeof(double) == 8u) ? 1 : -1];
 
-/* PLANT_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
-#define PLANT_PACKED_BYTES_U (((uint_fast16_t)PLANT_VISIBLE + 7u) >> 3u)
+/* PLANT_PACKED_BYTES in unsigned arithmetic for loop bounds (32 bits, so VISIBLE + 7 cannot wrap). */
+#define PLANT_PACKED_BYTES_U (((uint_fast32_t)PLANT_VISIBLE + 7u) >> 3u)
 
 /* ==== tables ==== */
 

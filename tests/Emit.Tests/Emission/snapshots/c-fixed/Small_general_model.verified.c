@@ -41,8 +41,8 @@
 /* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative, in this type. */
 typedef uint32_t small_general_uacc_t;
 
-/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic, for loop bounds. */
-#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast16_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
+/* SMALL_GENERAL_PACKED_BYTES in unsigned arithmetic for loop bounds (32 bits, so VISIBLE + 7 cannot wrap). */
+#define SMALL_GENERAL_PACKED_BYTES_U (((uint_fast32_t)SMALL_GENERAL_VISIBLE + 7u) >> 3u)
 
 /* ==== tables ==== */
 
