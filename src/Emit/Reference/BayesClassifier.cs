@@ -1,0 +1,72 @@
+using Emit.Model;
+
+namespace Emit.Reference;
+
+/// <summary>
+/// Bayes' rule across several models of the same status flags (one per operating mode or fault class, each trained on
+/// its own data): P(k | v) = π_k p_k(v) / Σ_m π_m p_m(v), with log p_k(v) = −F_k(v) − log Z_k. Every model needs its
+/// log partition function (<c>emit logz MODEL --store</c>); the sum is taken in log space, so no term underflows.
+/// </summary>
+public sealed class BayesClassifier
+{
+    private readonly ReferenceScorer[] _scorers;
+    private readonly double[] _offset; // log π_k − log Z_k
+
+    /// <param name="models">The models, at least two, all with the same number of visible units and a stored log Z.</param>
+    /// <param name="labels">A name per model, for messages.</param>
+    /// <param name="priors">Prior weights (positive; normalised here), or null for equal priors.</param>
+    public BayesClassifier(IReadOnlyList<BoltzmannModel> models, IReadOnlyList<string> labels, IReadOnlyList<double>? priors = null)
+    {
+        if (models.Count < 2) throw new EmitException("Bayes' rule needs at least two models", "give one model per class");
+        if (labels.Count != models.Count) throw new ArgumentException("one label per model", nameof(labels));
+        for (int k = 1; k < models.Count; k++)
+            if (models[k].Visible != models[0].Visible)
+                throw new EmitException($"{labels[k]} has {models[k].Visible} visible units and {labels[0]} has {models[0].Visible}",
+                    "every model must describe the same status flags", labels[k]);
+        for (int k = 0; k < models.Count; k++)
+            if (models[k].LogPartition is null)
+                throw new EmitException("the model has no log_partition, so p(v) is unknown", "run emit logz MODEL --store first", labels[k]);
+        if (priors is not null)
+        {
+            if (priors.Count != models.Count)
+                throw new EmitException($"{priors.Count} priors for {models.Count} models", "give one prior per model, in the same order");
+            if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
+                throw new EmitException("every prior must be a positive finite number", "priors are relative weights, e.g. 0.9,0.1");
+        }
+        double total = priors?.Sum() ?? models.Count;
+        _scorers = models.Select(m => new ReferenceScorer(m)).ToArray();
+        _offset = models.Select((m, k) => Math.Log((priors?[k] ?? 1.0) / total) - m.LogPartition!.Value).ToArray();
+        Visible = models[0].Visible;
+    }
+
+    /// <summary>Number of classes (models).</summary>
+    public int Classes => _scorers.Length;
+
+    /// <summary>Visible units of every model.</summary>
+    public int Visible { get; }
+
+    /// <summary>
+    /// Posteriors of <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>: row r's P(k | v) at
+    /// <c>posterior[r * Classes + k]</c>.
+    /// </summary>
+    public void Posteriors(byte[] units, int rows, double[] posterior)
+    {
+        if (posterior.Length < (long)rows * Classes) throw new ArgumentException("buffer too small", nameof(posterior));
+        var f = new double[rows];
+        for (int k = 0; k < Classes; k++)
+        {
+            _scorers[k].FreeEnergies(units, rows, f);
+            for (int r = 0; r < rows; r++) posterior[r * Classes + k] = _offset[k] - f[r]; // log π_k + log p_k(v)
+        }
+        for (int r = 0; r < rows; r++)
+        {
+            var row = posterior.AsSpan(r * Classes, Classes);
+            double max = double.NegativeInfinity;
+            foreach (var x in row) max = Math.Max(max, x);
+            double sum = 0;
+            foreach (var x in row) sum += Math.Exp(x - max);
+            double logNorm = max + Math.Log(sum);
+            for (int k = 0; k < Classes; k++) row[k] = Math.Exp(row[k] - logNorm);
+        }
+    }
+}
