@@ -39,14 +39,7 @@ public sealed class ClassifyCommand : ICliCommand
             var classifier = new BayesClassifier(models, files.Select(f => f.FullName).ToArray(), ParsePriors(parse.GetValue(_priors)));
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), classifier.Visible, ctx.In);
             VectorNames.Check(models[0], reader);
-            if (parse.GetValue(_output) is { } output)
-                AtomicFile.Write(output.FullName, stream =>
-                {
-                    using var w = new StreamWriter(stream, new UTF8Encoding(false), 1 << 16) { NewLine = "\n" };
-                    Write(classifier, labels, reader, w);
-                });
-            else
-                Write(classifier, labels, reader, ctx.Out);
+            TextOutput.Write(parse.GetValue(_output), ctx.Out, w => Write(classifier, labels, reader, w));
             return CliApp.Ok;
         });
         return cmd;
@@ -78,7 +71,7 @@ public sealed class ClassifyCommand : ICliCommand
 
     private static void Write(BayesClassifier classifier, string[] labels, VectorReader reader, TextWriter w)
     {
-        const int batch = 4096;
+        const int batch = ScoreCommand.BatchRows;
         int c = classifier.Classes;
         w.WriteLine("index,best," + string.Join(",", labels.Select(l => "p_" + l)));
         var units = new byte[batch * classifier.Visible];

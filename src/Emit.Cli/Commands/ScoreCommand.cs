@@ -31,19 +31,7 @@ public sealed class ScoreCommand : ICliCommand
             var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
             VectorNames.Check(model, reader);
-            var output = parse.GetValue(_output);
-            if (output is null)
-            {
-                Score(model, reader, ctx.Out);
-            }
-            else
-            {
-                AtomicFile.Write(output.FullName, stream =>
-                {
-                    using var w = new StreamWriter(stream, new UTF8Encoding(false), 1 << 16) { NewLine = "\n" };
-                    Score(model, reader, w);
-                });
-            }
+            TextOutput.Write(parse.GetValue(_output), ctx.Out, w => Score(model, reader, w));
             return CliApp.Ok;
         });
         return cmd;

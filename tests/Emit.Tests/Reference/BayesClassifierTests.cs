@@ -80,6 +80,11 @@ public sealed class BayesClassifierTests
             Assert.Equal(labels[Array.IndexOf(expected, expected.Max())], cells[1]);
             for (int k = 0; k < 3; k++) Assert.Equal(expected[k], double.Parse(cells[2 + k], CultureInfo.InvariantCulture), 12);
         }
+        var csv = Path.Combine(dir, "posteriors.csv");
+        var toFile = CliRunner.Run(["classify", .. paths, "--input", data, "--priors", "2,1,1", "--output", csv]);
+        Assert.True(toFile.ExitCode == 0, toFile.Error);
+        Assert.Equal(r.Out, File.ReadAllText(csv));
+        Assert.Equal("", toFile.Out);
         Assert.Equal(2, CliRunner.Run("classify", paths[0], "--input", data).ExitCode);                  // one model
         Assert.Equal(2, CliRunner.Run(["classify", .. paths, "--input", data, "--priors", "1,x,1"]).ExitCode);
     }
