@@ -30,7 +30,7 @@ static BoltzmannModel RandomRbm(int v, int h, int seed, double scale)
 // 1. Reference scoring throughput, 784×500, 13% active bits.
 const int V = 784, H = 500, Rows = 20000;
 var model = RandomRbm(V, H, 1, 0.05);
-ModelJson.WriteFile(model, Path.Combine(dir, "model-784x500.json"));
+ModelJson.WriteFile(model, Path.Combine(dir, "model-784x500.json"), force: true);
 var rng = new Random(2);
 var units = new byte[Rows * V];
 for (int k = 0; k < units.Length; k++) units[k] = (byte)(rng.NextDouble() < 0.13 ? 1 : 0);

@@ -9,7 +9,7 @@ namespace Emit.Cli;
 /// </summary>
 public static class ErrorPlot
 {
-    public static void Write(VerifyReport report, string path)
+    public static void Write(VerifyReport report, string path, bool force)
     {
         var inv = CultureInfo.InvariantCulture;
         var plt = new ScottPlot.Plot();
@@ -48,13 +48,7 @@ public static class ErrorPlot
         plt.XLabel("log10 |error| (nats)");
         plt.YLabel("vectors");
         plt.ShowLegend();
-        try
-        {
-            var dir = Path.GetDirectoryName(Path.GetFullPath(path));
-            if (dir is not null) Directory.CreateDirectory(dir);
-            plt.SavePng(path, 900, 500);
-        }
-        catch (IOException e) { throw new EmitException($"cannot write: {e.Message}", "check the folder exists and is writable", path); }
-        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot write: {e.Message}", "check permissions", path); }
+        var png = plt.GetImage(900, 500).GetImageBytes(ScottPlot.ImageFormat.Png);
+        AtomicFile.Write(path, force, s => s.Write(png));
     }
 }

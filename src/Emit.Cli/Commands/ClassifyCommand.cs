@@ -22,6 +22,7 @@ public sealed class ClassifyCommand : ICliCommand
 
     private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
     private readonly Option<string?> _priors = new("--priors") { Description = "Prior weight of each model, comma-separated, in model order (default: equal)" };
+    private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output)" };
 
     public Command Build(CliContext ctx)
@@ -29,7 +30,7 @@ public sealed class ClassifyCommand : ICliCommand
         _models.AcceptExistingOnly();
         var cmd = new Command("classify", "Bayes' rule across several models: the posterior probability of each model (class) for every vector")
         {
-            _models, _input, _priors, _output,
+            _models, _input, _priors, _output, _force,
         };
         cmd.SetAction(parse =>
         {
@@ -39,7 +40,7 @@ public sealed class ClassifyCommand : ICliCommand
             var classifier = new BayesClassifier(models, files.Select(f => f.FullName).ToArray(), ParsePriors(parse.GetValue(_priors)));
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), classifier.Visible, ctx.In);
             VectorNames.Check(models[0], reader);
-            TextOutput.Write(parse.GetValue(_output), ctx.Out, w => Write(classifier, labels, reader, w));
+            TextOutput.Write(parse.GetValue(_output), parse.GetValue(_force), ctx.Out, w => Write(classifier, labels, reader, w));
             return CliApp.Ok;
         });
         return cmd;

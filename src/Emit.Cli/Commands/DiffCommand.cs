@@ -19,6 +19,7 @@ public sealed class DiffCommand : ICliCommand
     private readonly Argument<FileInfo> _old = new Argument<FileInfo>("OLD") { Description = "The model in use (.json or .npz)" }.AcceptExistingOnly();
     private readonly Argument<FileInfo> _new = new Argument<FileInfo>("NEW") { Description = "The model to replace it (.json or .npz)" }.AcceptExistingOnly();
     private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _json = new("--json") { Description = "Also write the comparison as JSON to this file" };
     private readonly Option<bool> _failOnChange = new("--fail-on-decision-change")
     {
@@ -29,7 +30,7 @@ public sealed class DiffCommand : ICliCommand
     {
         var cmd = new Command("diff", "Compare two versions of a model on the same vectors: free-energy change, ranking agreement, changed decisions")
         {
-            _old, _new, _input, _json, _failOnChange,
+            _old, _new, _input, _json, _failOnChange, _force,
         };
         cmd.SetAction(parse =>
         {
@@ -46,7 +47,7 @@ public sealed class DiffCommand : ICliCommand
             var report = ModelDiff.Compare(oldModel, newModel, reader);
             WriteText(ctx.Out, report, Path.GetFileName(oldPath), Path.GetFileName(newPath));
             if (parse.GetValue(_json) is { } json)
-                AtomicFile.WriteAllText(json.FullName, JsonText(report, Path.GetFileName(oldPath), Path.GetFileName(newPath)));
+                AtomicFile.WriteAllText(json.FullName, JsonText(report, Path.GetFileName(oldPath), Path.GetFileName(newPath)), parse.GetValue(_force));
             return failOnChange && report.Decisions!.Changed > 0 ? CliApp.CheckFailed : CliApp.Ok;
         });
         return cmd;

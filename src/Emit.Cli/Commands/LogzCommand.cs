@@ -47,7 +47,7 @@ public sealed class LogzCommand : ICliCommand
                 : Exact(ctx, model);
             if (store)
             {
-                ModelJson.WriteFile(model.With(model.Threshold, new LogPartition(logZ, method, stderr)), path);
+                ModelJson.WriteFile(model.With(model.Threshold, new LogPartition(logZ, method, stderr)), path, force: true);
                 ctx.Error.WriteLine($"emit: stored log_partition in {path}");
             }
             if (parse.GetValue(_json))

@@ -17,6 +17,7 @@ public sealed class ScoreCommand : ICliCommand
 
     private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
     private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output)" };
 
     public Command Build(CliContext ctx)
@@ -24,14 +25,14 @@ public sealed class ScoreCommand : ICliCommand
         _model.AcceptExistingOnly();
         var cmd = new Command("score", "Score vectors with the double-precision reference: free energy, log-probability (when the model has log Z) and the unusual flag (when it has a threshold)")
         {
-            _model, _input, _output,
+            _model, _input, _output, _force,
         };
         cmd.SetAction(parse =>
         {
             var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
             VectorNames.Check(model, reader);
-            TextOutput.Write(parse.GetValue(_output), ctx.Out, w => Score(model, reader, w));
+            TextOutput.Write(parse.GetValue(_output), parse.GetValue(_force), ctx.Out, w => Score(model, reader, w));
             return CliApp.Ok;
         });
         return cmd;

@@ -14,6 +14,7 @@ public sealed class VectorsCommand : ICliCommand
 
     private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
     private readonly Option<int> _count = new("--count", "-n") { Description = "Number of vectors", Required = true };
+    private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo> _out = new("--out", "-o") { Description = "CSV file to write", Required = true };
     private readonly Option<ulong> _seed = new("--seed") { Description = "Random seed (same seed, same file)", DefaultValueFactory = _ => 1UL };
     private readonly Option<string?> _from = new("--from") { Description = "Vector file to draw some rows from (its first 100000 rows)" };
@@ -26,7 +27,7 @@ public sealed class VectorsCommand : ICliCommand
         var cmd = new Command("vectors",
             "Generate test vectors: all-off, all-on, each hidden unit's input maximiser and minimiser, pairs across the threshold, Gibbs samples from the model, rows of DATA")
         {
-            _model, _count, _out, _seed, _from, _burnIn,
+            _model, _count, _out, _seed, _from, _burnIn, _force,
         };
         cmd.SetAction(parse =>
         {
@@ -41,7 +42,7 @@ public sealed class VectorsCommand : ICliCommand
             }
             var set = TestVectorSet.Generate(model, new TestVectorOptions(parse.GetValue(_count), parse.GetValue(_seed), parse.GetValue(_burnIn)), data);
             var path = parse.GetRequiredValue(_out).FullName;
-            AtomicFile.Write(path, stream =>
+            AtomicFile.Write(path, parse.GetValue(_force), stream =>
             {
                 using var w = new StreamWriter(stream, new UTF8Encoding(false));
                 var vw = new VectorWriter(w, model.Names);

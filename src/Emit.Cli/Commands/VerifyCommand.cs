@@ -26,6 +26,7 @@ public sealed class VerifyCommand : ICliCommand
     private readonly FixedPointOptionSet _fixed = new();
     private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated") { Description = "Check the sources emit compile wrote to this folder instead of generating them" }.AcceptExistingOnly();
     private readonly Option<string?> _name = new("--name") { Description = "Scorer name (default: the one scorer in --generated, else from the model file name)" };
+    private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report") { Description = "Write the JSON report here (see docs/verify-report.md)" };
     private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Write a JUnit XML report here, one testcase per target" };
     private readonly Option<FileInfo?> _plot = new("--plot") { Description = "Write a PNG histogram of the errors per target here" };
@@ -38,7 +39,7 @@ public sealed class VerifyCommand : ICliCommand
     {
         var cmd = new Command("verify", "Run the generated scorer on host C, .NET and an emulated Cortex-M3 and compare it with the reference scorer");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _report, _junit, _plot, _cc, _cflags, _timeout, _work })
+        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.SetAction(parse => Run(ctx, parse));
@@ -74,7 +75,7 @@ public sealed class VerifyCommand : ICliCommand
         ReportText.Write(report, ctx.Out);
         if (parse.GetValue(_report) is { } json)
         {
-            AtomicFile.Write(json.FullName, s =>
+            AtomicFile.Write(json.FullName, parse.GetValue(_force), s =>
             {
                 using var w = new System.Text.Json.Utf8JsonWriter(s, new System.Text.Json.JsonWriterOptions
                 {
@@ -90,12 +91,12 @@ public sealed class VerifyCommand : ICliCommand
         }
         if (parse.GetValue(_junit) is { } junit)
         {
-            AtomicFile.Write(junit.FullName, s => ReportJUnit.Write(report, s));
+            AtomicFile.Write(junit.FullName, parse.GetValue(_force), s => ReportJUnit.Write(report, s));
             ctx.Out.WriteLine($"wrote {junit.FullName}");
         }
         if (parse.GetValue(_plot) is { } plot)
         {
-            ErrorPlot.Write(report, plot.FullName);
+            ErrorPlot.Write(report, plot.FullName, parse.GetValue(_force));
             ctx.Out.WriteLine($"wrote {plot.FullName}");
         }
         return report.Passed ? CliApp.Ok : CliApp.CheckFailed;

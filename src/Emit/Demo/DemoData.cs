@@ -87,7 +87,7 @@ public static class DemoData
         foreach (var (name, text) in Render(data))
         {
             var path = Path.Combine(folder, name);
-            AtomicFile.WriteAllText(path, text);
+            AtomicFile.WriteAllText(path, text, force: true);
             written.Add(path);
         }
         return written;

@@ -38,7 +38,7 @@ public static class ModelJson
         Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(Canonical(model))));
 
     /// <summary>Writes the model to <paramref name="path"/> atomically (temporary file, then rename).</summary>
-    public static void WriteFile(BoltzmannModel model, string path) => AtomicFile.WriteAllText(path, ToText(model));
+    public static void WriteFile(BoltzmannModel model, string path, bool force) => AtomicFile.WriteAllText(path, ToText(model), force);
 
     /// <summary>Shortest text that parses back to the same double, invariant culture.</summary>
     public static string Number(double d) => d.ToString("R", CultureInfo.InvariantCulture);

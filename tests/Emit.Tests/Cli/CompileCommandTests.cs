@@ -18,7 +18,7 @@ public sealed class CompileCommandTests
     private static string ModelFile(string dir, string fileName, BoltzmannModel model)
     {
         var path = Path.Combine(dir, fileName);
-        ModelJson.WriteFile(model, path);
+        ModelJson.WriteFile(model, path, force: true);
         return path;
     }
 
@@ -203,15 +203,17 @@ public sealed class CompileCommandTests
         string Snapshot() => string.Join("\n--\n", Directory.GetFileSystemEntries(outDir).Order().Select(p => p + (File.Exists(p) ? "\n" + File.ReadAllText(p) : "/")));
         var other = ModelFile(dir, "other.json", TestModels.Random(ModelKind.Rbm, 5, 2, seed: 3));
 
-        // the second file's temporary name is taken by a folder: writing fails before anything is renamed
-        var blocker = Path.Combine(outDir, ".m.c." + Environment.ProcessId + ".tmp");
-        Directory.CreateDirectory(blocker);
+        // writing the second file fails (as on a full disk) before anything is renamed
         var before = Snapshot();
-        var (exit, _, err) = Emit("compile", other, "--name", "m", "--out", outDir);
+        var failing = Path.Combine(outDir, "m.c");
+        AtomicFile.BeforeTempWrite = p => { if (p == failing) throw new IOException("No space left on device (test)"); };
+        int exit;
+        string err;
+        try { (exit, _, err) = Emit("compile", other, "--name", "m", "--out", outDir); }
+        finally { AtomicFile.BeforeTempWrite = null; }
         Assert.Equal(2, exit);
         Assert.StartsWith("emit: error: ", err);
         Assert.Equal(before, Snapshot());
-        Directory.Delete(blocker);
 
         // an output name taken by a folder is refused before anything is written
         File.Delete(Path.Combine(outDir, "m.c"));
@@ -219,7 +221,7 @@ public sealed class CompileCommandTests
         before = Snapshot();
         (exit, _, err) = Emit("compile", other, "--name", "m", "--out", outDir);
         Assert.Equal(2, exit);
-        Assert.Contains("a folder has the name of an output file", err);
+        Assert.Contains("the output is a folder", err);
         Assert.Equal(before, Snapshot());
     }
 }

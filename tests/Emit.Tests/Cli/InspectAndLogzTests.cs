@@ -8,7 +8,7 @@ public sealed class InspectAndLogzTests
     private static string WriteModel(BoltzmannModel m)
     {
         var path = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(m, path);
+        ModelJson.WriteFile(m, path, force: true);
         return path;
     }
 
@@ -85,7 +85,7 @@ public sealed class LogzAisCliTests
     {
         var m = TestModels.Random(ModelKind.Rbm, 10, 6, 8, scale: 0.4);
         var path = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(m, path);
+        ModelJson.WriteFile(m, path, force: true);
         var r = CliRunner.Run("logz", path, "--method", "ais", "--chains", "100", "--steps", "400", "--json", "--store");
         Assert.Equal(0, r.ExitCode);
         var doc = JsonDocument.Parse(r.Out).RootElement;
@@ -107,7 +107,7 @@ public sealed class InspectFixedPointTests
         // Exhaustive: all 2^10 vectors, integer simulator against the double reference.
         var m = TestModels.Random(ModelKind.Lateral, 10, 6, 3, scale: 0.6, linkDensity: 0.2);
         var path = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(m, path);
+        ModelJson.WriteFile(m, path, force: true);
         var r = CliRunner.Run("inspect", path, "--numeric", "fixed", "--weights", weights, "--json");
         Assert.Equal(0, r.ExitCode);
         var doc = JsonDocument.Parse(r.Out).RootElement;
@@ -131,7 +131,7 @@ public sealed class InspectFixedPointTests
     public void Inspect_states_the_predicted_cortex_m0_flash_and_stack()
     {
         var path = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 50, 20, 1), path);
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 50, 20, 1), path, force: true);
         var json = JsonDocument.Parse(CliRunner.Run("inspect", path, "--numeric", "fixed", "--json").Out).RootElement.GetProperty("fixed_point");
         long flash = json.GetProperty("predicted_flash_bytes").GetInt64();
         long stack = json.GetProperty("predicted_stack_bytes").GetInt64();
@@ -146,7 +146,7 @@ public sealed class InspectFixedPointTests
     public void Bad_fixed_point_options_exit_2()
     {
         var path = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 4, 2, 1), path);
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 4, 2, 1), path, force: true);
         Assert.Equal(2, CliRunner.Run("inspect", path, "--numeric", "fixed", "--softplus-table", "100").ExitCode);
         Assert.Equal(2, CliRunner.Run("inspect", path, "--numeric", "fixed", "--weights", "int4").ExitCode);
     }

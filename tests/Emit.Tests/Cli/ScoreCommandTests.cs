@@ -15,7 +15,7 @@ public sealed class ScoreCommandTests
         m = m.With(threshold: 4.0, logPartition: new LogPartition(logZ, "exact", 0));
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         var rows = Enumerable.Range(0, 32).Select(b => TestModels.Bits(b, 5)).ToList();
         var data = Path.Combine(dir, "v.csv");
         File.WriteAllLines(data, rows.Select(r => string.Join(",", r)));
@@ -44,7 +44,7 @@ public sealed class ScoreCommandTests
     {
         var m = TestModels.Random(ModelKind.Rbm, 3, 2, 1);
         var model = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         var r = CliRunner.RunWithInput("0 1 1\n1 0 0\n", "score", model, "--input", "-");
         Assert.Equal(0, r.ExitCode);
         var lines = r.Out.TrimEnd('\n').Split('\n');
@@ -58,7 +58,7 @@ public sealed class ScoreCommandTests
         var m = TestModels.Random(ModelKind.Rbm, 3, 2, 1);
         m = new BoltzmannModel(m.Kind, 3, 2, m.VisibleBias, m.HiddenBias, m.Weights, names: ImmutableArray.Create("a", "b", "c"));
         var model = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         var r = CliRunner.RunWithInput("a,c,b\n0,1,1\n", "score", model, "--input", "-");
         Assert.Equal(2, r.ExitCode);
         Assert.Contains("stdin:1", r.Error);
@@ -71,7 +71,7 @@ public sealed class ScoreCommandTests
         var m = TestModels.Random(ModelKind.Rbm, 3, 2, 1);
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         var outPath = Path.Combine(dir, "out.csv");
         var r = CliRunner.RunWithInput("0,1,1\n0,2,1\n", "score", model, "--input", "-", "--output", outPath);
         Assert.Equal(2, r.ExitCode);

@@ -14,7 +14,7 @@ public sealed class VectorsCommandTests
             names: ImmutableArray.Create("door, rear", "fan \"hi\"", "c", "d", "e", "f"), threshold: 0.0);
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         var a = CliRunner.Run("vectors", model, "--count", "50", "--out", Path.Combine(dir, "a.csv"), "--seed", "4");
         var b = CliRunner.Run("vectors", model, "--count", "50", "--out", Path.Combine(dir, "b.csv"), "--seed", "4");
         Assert.Equal(0, a.ExitCode);
@@ -34,7 +34,7 @@ public sealed class VectorsCommandTests
     public void Count_below_one_is_a_usage_error()
     {
         var model = Path.Combine(CliRunner.TempDir(), "m.json");
-        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 3, 2, 1), model);
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 3, 2, 1), model, force: true);
         var r = CliRunner.Run("vectors", model, "--count", "0", "--out", "x.csv");
         Assert.Equal(2, r.ExitCode);
     }

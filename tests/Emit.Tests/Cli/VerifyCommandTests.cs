@@ -22,7 +22,7 @@ public sealed class VerifyCommandTests
     {
         var dir = Toolchain.TempDir(what);
         var path = Path.Combine(dir, "plant.json");
-        ModelJson.WriteFile(model, path);
+        ModelJson.WriteFile(model, path, force: true);
         var vectors = VerifyCases.WriteVectors(dir, TestVectorSet.Generate(model, new TestVectorOptions(count, Seed: 3)).Select(v => v.Units));
         return (dir, path, vectors);
     }
@@ -263,7 +263,7 @@ public sealed class VerifyCommandTests
         Compile(modelA, gen, "c", "f32");
         var b = a.With(threshold: 1.5, null);       // the same numbers, another identity
         var modelB = Path.Combine(dir, "plant-recalibrated.json");
-        ModelJson.WriteFile(b, modelB);
+        ModelJson.WriteFile(b, modelB, force: true);
         var json = Path.Combine(dir, "r.json");
         var r = CliRunner.Run("verify", modelB, "--input", vectors, "--generated", gen, "--name", "plant", "--report", json);
         Assert.True(r.ExitCode == 0, r.Out + r.Error);

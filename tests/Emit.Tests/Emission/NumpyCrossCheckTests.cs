@@ -28,7 +28,7 @@ public sealed class NumpyCrossCheckTests
     private static double[] Numpy(string dir, BoltzmannModel model, IReadOnlyList<byte[]> vectors)
     {
         var modelPath = Path.Combine(dir, "model.json");
-        ModelJson.WriteFile(model, modelPath);
+        ModelJson.WriteFile(model, modelPath, force: true);
         var vectorPath = Path.Combine(dir, "vectors.txt");
         File.WriteAllText(vectorPath, string.Concat(vectors.Select(v => CodegenCases.Bits(v) + "\n")));
         return Toolchain.RunOk(Python(), [ScriptPath(), modelPath, vectorPath])

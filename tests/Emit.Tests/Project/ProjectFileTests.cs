@@ -14,7 +14,7 @@ public sealed class ProjectFileTests
     internal static string FolderWithModel()
     {
         var dir = Toolchain.TempDir("project");
-        ModelJson.WriteFile(TestModels.Random(ModelKind.Lateral, 10, 4, seed: 3).With(threshold: 2.0, null), Path.Combine(dir, "m.json"));
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Lateral, 10, 4, seed: 3).With(threshold: 2.0, null), Path.Combine(dir, "m.json"), force: true);
         return dir;
     }
 

@@ -63,7 +63,7 @@ public sealed class BayesClassifierTests
         var dir = CliRunner.TempDir();
         var paths = new[] { "idle.json", "defrost.json", "idle.json" }.Select((n, k) => Path.Combine(dir, k == 2 ? "sub" : "", n)).ToArray();
         Directory.CreateDirectory(Path.Combine(dir, "sub"));
-        for (int k = 0; k < 3; k++) ModelJson.WriteFile(Models[k], paths[k]);
+        for (int k = 0; k < 3; k++) ModelJson.WriteFile(Models[k], paths[k], force: true);
         var data = Path.Combine(dir, "v.csv");
         File.WriteAllText(data, "0,0,0,0,0\n1,1,0,1,0\n1,1,1,1,1\n");
         var r = CliRunner.Run(["classify", .. paths, "--input", data, "--priors", "2,1,1"]);

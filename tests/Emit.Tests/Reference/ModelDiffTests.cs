@@ -122,8 +122,8 @@ public sealed class ModelDiffTests
     {
         var dir = CliRunner.TempDir();
         string oldPath = Path.Combine(dir, "old.json"), newPath = Path.Combine(dir, "new.json"), data = Path.Combine(dir, "v.csv");
-        ModelJson.WriteFile(Old, oldPath);
-        ModelJson.WriteFile(WithBias(Old, 4, 0.75), newPath);
+        ModelJson.WriteFile(Old, oldPath, force: true);
+        ModelJson.WriteFile(WithBias(Old, 4, 0.75), newPath, force: true);
         File.WriteAllText(data, string.Concat(Vectors(500, 4).Select(v => string.Join(",", v) + "\n")));
 
         var plain = CliRunner.Run("diff", oldPath, newPath, "--input", data, "--json", Path.Combine(dir, "d.json"));
@@ -137,7 +137,7 @@ public sealed class ModelDiffTests
 
         Assert.Equal(1, CliRunner.Run("diff", oldPath, newPath, "--input", data, "--fail-on-decision-change").ExitCode);
         Assert.Equal(0, CliRunner.Run("diff", oldPath, oldPath, "--input", data, "--fail-on-decision-change").ExitCode);
-        ModelJson.WriteFile(Old.With(null, null), newPath);
+        ModelJson.WriteFile(Old.With(null, null), newPath, force: true);
         var refused = CliRunner.Run("diff", oldPath, newPath, "--input", data, "--fail-on-decision-change");
         Assert.Equal(2, refused.ExitCode);
         Assert.Contains("needs a threshold in both models", refused.Error);

@@ -27,7 +27,7 @@ public sealed class CultureTests
         var m = TestModels.Random(ModelKind.Lateral, 6, 4, 3).With(1.25, new LogPartition(3.5, "exact", 0));
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
-        ModelJson.WriteFile(m, model);
+        ModelJson.WriteFile(m, model, force: true);
         File.WriteAllText(Path.Combine(dir, "v.csv"), "0,1,1,0,1,0\n1,1,1,1,1,1\n");
         string[] Run() =>
         [
