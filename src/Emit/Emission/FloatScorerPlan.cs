@@ -72,6 +72,7 @@ public sealed class FloatScorerPlan : ScorerPlan
 
         if (model.Threshold is { } t) plan.Threshold = Literals.Round(t, mode, "threshold");
         plan.ErrorBound = FloatErrorBound.Worst(model, mode);
+        FloatRangeCheck.Check(model, mode, plan.ErrorBound);
         plan.SelfTest = BuildSelfTest(model, mode, options.SelfTestVectors);
 
         return plan;

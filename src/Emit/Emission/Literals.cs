@@ -34,10 +34,10 @@ public static class Literals
     };
 
     /// <summary>A binary32 literal: <c>0.100000001f</c>, <c>-0.0f</c>, <c>1.0f</c>, <c>1.00000001e-07f</c>.</summary>
-    public static string Float(float value) => WithPoint(value.ToString("G9", CultureInfo.InvariantCulture)) + "f";
+    public static string Float(float value) => WithPoint(Finite(value).ToString("G9", CultureInfo.InvariantCulture)) + "f";
 
     /// <summary>A binary64 literal: <c>0.10000000000000001</c>, <c>1.0</c>, <c>-2.5e-300</c>.</summary>
-    public static string Double(double value) => WithPoint(value.ToString("G17", CultureInfo.InvariantCulture));
+    public static string Double(double value) => WithPoint(Finite(value).ToString("G17", CultureInfo.InvariantCulture));
 
     /// <summary>
     /// The literal of the smallest value of the mode that is &gt;= <paramref name="value"/> (for bounds and
@@ -62,6 +62,13 @@ public static class Literals
         if (f < value) f = MathF.BitIncrement(f);
         return f;
     }
+
+    /// <summary>
+    /// Guards every literal: C99 and C# have no literal for NaN or ±∞ (<c>NaN.0</c> or <c>Infinity.0</c> would not even
+    /// compile), and a non-finite table entry or bound means an earlier check failed.
+    /// </summary>
+    private static T Finite<T>(T value) where T : System.Numerics.IFloatingPointIeee754<T> =>
+        T.IsFinite(value) ? value : throw new EmitException($"{value.ToString(null, CultureInfo.InvariantCulture)} cannot be written as a literal of generated code", "the model's values are too large for this numeric mode");
 
     private static string WithPoint(string text)
     {

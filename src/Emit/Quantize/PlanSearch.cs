@@ -43,11 +43,15 @@ internal sealed class PlanSearch
 
     private readonly double _energyMagnitude;
 
-    /// <summary>Largest f ≤ MaxFractionBits with |round(maxAbs · 2^f)| ≤ wmax.</summary>
+    /// <summary>
+    /// Largest f ≤ MaxFractionBits with |round(maxAbs · 2^f)| ≤ wmax. A magnitude too large for
+    /// <see cref="FixedRounding.Quantize"/> at some f is above any weight type there, so f is lowered without
+    /// quantizing until the product is within 2^63.
+    /// </summary>
     private static int FractionLimit(double maxAbs, long wmax)
     {
         int f = FixedPointPlanner.MaxFractionBits;
-        while (maxAbs > 0 && FixedRounding.Quantize(maxAbs, f) > wmax) f--;
+        while (maxAbs > 0 && (Math.ScaleB(maxAbs, f) >= 9.2233720368547758E18 || FixedRounding.Quantize(maxAbs, f) > wmax)) f--;
         return f;
     }
 
