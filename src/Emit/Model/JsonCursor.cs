@@ -100,9 +100,31 @@ public ref struct JsonCursor
     }
 
     /// <summary>Skips the current value (an object or array with everything inside it).</summary>
-    public void Skip()
+    /// <summary>
+    /// Skips the object or array the reader is at, refusing a field named twice in any object at any depth
+    /// (RFC 8259 §4: names "SHOULD be unique", and readers disagree on which duplicate wins).
+    /// <paramref name="within"/> names the value in that message.
+    /// </summary>
+    public void Skip(string within)
     {
-        try { R.Skip(); }
+        var stack = new Stack<HashSet<string>?>();
+        try
+        {
+            do
+            {
+                switch (R.TokenType)
+                {
+                    case JsonTokenType.StartObject: stack.Push(new HashSet<string>(StringComparer.Ordinal)); break;
+                    case JsonTokenType.StartArray: stack.Push(null); break;
+                    case JsonTokenType.EndObject or JsonTokenType.EndArray: stack.Pop(); break;
+                    case JsonTokenType.PropertyName:
+                        var key = Text();
+                        if (!stack.Peek()!.Add(key)) throw Error($"field \"{key}\" appears twice in {within}");
+                        break;
+                }
+            }
+            while (stack.Count > 0 && R.Read());
+        }
         catch (JsonException e) { throw SyntaxError(e); }
     }
 

@@ -250,7 +250,7 @@ public static class ModelJson
                             long start = _c.R.TokenStartIndex;
                             if (_c.R.TokenType is JsonTokenType.StartObject or JsonTokenType.StartArray)
                             {
-                                _c.Skip();
+                                _c.Skip("metadata");
                             }
                             long end = _c.R.TokenStartIndex + (_c.R.HasValueSequence ? _c.R.ValueSequence.Length : _c.R.ValueSpan.Length) + (_c.R.TokenType == JsonTokenType.String ? 2 : 0);
                             metadata = Encoding.UTF8.GetString(_c.Bytes[(int)start..(int)end]);
@@ -344,11 +344,9 @@ public static class ModelJson
         {
             _c.Expect(JsonTokenType.StartObject, "an object for log_partition");
             double? value = null, stderr = null; string? method = null;
-            while (true)
+            var seen = new HashSet<string>(StringComparer.Ordinal);
+            while (_c.NextField(seen, "log_partition", out string k))
             {
-                _c.Read();
-                if (_c.R.TokenType == JsonTokenType.EndObject) break;
-                string k = _c.Text();
                 switch (k)
                 {
                     case "value": value = _c.Number("log_partition.value"); break;

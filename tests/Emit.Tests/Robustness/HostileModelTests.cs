@@ -118,4 +118,30 @@ public sealed class HostileModelTests
         var r = CliRunner.Run("compile", path, "--numeric", "fixed", "--out", Path.Combine(dir, "out"));
         Assert.Equal(2, r.ExitCode);
     }
+
+    [Theory]
+    [InlineData("\"log_partition\":{\"value\":1.0,\"value\":2.0}", "log_partition")]
+    [InlineData("\"log_partition\":{\"value\":1.0,\"method\":\"exact\",\"method\":\"ais\"}", "log_partition")]
+    [InlineData("\"metadata\":{\"a\":1,\"a\":2}", "metadata")]
+    [InlineData("\"metadata\":{\"a\":[{\"b\":1},{\"b\":1,\"c\":{\"d\":0,\"d\":0}}]}", "metadata")]
+    [InlineData("\"threshold\":1.0,\"threshold\":2.0", "\"threshold\" appears twice")]
+    public void A_field_named_twice_is_refused_at_every_depth(string fields, string expected)
+    {
+        // RFC 8259 §4: object names SHOULD be unique; readers disagree on which duplicate wins, so emit refuses.
+        var json = "{\"format\":\"emit.model\",\"version\":1,\"kind\":\"rbm\",\"visible\":1,\"hidden\":1," +
+            "\"visible_bias\":[0.0],\"hidden_bias\":[0.0],\"weights\":[[0.5]]," + fields + "}";
+        var e = Assert.Throws<EmitException>(() => Emit.Model.ModelJson.Parse(Encoding.UTF8.GetBytes(json), "m.json"));
+        Assert.Contains("twice", e.Message);
+        Assert.Contains(expected, e.Message);
+        Assert.NotNull(e.Line);
+    }
+
+    [Fact]
+    public void Metadata_with_distinct_names_at_every_depth_is_kept()
+    {
+        var json = "{\"format\":\"emit.model\",\"version\":1,\"kind\":\"rbm\",\"visible\":1,\"hidden\":1," +
+            "\"visible_bias\":[0.0],\"hidden_bias\":[0.0],\"weights\":[[0.5]],\"metadata\":{\"a\":{\"a\":[{\"a\":1},{\"a\":2}]}}}";
+        var m = Emit.Model.ModelJson.Parse(Encoding.UTF8.GetBytes(json), "m.json");
+        Assert.Contains("\"a\":2", m.MetadataJson);
+    }
 }
