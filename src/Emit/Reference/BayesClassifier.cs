@@ -33,9 +33,13 @@ public sealed class BayesClassifier
             if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
                 throw new EmitException("every prior must be a positive finite number", "priors are relative weights, e.g. 0.9,0.1");
         }
-        double total = priors?.Sum() ?? models.Count;
+        // log π_k = log w_k − log Σ_m w_m, the sum taken in log space: w = 1e308, 1e308 would overflow a plain Σ.
+        var logW = models.Select((_, k) => Math.Log(priors?[k] ?? 1.0)).ToArray();
+        double logMax = logW.Max(), scaled = 0;
+        foreach (double lw in logW) scaled += Math.Exp(lw - logMax);
+        double logTotal = logMax + Math.Log(scaled);
         _scorers = models.Select(m => new ReferenceScorer(m)).ToArray();
-        _offset = models.Select((m, k) => Math.Log((priors?[k] ?? 1.0) / total) - m.LogPartition!.Value).ToArray();
+        _offset = models.Select((m, k) => logW[k] - logTotal - m.LogPartition!.Value).ToArray();
         Visible = models[0].Visible;
     }
 

@@ -44,6 +44,25 @@ public sealed class BayesClassifierTests
         }
     }
 
+    [Theory]
+    [InlineData(1e308, 1e308, 1e308, 1.0, 1.0, 1.0)]        // Σ w overflows double: the old plain sum gave NaN
+    [InlineData(1e308, 1e308, 1e292, 1.0, 1.0, 1e-16)]
+    [InlineData(1e-320, 1e-320, 2e-320, 1.0, 1.0, 2.0)]     // subnormal weights
+    public void Priors_are_normalised_in_log_space(double w0, double w1, double w2, double r0, double r1, double r2)
+    {
+        // (r0, r1, r2) are the same relative weights at an ordinary scale; the posteriors must not depend on the scale.
+        var classifier = new BayesClassifier(Models, ["a", "b", "c"], [w0, w1, w2]);
+        var units = Enumerable.Range(0, 32).SelectMany(b => TestModels.Bits(b, 5)).ToArray();
+        var post = new double[32 * 3];
+        classifier.Posteriors(units, 32, post);
+        double sum = r0 + r1 + r2;
+        for (int b = 0; b < 32; b++)
+        {
+            var expected = Expected(TestModels.Bits(b, 5), [r0 / sum, r1 / sum, r2 / sum]);
+            for (int k = 0; k < 3; k++) Assert.Equal(expected[k], post[b * 3 + k], 10);
+        }
+    }
+
     [Fact]
     public void Refuses_models_it_cannot_compare()
     {
