@@ -72,7 +72,7 @@ public sealed class ClassifyCommand : ICliCommand
 
     private static void Write(BayesClassifier classifier, string[] labels, VectorReader reader, TextWriter w)
     {
-        const int batch = ScoreCommand.BatchRows;
+        int batch = VectorBatch.Rows(classifier.Visible);
         int c = classifier.Classes;
         w.WriteLine("index,best," + string.Join(",", labels.Select(l => "p_" + l)));
         var units = new byte[batch * classifier.Visible];

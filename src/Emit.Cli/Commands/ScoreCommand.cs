@@ -12,9 +12,6 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class ScoreCommand : ICliCommand
 {
-    /// <summary>Vectors scored per parallel batch.</summary>
-    public const int BatchRows = 4096;
-
     private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
     private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
     private readonly Option<bool> _force = CliOptions.Force();
@@ -44,12 +41,13 @@ public sealed class ScoreCommand : ICliCommand
         var fmt = System.Globalization.CultureInfo.InvariantCulture;
         bool logP = model.LogPartition is not null, flag = model.Threshold is not null;
         w.WriteLine("index,free_energy" + (logP ? ",log_probability" : "") + (flag ? ",unusual" : ""));
-        var units = new byte[BatchRows * model.Visible];
-        var f = new double[BatchRows];
+        int batch = VectorBatch.Rows(model.Visible);
+        var units = new byte[batch * model.Visible];
+        var f = new double[batch];
         long index = 0;
         var line = new StringBuilder();
         int rows;
-        while ((rows = reader.ReadBatch(units, BatchRows)) > 0)
+        while ((rows = reader.ReadBatch(units, batch)) > 0)
         {
             scorer.FreeEnergies(units, rows, f);
             for (int r = 0; r < rows; r++)

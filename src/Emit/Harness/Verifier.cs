@@ -99,7 +99,7 @@ public static class Verifier
         }
 
         var scorer = new ReferenceScorer(model);
-        int batch = request.BatchRows, v = model.Visible, pb = layout.PackedBytes;
+        int v = model.Visible, pb = layout.PackedBytes, batch = Emit.Vectors.VectorBatch.Rows(v, request.BatchRows);
         var units = new byte[batch * v];
         var packed = new byte[batch * pb];
         var reference = new double[batch];

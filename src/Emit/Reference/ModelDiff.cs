@@ -34,16 +34,17 @@ public static class ModelDiff
         bool logP = oldModel.LogPartition is not null && newModel.LogPartition is not null;
 
         int v = oldModel.Visible;
-        var units = new byte[BatchRows * v];
-        var fOld = new double[BatchRows];
-        var fNew = new double[BatchRows];
+        int batch = VectorBatch.Rows(v, BatchRows);
+        var units = new byte[batch * v];
+        var fOld = new double[batch];
+        var fNew = new double[batch];
         long n = 0, bothUsual = 0, bothUnusual = 0, newlyUnusual = 0, noLonger = 0, maxIndex = -1;
         double maxAbs = 0, sumDelta = 0, sumSq = 0;
         // Welford's running moments for the correlation of F_old and F_new.
         double meanOld = 0, meanNew = 0, m2Old = 0, m2New = 0, coMoment = 0;
         var changed = new List<long>();
         int rows;
-        while ((rows = reader.ReadBatch(units, BatchRows)) > 0)
+        while ((rows = reader.ReadBatch(units, batch)) > 0)
         {
             oldScorer.FreeEnergies(units, rows, fOld);
             newScorer.FreeEnergies(units, rows, fNew);
