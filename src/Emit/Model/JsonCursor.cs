@@ -40,11 +40,56 @@ public ref struct JsonCursor
         {
             var info = new FileInfo(path);
             if (!info.Exists) throw new EmitException("file not found", "check the path", path);
+            if (Directory.Exists(path)) throw new EmitException("is a folder, not a file", "name a file", path);
+            // The length is trusted only to refuse early: a device (/dev/zero, /dev/urandom) or a FIFO reports 0 and
+            // may never end, so bytes are counted while reading and the cap applies to what was actually read.
             if (info.Length > maxBytes) throw new EmitException($"file is {info.Length} bytes, more than {what} may be ({maxBytes})", null, path);
-            return File.ReadAllBytes(path);
+            using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, bufferSize: 1);
+            return ReadCapped(stream, maxBytes, what, path);
         }
         catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+    }
+
+    /// <summary>
+    /// Reads <paramref name="stream"/> to its end, refusing it once more than <paramref name="maxBytes"/> bytes have
+    /// arrived. When the first non-blank byte (after an optional byte-order mark) is not '{', reading stops there and
+    /// the bytes so far are returned, for the parser to report at line 1: an endless binary source (/dev/zero) is
+    /// refused at its first chunk instead of after the cap.
+    /// </summary>
+    public static byte[] ReadCapped(Stream stream, long maxBytes, string what, string source)
+    {
+        var buffer = new byte[(int)Math.Min(maxBytes + 1, 1 << 16)];
+        long total = 0;
+        bool sniffed = false;
+        while (true)
+        {
+            if (total == buffer.Length)
+            {
+                long grown = Math.Min(Math.Min(maxBytes + 1, Array.MaxLength), Math.Max(total * 2, 1 << 16));
+                if (total > maxBytes || grown == total)
+                    throw new EmitException($"file is more than {Math.Min(maxBytes, total)} bytes, more than {what} may be", null, source);
+                Array.Resize(ref buffer, (int)grown);
+            }
+            int got = stream.Read(buffer, (int)total, buffer.Length - (int)total);
+            if (got == 0) break;
+            total += got;
+            if (!sniffed && OpensObject(buffer.AsSpan(0, (int)total)) is { } opens)
+            {
+                if (!opens) break;
+                sniffed = true;
+            }
+        }
+        if (total > maxBytes) throw new EmitException($"file is more than {maxBytes} bytes, more than {what} may be", null, source);
+        return buffer.AsSpan(0, (int)total).ToArray();
+    }
+
+    /// <summary>Whether the first non-blank byte is '{', or null while only a byte-order mark and blanks have arrived.</summary>
+    private static bool? OpensObject(ReadOnlySpan<byte> start)
+    {
+        if (start.Length < 3 && "\uFEFF"u8.StartsWith(start)) return null;
+        var rest = (start.StartsWith("\uFEFF"u8) ? start[3..] : start).TrimStart(" \t\r\n"u8);
+        return rest.IsEmpty ? null : rest[0] == (byte)'{';
     }
 
     /// <summary>Strips a UTF-8 byte-order mark; refuses an empty or blank file.</summary>

@@ -38,7 +38,26 @@ public static class NpzModelReader
         catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
         using (stream)
-            return Read(stream, path);
+        {
+            if (stream.CanSeek) return Read(stream, path);
+            // A FIFO (process substitution): a zip archive is read from its end, so the bytes are copied first,
+            // counted as they arrive, since nothing bounds a FIFO in advance.
+            using var copy = new MemoryStream();
+            var chunk = new byte[1 << 16];
+            int got;
+            try
+            {
+                while ((got = stream.Read(chunk)) > 0)
+                {
+                    if (copy.Length + got > ModelJson.MaxFileBytes)
+                        throw new EmitException($"file is more than {ModelJson.MaxFileBytes} bytes, more than an .npz model may be", null, path);
+                    copy.Write(chunk, 0, got);
+                }
+            }
+            catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+            copy.Position = 0;
+            return Read(copy, path);
+        }
     }
 
     /// <summary>Reads the model from a seekable stream holding an .npz archive; <paramref name="file"/> is named in errors.</summary>
