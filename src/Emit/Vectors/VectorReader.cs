@@ -9,13 +9,15 @@ namespace Emit.Vectors;
 /// <list type="bullet">
 /// <item>Each value is <c>0</c> or <c>1</c>. Values are separated by commas (spaces or tabs around them are allowed)
 /// or by spaces/tabs; the first non-blank line decides which, for the whole file.</item>
-/// <item>An optional first line of unit names (a header) is recognised because it is not all 0/1 values. Names may
+/// <item>An optional first line of unit names (a header) is recognised because none of its fields looks like a value
+/// (a number or true/false once blanks are stripped; see docs/vector-files.md). Names may
 /// be double-quoted (<c>"door, rear"</c>, with <c>""</c> for a quote), must not be empty, and must number one per
 /// value. A first line of numbers only is a header just when it is the column numbers 0..n-1 or 1..n; otherwise it
 /// is read as data, so a mistyped first vector is reported rather than taken for names.</item>
 /// <item>Lines end with LF or CRLF; a UTF-8 byte-order mark at the start is skipped; leading and trailing spaces
 /// and tabs are ignored; blank lines (empty or only spaces/tabs) are skipped anywhere and do not count as
 /// vectors, but do count in the line numbers of errors.</item>
+/// <item>A header with no vectors after it is an error, as an empty file is.</item>
 /// <item>A line ending in a comma, an empty value (<c>0,,1</c>), a value other than 0 or 1, or the wrong number of
 /// values is an <see cref="EmitException"/> naming the file, line and column (columns count characters from 1).</item>
 /// <item>The path <c>-</c> reads standard input.</item>
@@ -100,7 +102,7 @@ public sealed class VectorReader : IDisposable
         var first = _buffer.AsSpan(start, length);
         Separator = first.Contains((byte)',') ? VectorSeparator.Comma : VectorSeparator.Whitespace;
         int count = 0;
-        bool allBinary = true, allNumeric = true, fromZero = true, fromOne = true;
+        bool allBinary = true, allNumeric = true, fromZero = true, fromOne = true, anyValueLike = false;
         var fields = new Fields(first, Separator == VectorSeparator.Comma);
         while (fields.Next(out int s, out int e) is var kind && kind != FieldKind.End)
         {
@@ -111,12 +113,16 @@ public sealed class VectorReader : IDisposable
                 allNumeric &= token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0;
                 fromZero &= IsInteger(token, count);
                 fromOne &= IsInteger(token, count + 1);
+                anyValueLike |= LooksLikeValue(token);
                 count++;
             }
         }
-        // A first line of numbers is data with a mistake in it, unless it is the column numbers 0..n-1 or 1..n
-        // some tools write as a header; reading it as data reports the bad value with its column.
-        if (allBinary || (allNumeric && !fromZero && !fromOne))
+        // The first line is a header only when it is the column numbers 0..n-1 or 1..n that some tools write, or
+        // when none of its fields looks like a value (a number or true/false, once white space and control
+        // characters of any kind are stripped). Anything else is data, so a mistyped first vector ("0,1,0\v",
+        // "1,true,0") is reported with its column instead of being taken for names and silently dropped.
+        bool columnNumbers = allNumeric && !allBinary && (fromZero || fromOne);
+        if (!columnNumbers && (allBinary || allNumeric || anyValueLike))
         {
             _pendingStart = start;
             _pendingLength = length;
@@ -170,6 +176,9 @@ public sealed class VectorReader : IDisposable
         }
         else if (!NextLine(out start, out length))
         {
+            // One rule for every command: a file of names only is as empty as an empty file.
+            if (RowsRead == 0 && HeaderLine > 0)
+                throw new EmitException("file has a header but no vectors", "write one vector of 0/1 values per line after the header", Source, HeaderLine);
             return false;
         }
         ParseRow(_buffer.AsSpan(start, length), units);
@@ -347,6 +356,26 @@ public sealed class VectorReader : IDisposable
     }
 
     // ---- header ----------------------------------------------------------------------------------------------
+
+    /// <summary>
+    /// True when <paramref name="token"/>, stripped of white space and control or format characters (VT, NBSP,
+    /// zero-width space, ...), is a number or a truth value (true/false, yes/no, in any case): something meant as a
+    /// value, not a unit name.
+    /// </summary>
+    private static bool LooksLikeValue(ReadOnlySpan<byte> token)
+    {
+        var text = Encoding.UTF8.GetString(token).AsSpan();
+        static bool Blank(char c) => char.IsWhiteSpace(c) || char.IsControl(c) || char.GetUnicodeCategory(c) == System.Globalization.UnicodeCategory.Format;
+        int a = 0, b = text.Length;
+        while (a < b && Blank(text[a])) a++;
+        while (b > a && Blank(text[b - 1])) b--;
+        var core = text[a..b];
+        if (core.IsEmpty) return false;
+        if (core.IndexOfAnyExcept("0123456789.eE+-") < 0 && core.IndexOfAny("0123456789") >= 0) return true;
+        foreach (var word in (ReadOnlySpan<string>)["true", "false", "yes", "no"])
+            if (core.Equals(word, StringComparison.OrdinalIgnoreCase)) return true;
+        return false;
+    }
 
     private ImmutableArray<string> ParseHeader(ReadOnlySpan<byte> line)
     {

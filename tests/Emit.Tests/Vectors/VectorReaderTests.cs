@@ -79,6 +79,7 @@ public sealed class VectorReaderTests
     [InlineData("1,0,1.0\n1,1,1\n", 5)]
     public void A_first_line_of_other_numbers_is_a_bad_vector_not_a_header(string text, int column)
     {
+        // column: characters from 1 where the bad value starts
         var e = Fails(text, 3);
         Assert.StartsWith("value '", e.Problem);
         Assert.Equal(1, e.Line);
@@ -102,10 +103,40 @@ public sealed class VectorReaderTests
     }
 
     [Fact]
-    public void Header_only_file_has_no_vectors()
+    public void Header_only_file_is_refused_like_an_empty_file()
     {
-        using var r = Reader("a,b\n", 2);
-        Assert.Empty(ReadAll(r));
+        // One rule for score, classify, diff and verify (docs/vector-files.md): names without vectors are an error.
+        var e = Assert.Throws<EmitException>(() => ReadAll(Reader("a,b\n\n", 2)));
+        Assert.Contains("header but no vectors", e.Problem);
+        Assert.Equal(1, e.Line);
+    }
+
+    [Theory]
+    [InlineData("0,1,0\v\n1,1,1\n", 5)]        // trailing VT on the first vector
+    [InlineData("0,1,0\u00A0\n1,1,1\n", 5)]    // trailing NBSP
+    [InlineData("0,1,\u200B0\n1,1,1\n", 5)]    // zero-width space
+    [InlineData("1,true,0\n1,1,1\n", 3)]
+    [InlineData("1 FALSE 0\n1 1 1\n", 3)]
+    [InlineData("0,1,0.5\n1,1,1\n", 5)]
+    public void A_mistyped_first_vector_is_reported_not_taken_for_a_header(string text, int column)
+    {
+        // column: characters from 1 where the bad value starts
+        var e = Fails(text, 3);
+        Assert.Equal(1, e.Line);
+        Assert.Equal(column, e.Column);
+        Assert.Contains("is not 0 or 1", e.Problem);
+    }
+
+    [Theory]
+    [InlineData("door,fan,alarm\n0,1,0\n")]
+    [InlineData("\"door, rear\",fan 2,\u00E9t\u00E9\n0,1,0\n")]
+    [InlineData("0,1,2\n0,1,0\n")]          // column numbers 0..n-1
+    [InlineData("1,2,3\n0,1,0\n")]          // column numbers 1..n
+    public void A_header_of_names_is_still_a_header(string text)
+    {
+        using var r = Reader(text, 3);
+        Assert.Equal(3, r.Names.Length);
+        Assert.Equal(["010"], ReadAll(r));
     }
 
     [Fact]
