@@ -65,4 +65,16 @@ public sealed class WideModelTests
         Assert.True(r.ExitCode == 0, r.Error + r.Out);
         Assert.Contains("pass", r.Out);
     }
+
+    [Fact]
+    public void Fixed_point_plans_a_model_with_65536_hidden_units()
+    {
+        // The plan search used to form a dense H×H matrix: 65536² wraps an int to 0 (internal error, exit 3).
+        const int h = 1 << 16;
+        var dir = CliRunner.TempDir();
+        var w = Enumerable.Range(0, 4).Select(i => Enumerable.Range(0, h).Select(j => 0.01 * (((i + j) % 7) - 3)).ToArray()).ToArray();
+        var model = HostileModelTests.Rbm(dir, "m.json", [0.1, 0, 0, -0.1], new double[h], w);
+        var r = CliRunner.Run("compile", model, "--numeric", "fixed", "--out", Path.Combine(dir, "out"));
+        Assert.True(r.ExitCode == 0, r.Error);
+    }
 }
