@@ -104,6 +104,7 @@ public sealed class FixedScorerPlan : ScorerPlan
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
             throw new EmitException($"--selftest-vectors {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
         CheckGeneralHidden(model);
+        CheckHiddenStack(model);
         plan ??= FixedPointPlanner.Build(model, options.FixedOptions);
         if (!ReferenceEquals(plan.Model, model) && plan.Model.Sha256 != model.Sha256)
             throw new ArgumentException("the plan belongs to another model", nameof(plan));

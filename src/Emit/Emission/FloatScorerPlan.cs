@@ -40,6 +40,7 @@ public sealed class FloatScorerPlan : ScorerPlan
         var mode = options.Numeric;
         if (!mode.IsFloat()) throw new ArgumentException("float modes only", nameof(options));
         CheckGeneralHidden(model);
+        CheckHiddenStack(model);
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
             throw new EmitException($"--selftest-vectors {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
 

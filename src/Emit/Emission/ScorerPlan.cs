@@ -42,6 +42,24 @@ public abstract class ScorerPlan
                 $"generated code allows hidden <= {FloatScorerPlan.MaxGeneralHidden} for kind general (2^{FloatScorerPlan.MaxGeneralHidden} states); retrain with fewer hidden units or without hidden links");
     }
 
+    /// <summary>
+    /// Most hidden units of a generated scorer. The scorer keeps its HIDDEN accumulators on the stack (C: an automatic
+    /// array; C#: <c>stackalloc</c>): 16384 × 8 bytes = 128 KiB at most, within the smallest common default thread
+    /// stack of a host (1 MiB for a Windows main thread; 8 MiB on Linux, from memory). 2^20 accumulators (8 MiB)
+    /// overflow the stack: the C scorer crashed with SIGSEGV and the C# one aborted.
+    /// </summary>
+    public const int MaxHidden = 16384;
+
+    /// <summary>Refuses a model with more than <see cref="MaxHidden"/> hidden units for generated code.</summary>
+    private protected static void CheckHiddenStack(BoltzmannModel model)
+    {
+        if (model.Hidden > MaxHidden)
+            throw new EmitException(
+                $"the generated scorer keeps one accumulator per hidden unit on the stack; {model.Hidden} hidden units need " +
+                $"{(long)model.Hidden * 8} bytes of stack in the worst case",
+                $"generated code allows hidden <= {MaxHidden} (128 KiB of accumulators); see docs/generated-code.md");
+    }
+
     public BoltzmannModel Model { get; }
     public CompileOptions Options { get; }
     public NumericMode Mode => Options.Numeric;

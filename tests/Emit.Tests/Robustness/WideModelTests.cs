@@ -70,11 +70,28 @@ public sealed class WideModelTests
     public void Fixed_point_plans_a_model_with_65536_hidden_units()
     {
         // The plan search used to form a dense H×H matrix: 65536² wraps an int to 0 (internal error, exit 3).
+        // The planner serves inspect and the bounds; generated code itself stops at ScorerPlan.MaxHidden.
         const int h = 1 << 16;
+        var w = System.Collections.Immutable.ImmutableArray.CreateRange(
+            Enumerable.Range(0, 4 * h).Select(k => 0.01 * ((k / h + k % h) % 7 - 3)));
+        var model = new Emit.Model.BoltzmannModel(Emit.Model.ModelKind.Rbm, 4, h, [0.1, 0, 0, -0.1],
+            System.Collections.Immutable.ImmutableArray.CreateRange(new double[h]), w, [], []);
+        var plan = Emit.Quantize.FixedPointPlanner.Build(model);
+        Assert.True(plan.ErrorBound > 0 && double.IsFinite(plan.ErrorBound));
+    }
+
+    [Theory]
+    [InlineData("f64")]
+    [InlineData("fixed")]
+    public void Generated_code_refuses_more_hidden_units_than_its_stack_allows(string numeric)
+    {
+        // 2^20 accumulators of 8 bytes are 8 MiB of stack: the generated C crashed (SIGSEGV), the C# aborted.
+        const int h = 1 << 20;
         var dir = CliRunner.TempDir();
-        var w = Enumerable.Range(0, 4).Select(i => Enumerable.Range(0, h).Select(j => 0.01 * (((i + j) % 7) - 3)).ToArray()).ToArray();
-        var model = HostileModelTests.Rbm(dir, "m.json", [0.1, 0, 0, -0.1], new double[h], w);
-        var r = CliRunner.Run("compile", model, "--numeric", "fixed", "--out", Path.Combine(dir, "out"));
-        Assert.True(r.ExitCode == 0, r.Error);
+        var model = HostileModelTests.Rbm(dir, "m.json", [0.0], new double[h], [new double[h]]);
+        var r = CliRunner.Run("compile", model, "--numeric", numeric, "--target", "c,csharp", "--out", Path.Combine(dir, "out"));
+        Assert.Equal(2, r.ExitCode);
+        Assert.Contains("stack", r.Error);
+        Assert.Contains("16384", r.Error);
     }
 }
