@@ -15,6 +15,34 @@ public static partial class Naming
     /// <summary>Longest model text kept in a comment; longer text is cut and marked with "...".</summary>
     public const int MaxCommentLength = 80;
 
+    /// <summary>
+    /// Significant initial characters C99 guarantees in an external identifier (ISO/IEC 9899:1999 §5.2.4.1: "31
+    /// significant initial characters in an external identifier"); identifiers equal in these may be one symbol to the
+    /// linker, and MISRA C:2012 Rule 5.1 requires them distinct.
+    /// </summary>
+    public const int ExternalSignificant = 31;
+
+    /// <summary>
+    /// Significant initial characters C99 guarantees in an internal identifier or a macro name (§5.2.4.1: "63
+    /// significant initial characters in an internal identifier or a macro name"); MISRA C:2012 Rules 5.2–5.5.
+    /// </summary>
+    public const int InternalSignificant = 63;
+
+    /// <summary>
+    /// Longest scorer name. The longest external identifiers are <c>NAME_free_energy</c> and
+    /// <c>NAME_free_energy_units</c>: with 18 characters the first is 30 long, so both, and the same functions of
+    /// any other scorer linked beside them, differ within the first <see cref="ExternalSignificant"/> characters.
+    /// Every other generated identifier (tables, helpers, typedefs, macros, the include guard) is then at most 40
+    /// characters, within <see cref="InternalSignificant"/>.
+    /// </summary>
+    public const int MaxScorerNameLength = ExternalSignificant - 13;
+
+    /// <summary>
+    /// Longest C# namespace. Roslyn refuses identifiers over 1023 characters and metadata type names are limited in
+    /// length too (from memory), so the namespace is kept well inside both.
+    /// </summary>
+    public const int MaxNamespaceLength = 255;
+
     /// <summary>C99 keywords (ISO/IEC 9899:1999 §6.4.1).</summary>
     public static readonly IReadOnlySet<string> CKeywords = new HashSet<string>(StringComparer.Ordinal)
     {
@@ -73,13 +101,24 @@ public static partial class Naming
     {
         if (!IsCIdentifier(name))
             throw new EmitException($"name \"{CommentText(name)}\" is not a C identifier", "use letters, digits and _ only, not starting with a digit");
-        if (name.Length >= 2 && name[0] == '_' && (char.IsAsciiLetterUpper(name[1]) || name[1] == '_'))
-            throw new EmitException($"name \"{name}\" is reserved in C (leading _ and an upper-case letter or _)", "start the name with a letter");
+        // The name is also the macro prefix in upper case: "_x" gives _X_VISIBLE, reserved by C99 §7.1.3 (a leading _
+        // and an upper-case letter); "x_" gives X__VISIBLE, and a "__" anywhere is reserved in C++ ([lex.name]),
+        // which the header supports.
+        if (name[0] == '_')
+            throw new EmitException($"name \"{name}\" starts with _, which makes reserved identifiers in C ({MacroPrefix(name)}_VISIBLE; C99 7.1.3)", "start the name with a letter");
+        if (name.Contains("__", StringComparison.Ordinal) || name.EndsWith('_'))
+            throw new EmitException($"name \"{name}\" makes identifiers with \"__\", which C++ reserves", "use single _ between words and none at the end");
+        if (name.Length > MaxScorerNameLength)
+            throw new EmitException(
+                $"name \"{name}\" has {name.Length} characters; {name}_free_energy_units would not be distinct from other external identifiers within the {ExternalSignificant} characters C99 guarantees (5.2.4.1)",
+                $"use at most {MaxScorerNameLength} characters");
     }
 
     /// <summary>Checks a C# namespace given with <c>--namespace</c>: dot-separated identifiers, none a C# keyword.</summary>
     public static void CheckNamespace(string ns)
     {
+        if (ns.Length > MaxNamespaceLength)
+            throw new EmitException($"namespace has {ns.Length} characters, more than {MaxNamespaceLength}", "use a shorter namespace such as Emit.Generated");
         foreach (var part in ns.Split('.'))
             if (!IsCIdentifier(part) || CSharpKeywords.Contains(part))
                 throw new EmitException($"namespace \"{CommentText(ns)}\" is not a C# namespace name", "use dot-separated identifiers such as Emit.Generated");
@@ -88,7 +127,7 @@ public static partial class Naming
     /// <summary>
     /// The default scorer name made from a model file name: letters and digits kept, every other run of
     /// characters becomes one "_", leading and trailing "_" dropped, "model_" put before a leading digit,
-    /// "model" when nothing is left, keywords suffixed.
+    /// "model" when nothing is left, cut to <see cref="MaxScorerNameLength"/>, keywords suffixed with "_scorer".
     /// </summary>
     public static string ScorerNameFromFile(string path)
     {
@@ -96,7 +135,9 @@ public static partial class Naming
         var id = AsciiWords(stem, upper: false).Trim('_');
         if (id.Length == 0) return "model";
         if (char.IsAsciiDigit(id[0])) id = "model_" + id;
-        return AvoidKeyword(id);
+        if (id.Length > MaxScorerNameLength) id = id[..MaxScorerNameLength].TrimEnd('_');
+        // A keyword gets "_scorer", not "_": "int_" would make the macros INT__VISIBLE, reserved in C++.
+        return IsKeyword(id) ? id + "_scorer" : id;
     }
 
     /// <summary>UPPER_CASE form of a scorer name, for macros (<c>rbm_a</c> → <c>RBM_A</c>).</summary>
@@ -133,7 +174,19 @@ public static partial class Naming
     /// becomes <c>UNIT_i</c> / <c>UnitI</c>; a clash gets <c>_2</c>, <c>_3</c>... (first come, first served, in unit order).
     /// <paramref name="reserved"/> lists names already taken in the same scope.
     /// </summary>
-    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names, IEnumerable<string> reserved)
+    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names, IEnumerable<string> reserved) =>
+        UnitIdentifiers(names, reserved, UnitIdentifierLength);
+
+    /// <summary>
+    /// Longest unit identifier. The C macro is <c>UNAME_UNIT_</c> + the identifier: at most
+    /// <see cref="MaxScorerNameLength"/> + 6 + 39 = <see cref="InternalSignificant"/> characters, so two unit macros
+    /// that differ at all differ within the significant length (MISRA C:2012 Rule 5.4). C# member names are held to
+    /// the same length, far below Roslyn's 1023-character limit on identifiers.
+    /// </summary>
+    public const int UnitIdentifierLength = InternalSignificant - MaxScorerNameLength - 6;
+
+    /// <summary>As <see cref="UnitIdentifiers(IReadOnlyList{string}, IEnumerable{string})"/>, with identifiers cut to <paramref name="maxLength"/> characters.</summary>
+    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names, IEnumerable<string> reserved, int maxLength)
     {
         var takenC = new HashSet<string>(StringComparer.Ordinal);
         var takenCs = new HashSet<string>(reserved, StringComparer.Ordinal);
@@ -143,16 +196,28 @@ public static partial class Naming
         {
             var upper = AsciiWords(names[i], upper: true).Trim('_');
             if (upper.Length == 0) upper = "UNIT_" + i.ToString(CultureInfo.InvariantCulture);
-            c.Add(Unique(upper, takenC, "_"));
-            cs.Add(Unique(AvoidKeyword(PascalWords(upper.ToLowerInvariant(), "Unit")), takenCs, "_"));
+            upper = Cut(upper, maxLength);
+            c.Add(Unique(upper, takenC, "_", maxLength));
+            cs.Add(Unique(Cut(AvoidKeyword(PascalWords(upper.ToLowerInvariant(), "Unit")), maxLength), takenCs, "_", maxLength));
         }
         return (c, cs);
     }
 
-    private static string Unique(string id, HashSet<string> taken, string sep)
+    /// <summary>The first <paramref name="maxLength"/> characters, without a trailing "_".</summary>
+    private static string Cut(string id, int maxLength) => id.Length <= maxLength ? id : id[..maxLength].TrimEnd('_');
+
+    /// <summary>
+    /// <paramref name="id"/>, or <c>id_2</c>, <c>id_3</c>... when taken, cut so that the result (suffix included)
+    /// has at most <paramref name="maxLength"/> characters.
+    /// </summary>
+    private static string Unique(string id, HashSet<string> taken, string sep, int maxLength = int.MaxValue)
     {
         var candidate = id;
-        for (int n = 2; !taken.Add(candidate); n++) candidate = id + sep + n.ToString(CultureInfo.InvariantCulture);
+        for (int n = 2; !taken.Add(candidate); n++)
+        {
+            var suffix = sep + n.ToString(CultureInfo.InvariantCulture);
+            candidate = Cut(id, maxLength - suffix.Length) + suffix;
+        }
         return candidate;
     }
 

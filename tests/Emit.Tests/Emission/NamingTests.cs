@@ -14,9 +14,10 @@ public sealed class NamingTests
 
     [Theory]
     [InlineData("models/pump-station.json", "pump_station")]
-    [InlineData("2024 model.v1.json", "model_2024_model_v1")]
-    [InlineData("int.json", "int_")]          // C keyword
-    [InlineData("class.npz", "class_")]       // C++ and C# keyword
+    [InlineData("2024 model.v1.json", "model_2024_model_v")]   // cut to 18 characters (C99 5.2.4.1: 31 significant in external names)
+    [InlineData("int.json", "int_scorer")]          // C keyword ("int_" would give INT__VISIBLE, reserved in C++)
+    [InlineData("class.npz", "class_scorer")]       // C++ and C# keyword
+    [InlineData("a-very-long-model-file-name-from-training.json", "a_very_long_model")]
     [InlineData("....json", "model")]
     [InlineData("Kühler.json", "K_hler")]
     public void Default_scorer_name_from_the_file_name_is_a_valid_identifier(string path, string expected)
@@ -111,4 +112,52 @@ public sealed class NamingTests
     [InlineData("1x")]
     [InlineData("")]
     public void Invalid_namespaces_are_refused(string ns) => Assert.Throws<EmitException>(() => Naming.CheckNamespace(ns));
+
+    [Theory]
+    [InlineData("_x")]                  // _X_VISIBLE: C99 7.1.3 reserves _ followed by an upper-case letter
+    [InlineData("_")]
+    [InlineData("x_")]                  // X__VISIBLE: C++ [lex.name] reserves any "__"
+    [InlineData("a__b")]
+    [InlineData("abcdefghijklmnopqrs")] // 19 characters: abcdefghijklmnopqrs_free_energy is 31, _units then differs only after them
+    public void Scorer_names_that_make_reserved_or_clashing_identifiers_are_refused(string name) =>
+        Assert.Throws<EmitException>(() => Naming.CheckScorerName(name));
+
+    [Fact]
+    public void An_18_character_name_keeps_every_external_identifier_distinct_within_31_characters()
+    {
+        // C99 5.2.4.1: 31 significant initial characters in an external identifier.
+        const string name = "abcdefghijklmnopqr";
+        Naming.CheckScorerName(name);
+        string[] external = [name + "_free_energy", name + "_free_energy_units", name + "_is_unusual", name + "_selftest"];
+        Assert.Equal(external.Length, external.Select(e => e[..Math.Min(e.Length, Naming.ExternalSignificant)]).Distinct().Count());
+    }
+
+    [Fact]
+    public void Unit_macros_equal_in_their_first_63_characters_still_differ_within_63()
+    {
+        // C99 5.2.4.1: 63 significant initial characters in a macro name; MISRA C:2012 Rule 5.4 wants them distinct.
+        var stem = new string('a', 70);
+        var (c, cs) = Naming.UnitIdentifiers([stem + "1", stem + "2", stem + "1"], []);
+        var macros = c.Select(u => Naming.MacroPrefix("abcdefghijklmnopqr") + "_UNIT_" + u).ToArray();
+        Assert.All(macros, m => Assert.True(m.Length <= Naming.InternalSignificant, m));
+        Assert.Equal(3, macros.Select(m => m[..Math.Min(m.Length, 63)]).Distinct().Count());
+        Assert.All(cs, m => Assert.True(m.Length <= Naming.UnitIdentifierLength, m));
+        Assert.Equal(3, cs.Distinct().Count());
+    }
+
+    [Fact]
+    public void A_unit_name_of_2000_characters_gives_short_identifiers()
+    {
+        // Roslyn refuses identifiers over 1023 characters (error CS0645, from memory).
+        var (c, cs) = Naming.UnitIdentifiers([new string('x', 2000)], []);
+        Assert.True(c[0].Length <= Naming.UnitIdentifierLength);
+        Assert.True(cs[0].Length <= Naming.UnitIdentifierLength);
+    }
+
+    [Fact]
+    public void A_namespace_of_2000_characters_is_refused()
+    {
+        Assert.Throws<EmitException>(() => Naming.CheckNamespace(string.Join(".", Enumerable.Repeat(new string('N', 99), 20))));
+        Naming.CheckNamespace("Plant.Monitoring.Reefer");
+    }
 }
