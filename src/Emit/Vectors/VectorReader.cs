@@ -103,10 +103,10 @@ public sealed class VectorReader : IDisposable
         Separator = first.Contains((byte)',') ? VectorSeparator.Comma : VectorSeparator.Whitespace;
         int count = 0;
         bool allBinary = true, allNumeric = true, fromZero = true, fromOne = true, anyValueLike = false;
-        var fields = new Fields(first, Separator == VectorSeparator.Comma);
-        while (fields.Next(out int s, out int e) is var kind && kind != FieldKind.End)
+        var fields = new VectorFields(first, Separator == VectorSeparator.Comma);
+        while (fields.Next(out int s, out int e) is var kind && kind != VectorFieldKind.End)
         {
-            if (kind == FieldKind.Value)
+            if (kind == VectorFieldKind.Value)
             {
                 var token = first[s..e];
                 allBinary &= token.Length == 1 && token[0] is (byte)'0' or (byte)'1';
@@ -284,7 +284,7 @@ public sealed class VectorReader : IDisposable
 
     private static bool IsBlank(ReadOnlySpan<byte> line) => line.IndexOfAnyExcept((byte)' ', (byte)'\t') < 0;
 
-    private static bool IsSpace(byte b) => b is (byte)' ' or (byte)'\t';
+    private static bool IsSpace(byte b) => VectorFields.IsSpace(b);
 
     // ---- rows ------------------------------------------------------------------------------------------------
 
@@ -292,14 +292,14 @@ public sealed class VectorReader : IDisposable
     {
         if (FastRow(line, units)) return;
         int n = 0, extraAt = -1;
-        var fields = new Fields(line, Separator == VectorSeparator.Comma);
+        var fields = new VectorFields(line, Separator == VectorSeparator.Comma);
         while (true)
         {
             var kind = fields.Next(out int s, out int e);
-            if (kind == FieldKind.End) break;
-            if (kind == FieldKind.Empty)
+            if (kind == VectorFieldKind.End) break;
+            if (kind == VectorFieldKind.Empty)
                 throw Error("empty value before ','", "write 0 or 1 between the commas", line, s);
-            if (kind == FieldKind.Trailing)
+            if (kind == VectorFieldKind.Trailing)
                 throw Error("line ends with a separator ','", "remove the comma at the end of the line", line, s);
             if (n < Width)
             {
@@ -471,51 +471,5 @@ public sealed class VectorReader : IDisposable
             sb.Append(char.IsControl(c) ? $"\\x{(int)c:x2}" : c);
         if (cut) sb.Append('…');
         return sb.ToString();
-    }
-
-    private enum FieldKind { End, Value, Empty, Trailing }
-
-    /// <summary>Walks the values of one line: comma-separated (spaces around values ignored) or space-separated.</summary>
-    private ref struct Fields(ReadOnlySpan<byte> line, bool comma)
-    {
-        private readonly ReadOnlySpan<byte> _line = line;
-        private int _i;
-        private int _lastComma = -1;
-        private bool _done;
-
-        public FieldKind Next(out int start, out int end)
-        {
-            start = end = 0;
-            if (_done) return FieldKind.End;
-            while (_i < _line.Length && IsSpace(_line[_i])) _i++;
-            if (!comma)
-            {
-                if (_i == _line.Length) { _done = true; return FieldKind.End; }
-                start = _i;
-                while (_i < _line.Length && !IsSpace(_line[_i])) _i++;
-                end = _i;
-                return FieldKind.Value;
-            }
-            start = _i;
-            int j = _line[_i..].IndexOf((byte)',');
-            j = j < 0 ? _line.Length : _i + j;
-            end = j;
-            while (end > start && IsSpace(_line[end - 1])) end--;
-            if (j == _line.Length)
-            {
-                _done = true;
-                if (end > start) return FieldKind.Value;
-                start = end = _lastComma;
-                return _lastComma >= 0 ? FieldKind.Trailing : FieldKind.End;
-            }
-            _lastComma = j;
-            _i = j + 1;
-            if (end == start)
-            {
-                start = end = j;
-                return FieldKind.Empty;
-            }
-            return FieldKind.Value;
-        }
     }
 }
