@@ -82,7 +82,7 @@ public sealed class ClassifyCommand : ICliCommand
         int rows;
         while ((rows = reader.ReadBatch(units, batch)) > 0)
         {
-            classifier.Posteriors(units, rows, post);
+            classifier.Posteriors(units, rows, post, index);
             for (int r = 0; r < rows; r++)
             {
                 int best = 0;

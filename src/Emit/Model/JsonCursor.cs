@@ -54,8 +54,8 @@ public ref struct JsonCursor
     /// <summary>
     /// Reads <paramref name="stream"/> to its end, refusing it once more than <paramref name="maxBytes"/> bytes have
     /// arrived. When the first non-blank byte (after an optional byte-order mark) is not '{', reading stops there and
-    /// the bytes so far are returned, for the parser to report at line 1: an endless binary source (/dev/zero) is
-    /// refused at its first chunk instead of after the cap.
+    /// the bytes so far are returned, for the parser to report at line 1; likewise at the first NUL byte. An endless
+    /// binary source (/dev/zero, /dev/urandom) is so refused at its first chunk instead of after the cap.
     /// </summary>
     public static byte[] ReadCapped(Stream stream, long maxBytes, string what, string source)
     {
@@ -74,6 +74,9 @@ public ref struct JsonCursor
             int got = stream.Read(buffer, (int)total, buffer.Length - (int)total);
             if (got == 0) break;
             total += got;
+            // No JSON text holds a raw NUL (RFC 8259 §7: control characters appear only escaped, and outside strings
+            // only blanks are allowed): binary data is refused by the parser at or before it, so stop reading here.
+            if (buffer.AsSpan((int)total - got, got).Contains((byte)0)) break;
             if (!sniffed && OpensObject(buffer.AsSpan(0, (int)total)) is { } opens)
             {
                 if (!opens) break;

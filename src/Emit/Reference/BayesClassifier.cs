@@ -53,7 +53,11 @@ public sealed class BayesClassifier
     /// Posteriors of <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>: row r's P(k | v) at
     /// <c>posterior[r * Classes + k]</c>.
     /// </summary>
-    public void Posteriors(byte[] units, int rows, double[] posterior)
+    /// <param name="units">Rows of <see cref="Visible"/> bytes, 0 or 1, laid end to end.</param>
+    /// <param name="rows">Number of rows.</param>
+    /// <param name="posterior">Receives rows × <see cref="Classes"/> probabilities.</param>
+    /// <param name="firstIndex">Index of the first row among all vectors read, for error messages.</param>
+    public void Posteriors(byte[] units, int rows, double[] posterior, long firstIndex = 0)
     {
         if (posterior.Length < (long)rows * Classes) throw new ArgumentException("buffer too small", nameof(posterior));
         var f = new double[rows];
@@ -70,6 +74,11 @@ public sealed class BayesClassifier
             double sum = 0;
             foreach (var x in row) sum += Math.Exp(x - max);
             double logNorm = max + Math.Log(sum);
+            // An infinite free energy (parameters near DBL_MAX) would make every posterior NaN: refuse it instead.
+            if (!double.IsFinite(logNorm))
+                throw new EmitException(
+                    $"vector {firstIndex + r} (index column) has a free energy that is not a finite number under at least one model, so its posteriors are undefined",
+                    "the models' parameters are too large for double precision; check them with emit inspect");
             for (int k = 0; k < Classes; k++) row[k] = Math.Exp(row[k] - logNorm);
         }
     }

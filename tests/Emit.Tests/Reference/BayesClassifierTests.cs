@@ -64,6 +64,23 @@ public sealed class BayesClassifierTests
     }
 
     [Fact]
+    public void A_vector_whose_free_energy_overflows_double_is_refused_not_given_NaN_posteriors()
+    {
+        // W = 1e308 on both units: with both on the pre-activation is 2e308 = ∞ in double (IEEE 754 binary64 max
+        // ≈ 1.8e308), F = −∞ and every posterior of that row would be ∞ − ∞ = NaN.
+        var huge = new BoltzmannModel(ModelKind.Rbm, 2, 1, [0.0, 0.0], [0.0], [1e308, 1e308], [], [])
+            .With(null, new LogPartition(1.0, "exact", 0));
+        var small = new BoltzmannModel(ModelKind.Rbm, 2, 1, [0.0, 0.0], [0.0], [0.1, 0.2], [], [])
+            .With(null, new LogPartition(1.0, "exact", 0));
+        var classifier = new BayesClassifier([huge, small], ["huge", "small"]);
+        var post = new double[4];
+        classifier.Posteriors([0, 0], 1, post);
+        Assert.Equal(0.5, post[0] + post[1] - 0.5, 12);
+        var e = Assert.Throws<EmitException>(() => classifier.Posteriors([0, 0, 1, 1], 2, post, firstIndex: 10));
+        Assert.Contains("vector 11", e.Problem);
+    }
+
+    [Fact]
     public void Refuses_models_it_cannot_compare()
     {
         var noZ = TestModels.Random(ModelKind.Rbm, 5, 3, seed: 1);
