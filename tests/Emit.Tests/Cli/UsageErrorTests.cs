@@ -165,6 +165,18 @@ public sealed class UsageErrorTests
     }
 
     [Fact]
+    public void A_general_model_too_large_for_fixed_point_names_the_model_file()
+    {
+        var path = Model(ModelKind.General, visible: 3, hidden: 17);
+        var r = CliRunner.Run("inspect", path, "--numeric", "fixed");
+        AssertOneLineUsageError(r, $"emit: error: {path}: ");
+        Assert.Contains("2^17 hidden states", r.Error);
+        var c = CliRunner.Run("compile", path, "--numeric", "fixed", "--out", CliRunner.TempDir());
+        AssertOneLineUsageError(c, $"emit: error: {path}: ");
+        Assert.Contains("2^17 hidden states", c.Error);
+    }
+
+    [Fact]
     public void Control_characters_from_a_model_never_reach_the_terminal()
     {
         var dir = CliRunner.TempDir();
