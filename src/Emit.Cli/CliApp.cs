@@ -53,12 +53,13 @@ public static class CliApp
 
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr, Stream? stdin = null)
     {
+        bool errorIsConsole = ReferenceEquals(stderr, Console.Error);
         stdout = TerminalText.Wrap(stdout);
         stderr = TerminalText.Wrap(stderr);
         bool verbose = args.Contains(Verbose.Name);
         try
         {
-            var ctx = new CliContext(stdout, stderr, stdin);
+            var ctx = new CliContext(stdout, stderr, stdin, errorIsConsole);
             var root = BuildRoot(ctx);
             var parse = root.Parse(args, ParserSettings());
             if (parse.Errors.Count > 0 && FormerSpelling(parse, args) is { } rewritten)

@@ -75,7 +75,7 @@ public sealed class LogzCommand : ICliCommand
         long states = ExactLogPartition.States(model);
         if (states > EstimateStates)
             ctx.Error.WriteLine($"emit: exact log Z visits {states} states; estimated {ExactLogPartition.EstimateSeconds(model):F0} s on {Environment.ProcessorCount} cores");
-        var r = states > ProgressStates && ReferenceEquals(ctx.Error, Console.Error) && !Console.IsErrorRedirected
+        var r = states > ProgressStates && ctx.ErrorIsConsole && !Console.IsErrorRedirected
             ? WithProgressBar(model, states)
             : ExactLogPartition.Compute(model);
         return (r.LogPartition, 0.0, "exact", r.States, r.Seconds, r.Enumerated);

@@ -14,7 +14,7 @@ namespace Emit.Tests.Cli;
 public sealed class ToolPackageTests
 {
     [Fact]
-    public void Pack_makes_a_dotnet_tool_whose_command_is_emit()
+    public async Task Pack_makes_a_dotnet_tool_whose_command_is_emit()
     {
         var project = Path.Combine(RepoRoot(), "src", "Emit.Cli");
         var output = CliRunner.TempDir();
@@ -25,8 +25,9 @@ public sealed class ToolPackageTests
         using var p = Process.Start(psi)!;
         var log = p.StandardOutput.ReadToEndAsync();
         var err = p.StandardError.ReadToEndAsync();
-        Assert.True(p.WaitForExit(TimeSpan.FromMinutes(5)), "dotnet pack did not finish");
-        Assert.True(p.ExitCode == 0, log.Result + err.Result);
+        using (var timeout = new CancellationTokenSource(TimeSpan.FromMinutes(5)))
+            await p.WaitForExitAsync(timeout.Token);
+        Assert.True(p.ExitCode == 0, await log + await err);
 
         var package = Assert.Single(Directory.GetFiles(output, "*.nupkg"));
         using var zip = ZipFile.OpenRead(package);
