@@ -6,29 +6,17 @@ namespace Emit.Cli;
 /// <summary>The fixed-point options shared by the commands that plan integer arithmetic (inspect, compile, verify).</summary>
 public sealed class FixedPointOptionSet
 {
-    public readonly Option<string> Weights = new("--weights")
-    {
-        Description = "Fixed point: weight width (int8, int16, int32)",
-        DefaultValueFactory = _ => "int16",
-    };
+    public readonly Option<Chosen<WeightType>> Weights = CliOptions.Choice(
+        "--weights", "Fixed point: weight width",
+        [("int8", WeightType.Int8), ("int16", WeightType.Int16), ("int32", WeightType.Int32)], "int16");
 
-    public readonly Option<string> Accumulator = new("--accumulator")
-    {
-        Description = "Fixed point: accumulator width (auto picks int32 whenever it is proved not to overflow and loses nothing)",
-        DefaultValueFactory = _ => "auto",
-    };
+    public readonly Option<Chosen<AccumulatorType?>> Accumulator = CliOptions.Choice<AccumulatorType?>(
+        "--accumulator", "Fixed point: accumulator width (auto picks int32 whenever it is proved not to overflow and loses nothing)",
+        [("auto", null), ("int32", AccumulatorType.Int32), ("int64", AccumulatorType.Int64)], "auto");
 
-    public readonly Option<int> SoftplusTable = new("--softplus-table")
-    {
-        Description = "Fixed point: segments of the interpolated softplus table (a power of two, 8 to 65536)",
-        DefaultValueFactory = _ => FixedPointOptions.DefaultTableSize,
-    };
-
-    public FixedPointOptionSet()
-    {
-        Weights.AcceptOnlyFromAmong("int8", "int16", "int32");
-        Accumulator.AcceptOnlyFromAmong("auto", "int32", "int64");
-    }
+    public readonly Option<int> SoftplusTable = CliOptions.Number(
+        "--softplus-table", $"Fixed point: segments of the interpolated softplus table (a power of two, {FixedPointOptions.MinTableSize} to {FixedPointOptions.MaxTableSize})",
+        1, int.MaxValue, FixedPointOptions.DefaultTableSize);
 
     public void AddTo(Command command)
     {
@@ -47,11 +35,7 @@ public sealed class FixedPointOptionSet
 
     public FixedPointOptions Read(ParseResult parse)
     {
-        var acc = parse.GetValue(Accumulator);
-        var o = new FixedPointOptions(
-            WeightTypeInfo.Parse(parse.GetValue(Weights)!) ?? WeightType.Int16,
-            acc == "auto" ? null : AccumulatorTypeInfo.Parse(acc!),
-            parse.GetValue(SoftplusTable));
+        var o = new FixedPointOptions(parse.GetValue(Weights)!.Value, parse.GetValue(Accumulator)!.Value, parse.GetValue(SoftplusTable));
         o.Validate();
         return o;
     }

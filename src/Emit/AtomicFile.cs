@@ -99,6 +99,39 @@ public static class AtomicFile
         return targets.Select(t => t.Path).ToArray();
     }
 
+    /// <summary>
+    /// Throws now what <see cref="Write"/> would throw for <paramref name="path"/> before writing anything, so a long
+    /// command (a verification) learns before its work that an output may not be replaced.
+    /// </summary>
+    public static void Precheck(string path, bool force) => Check(path, force);
+
+    /// <summary>
+    /// Refuses <paramref name="output"/> when it names the same file as one of <paramref name="inputs"/> (after
+    /// resolving links): a command never replaces a file it is reading, not even with force. <c>-</c> (standard input
+    /// or output) and null are skipped. Hard links to one file under two names are not detected.
+    /// </summary>
+    public static void RefuseInput(string? output, params string?[] inputs)
+    {
+        if (output is null or "-") return;
+        var o = Resolved(output);
+        var comparison = OperatingSystem.IsLinux() ? StringComparison.Ordinal : StringComparison.OrdinalIgnoreCase;
+        foreach (var input in inputs)
+            if (input is not null and not "-" && string.Equals(Resolved(input), o, comparison))
+                throw new EmitException("the output is also an input of this command",
+                    "write to another file: emit never replaces a file it is reading, even when allowed to replace files", output);
+    }
+
+    private static string Resolved(string path)
+    {
+        var full = RealPath(Path.GetFullPath(path));
+        try
+        {
+            if (File.ResolveLinkTarget(full, returnFinalTarget: true) is { } target) full = RealPath(target.FullName);
+        }
+        catch (IOException) { }
+        return full;
+    }
+
     /// <summary>True when <paramref name="path"/> is a regular file whose content emit wrote there last.</summary>
     public static bool IsEmitsOwn(string path) => WrittenLedger.Matches(path);
 
@@ -138,10 +171,10 @@ public static class AtomicFile
             try { own = WrittenLedger.Matches(full); }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException)
             {
-                throw new EmitException($"cannot read the existing file to check who wrote it: {e.Message}", "move it away, or allow replacing it (--force)", path);
+                throw new EmitException($"cannot read the existing file to check who wrote it: {e.Message}", $"move it away, or allow replacing it ({Setting.Force.Ref()})", path);
             }
             if (!own)
-                throw new EmitException("would replace a file that emit did not write (or that was changed after emit wrote it)", "move it away, choose another name, or allow replacing it (--force)", path);
+                throw new EmitException("would replace a file that emit did not write (or that was changed after emit wrote it)", $"move it away, choose another name, or allow replacing it ({Setting.Force.Ref()})", path);
         }
         return new Target(full, false);
     }

@@ -10,18 +10,21 @@ public sealed class EmitException : Exception
     public EmitException(string problem, string? hint = null, string? file = null, long? line = null, long? column = null, Exception? inner = null)
         : base(problem, inner)
     {
-        Problem = problem;
-        Hint = hint;
+        _problem = problem;
+        _hint = hint;
         File = file;
         Line = line;
         Column = column;
     }
 
-    /// <summary>What is wrong, without location or hint.</summary>
-    public string Problem { get; }
+    private readonly string _problem;
+    private readonly string? _hint;
 
-    /// <summary>What the user can do about it, or null.</summary>
-    public string? Hint { get; }
+    /// <summary>What is wrong, without location or hint; settings named by their project-file keys.</summary>
+    public string Problem => Settings.Render(_problem);
+
+    /// <summary>What the user can do about it, or null; settings named by their project-file keys.</summary>
+    public string? Hint => _hint is null ? null : Settings.Render(_hint);
 
     public string? File { get; }
     public long? Line { get; }
@@ -29,16 +32,25 @@ public sealed class EmitException : Exception
 
     /// <summary>A copy of this error that names <paramref name="file"/> when it did not name a file yet.</summary>
     public EmitException InFile(string file) =>
-        File is null ? new EmitException(Problem, Hint, file, Line, Column, InnerException) : this;
+        File is null ? new EmitException(_problem, _hint, file, Line, Column, InnerException) : this;
 
-    /// <summary>The one-line form: <c>FILE:LINE:COL: problem (hint)</c>.</summary>
-    public string OneLine()
+    /// <summary>A copy of this error placed at <paramref name="line"/> and <paramref name="column"/> of <paramref name="file"/> when it had no place yet.</summary>
+    public EmitException At(string file, long line, long? column) =>
+        Line is null ? new EmitException(_problem, _hint, File ?? file, line, column, InnerException) : this;
+
+    /// <summary>
+    /// The one-line form: <c>FILE:LINE:COL: problem (hint)</c>, settings named by <paramref name="settingName"/>
+    /// (default: their project-file keys, <see cref="Settings.Key"/>).
+    /// </summary>
+    public string OneLine(Func<Setting, string>? settingName = null)
     {
+        var problem = Settings.Render(_problem, settingName);
+        var hint = _hint is null ? null : Settings.Render(_hint, settingName);
         var where = File ?? "";
         if (Line is not null) where += (where.Length > 0 ? ":" : "line ") + Line;
         if (Line is not null && Column is not null) where += ":" + Column;
-        var text = where.Length > 0 ? where + ": " + Problem : Problem;
-        if (!string.IsNullOrEmpty(Hint)) text += " (" + Hint + ")";
+        var text = where.Length > 0 ? where + ": " + problem : problem;
+        if (!string.IsNullOrEmpty(hint)) text += " (" + hint + ")";
         return text.Replace('\n', ' ').Replace('\r', ' ');
     }
 

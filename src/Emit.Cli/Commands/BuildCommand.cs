@@ -9,12 +9,9 @@ public sealed class BuildCommand : ICliCommand
     private readonly Argument<FileInfo> _project = new Argument<FileInfo>("PROJECT")
     {
         Description = "Project file (format emit.project): the models and compile options of every scorer to generate",
-    }.AcceptExistingOnly();
+    }.MustExist();
 
-    private readonly Option<bool> _force = new("--force")
-    {
-        Description = "Overwrite files in the output folders even when emit did not generate them",
-    };
+    private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
     {

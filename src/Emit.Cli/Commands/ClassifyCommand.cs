@@ -20,14 +20,14 @@ public sealed class ClassifyCommand : ICliCommand
         Arity = new ArgumentArity(2, 64),
     };
 
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true, HelpName = "DATA" };
     private readonly Option<string?> _priors = new("--priors") { Description = "Prior weight of each model, comma-separated, in model order (default: equal)" };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output)" };
+    private readonly Option<string?> _output = new("--output", "-o") { Description = "CSV file to write, or - for standard output (the default)", HelpName = "FILE" };
 
     public Command Build(CliContext ctx)
     {
-        _models.AcceptExistingOnly();
+        _models.MustExist();
         var cmd = new Command("classify", "Bayes' rule across several models: the posterior probability of each model (class) for every vector")
         {
             _models, _input, _priors, _output, _force,
@@ -35,6 +35,7 @@ public sealed class ClassifyCommand : ICliCommand
         cmd.SetAction(parse =>
         {
             var files = parse.GetRequiredValue(_models);
+            AtomicFile.RefuseInput(parse.GetValue(_output), [.. files.Select(f => f.FullName), parse.GetRequiredValue(_input)]);
             var models = files.Select(f => ModelLoader.Load(f.FullName)).ToArray();
             var labels = Labels(files);
             var classifier = new BayesClassifier(models, files.Select(f => f.FullName).ToArray(), ParsePriors(parse.GetValue(_priors)));

@@ -10,19 +10,13 @@ public sealed class CompileCommand : ICliCommand
     private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL")
     {
         Description = "Model file (.json or .npz)",
-    }.AcceptExistingOnly();
+    }.MustExist();
 
-    private readonly Option<string> _target = new("--target")
-    {
-        Description = $"Output languages, comma-separated: {Targets.NameList}",
-        DefaultValueFactory = _ => "c",
-    };
+    private readonly Option<string[]> _target = CliOptions.ChoiceList(
+        "--target", "Output languages, comma-separated", Targets.All.Select(t => t.Name).ToArray(), "c");
 
-    private readonly Option<string> _numeric = new("--numeric")
-    {
-        Description = "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)",
-        DefaultValueFactory = _ => "f32",
-    };
+    private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
+        "--numeric", "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)", NumericChoices.All, "f32");
 
     private readonly Option<string?> _name = new("--name")
     {
@@ -38,26 +32,23 @@ public sealed class CompileCommand : ICliCommand
     private readonly Option<string> _out = new("--out")
     {
         Description = "Output folder",
+        HelpName = "DIR",
         DefaultValueFactory = _ => "out",
     };
 
     private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates")
     {
         Description = "Folder whose c/ and csharp/ sub-folders override shipped templates file by file",
+        HelpName = "DIR",
     }.AcceptExistingOnly();
 
-    private readonly Option<int> _selfTest = new("--selftest-vectors")
-    {
-        Description = $"Number of inputs embedded for the self-test (1 to {CompileOptions.MaxSelfTestVectors})",
-        DefaultValueFactory = _ => CompileOptions.DefaultSelfTestVectors,
-    };
+    private readonly Option<int> _selfTest = CliOptions.Number(
+        "--selftest-vectors", $"Number of inputs embedded for the self-test (1 to {CompileOptions.MaxSelfTestVectors})",
+        1, CompileOptions.MaxSelfTestVectors, CompileOptions.DefaultSelfTestVectors);
 
     private readonly FixedPointOptionSet _fixed = new();
 
-    private readonly Option<bool> _force = new("--force")
-    {
-        Description = "Overwrite files in the output folder even when emit did not generate them",
-    };
+    private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
     {
@@ -69,8 +60,7 @@ public sealed class CompileCommand : ICliCommand
         cmd.Options.Add(_force);
         cmd.SetAction(parse =>
         {
-            var mode = NumericModeNames.Parse(parse.GetValue(_numeric)!)
-                       ?? throw new EmitException($"--numeric {Naming.CommentText(parse.GetValue(_numeric)!)} is unknown", "use f32, f64 or fixed");
+            var mode = parse.GetValue(_numeric)!.Value;
             if (mode != NumericMode.Fixed && _fixed.GivenOption(parse) is { } given)
                 throw new EmitException($"{given} applies to --numeric fixed only", "add --numeric fixed or leave the option out");
             return Run(ctx,
@@ -88,15 +78,23 @@ public sealed class CompileCommand : ICliCommand
         return cmd;
     }
 
-    private static int Run(CliContext ctx, string modelPath, string target, NumericMode mode, string? name, string ns,
+    private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name, string ns,
         string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, bool force)
     {
-        var targets = target.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries);
         name ??= Naming.ScorerNameFromFile(modelPath);
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
-        var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);
+        IReadOnlyList<GeneratedFile> files;
+        try
+        {
+            files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);
+        }
+        catch (EmitException e) when (e.File is null)
+        {
+            // A value of the model the scorer cannot hold: the model file is where to look.
+            throw e.InFile(modelPath);
+        }
         foreach (var path in OutputFolder.Write(outDir, files, force))
             ctx.Out.WriteLine($"wrote {path}");
         return CliApp.Ok;

@@ -16,7 +16,7 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class DemoCommand : ICliCommand
 {
-    private readonly Option<DirectoryInfo?> _data = new("--data") { Description = "Folder with the demo files (default: demo-data/ in this folder or a parent)" };
+    private readonly Option<DirectoryInfo?> _data = new Option<DirectoryInfo?>("--data") { Description = "Folder with the demo files (default: demo-data/ in this folder or a parent)", HelpName = "DIR" }.MustExist();
 
     public Command Build(CliContext ctx)
     {

@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using System.Text.Json;
+using Emit.Emission;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Vectors;
@@ -16,11 +17,12 @@ public sealed class DiffCommand : ICliCommand
     public const string Caution =
         "a monitoring aid, not a safety function: this compares two models' judgements on the given vectors; defer to local codes and licensed practice.";
 
-    private readonly Argument<FileInfo> _old = new Argument<FileInfo>("OLD") { Description = "The model in use (.json or .npz)" }.AcceptExistingOnly();
-    private readonly Argument<FileInfo> _new = new Argument<FileInfo>("NEW") { Description = "The model to replace it (.json or .npz)" }.AcceptExistingOnly();
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Argument<FileInfo> _old = new Argument<FileInfo>("OLD") { Description = "The model in use (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _new = new Argument<FileInfo>("NEW") { Description = "The model to replace it (.json or .npz)" }.MustExist();
+    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true, HelpName = "DATA" };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo?> _json = new("--json") { Description = "Also write the comparison as JSON to this file" };
+    private readonly Option<bool> _json = new("--json") { Description = "Write the comparison as JSON to standard output instead of text" };
+    private readonly Option<string?> _report = new("--report") { Description = "Also write the comparison as JSON to this file", HelpName = "FILE" };
     private readonly Option<bool> _failOnChange = new("--fail-on-decision-change")
     {
         Description = "Exit 1 when any vector's unusual/usual decision changes (both models need a threshold)",
@@ -30,14 +32,25 @@ public sealed class DiffCommand : ICliCommand
     {
         var cmd = new Command("diff", "Compare two versions of a model on the same vectors: free-energy change, ranking agreement, changed decisions")
         {
-            _old, _new, _input, _json, _failOnChange, _force,
+            _old, _new, _input, _json, _report, _failOnChange, _force,
         };
         cmd.SetAction(parse =>
         {
             var oldPath = parse.GetRequiredValue(_old).FullName;
             var newPath = parse.GetRequiredValue(_new).FullName;
+            var reportPath = parse.GetValue(_report);
+            AtomicFile.RefuseInput(reportPath, oldPath, newPath, parse.GetRequiredValue(_input));
             var oldModel = ModelLoader.Load(oldPath);
             var newModel = ModelLoader.Load(newPath);
+            string oldName = Path.GetFileName(oldPath), newName = Path.GetFileName(newPath);
+            if (oldModel.Names.IsEmpty != newModel.Names.IsEmpty)
+                ctx.Error.WriteLine($"emit: warning: {(oldModel.Names.IsEmpty ? newName : oldName)} has unit names and " +
+                                    $"{(oldModel.Names.IsEmpty ? oldName : newName)} has none, so renamed or reordered units cannot be seen");
+            var firmware = ScorerInterface.Changes(ScorerInterface.Of(oldModel, oldPath), ScorerInterface.Of(newModel, newPath))
+                .Select(c => Settings.Render(c, SettingFlags.Render)).ToList();
+            if (oldModel.Visible != newModel.Visible)
+                foreach (var change in firmware)
+                    ctx.Error.WriteLine("emit: warning: breaks firmware built against the old scorer: " + change);
             bool failOnChange = parse.GetValue(_failOnChange);
             if (failOnChange && (oldModel.Threshold is null || newModel.Threshold is null))
                 throw new EmitException("--fail-on-decision-change needs a threshold in both models", "calibrate and store thresholds first",
@@ -45,9 +58,13 @@ public sealed class DiffCommand : ICliCommand
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), oldModel.Visible, ctx.In);
             VectorNames.Check(oldModel, reader);
             var report = ModelDiff.Compare(oldModel, newModel, reader);
-            WriteText(ctx.Out, report, Path.GetFileName(oldPath), Path.GetFileName(newPath));
-            if (parse.GetValue(_json) is { } json)
-                AtomicFile.WriteAllText(json.FullName, JsonText(report, Path.GetFileName(oldPath), Path.GetFileName(newPath)), parse.GetValue(_force));
+            if (parse.GetValue(_json)) ctx.Out.Write(JsonText(report, oldName, newName, firmware));
+            else WriteText(ctx.Out, report, oldName, newName, firmware);
+            if (reportPath is not null)
+            {
+                AtomicFile.WriteAllText(Path.GetFullPath(reportPath), JsonText(report, oldName, newName, firmware), parse.GetValue(_force));
+                if (!parse.GetValue(_json)) ctx.Out.WriteLine($"wrote {Path.GetFullPath(reportPath)}");
+            }
             return failOnChange && report.Decisions!.Changed > 0 ? CliApp.CheckFailed : CliApp.Ok;
         });
         return cmd;
@@ -57,7 +74,7 @@ public sealed class DiffCommand : ICliCommand
 
     private static string Signed(double x) => (x >= 0 ? "+" : "") + N(x);
 
-    private static void WriteText(TextWriter o, ModelDiffReport r, string oldName, string newName)
+    private static void WriteText(TextWriter o, ModelDiffReport r, string oldName, string newName, IReadOnlyList<string> firmware)
     {
         o.WriteLine($"{newName} against {oldName} on {r.Vectors} vectors (double-precision reference scorer)");
         foreach (var (label, name, s) in new[] { ("old", oldName, r.Old), ("new", newName, r.New) })
@@ -85,10 +102,14 @@ public sealed class DiffCommand : ICliCommand
         }
         foreach (var u in r.RenamedUnits)
             o.WriteLine($"note: unit {u.Unit} is \"{u.OldName}\" in {oldName} and \"{u.NewName}\" in {newName}; vectors are matched by column");
+        if (firmware.Count == 0)
+            o.WriteLine("firmware: nothing breaks code built against the old scorer (name, unit count, unit names, fixed-point energy format)");
+        foreach (var change in firmware)
+            o.WriteLine("firmware: breaks code built against the old scorer: " + change);
         o.WriteLine("Caution: " + Caution);
     }
 
-    private static string JsonText(ModelDiffReport r, string oldName, string newName)
+    private static string JsonText(ModelDiffReport r, string oldName, string newName, IReadOnlyList<string> firmware)
     {
         var text = new StringWriter { NewLine = "\n" };
         JsonOut.Write(text, w =>
@@ -141,6 +162,9 @@ public sealed class DiffCommand : ICliCommand
                 w.WriteString("new", u.NewName);
                 w.WriteEndObject();
             }
+            w.WriteEndArray();
+            w.WriteStartArray("firmware_changes");
+            foreach (var change in firmware) w.WriteStringValue(change);
             w.WriteEndArray();
             w.WriteEndObject();
         });

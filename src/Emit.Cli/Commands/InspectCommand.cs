@@ -10,26 +10,34 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit inspect MODEL [--json]</c>: kind, sizes, parameter statistics, hidden input ranges, table sizes, SHA-256.</summary>
 public sealed class InspectCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
-    private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON" };
-    private readonly Option<string?> _numeric = new("--numeric") { Description = "Also plan this numeric mode: fixed (Q formats, proved error bound, table sizes)" };
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON to standard output instead of text" };
+    private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
+        "--numeric", "Also plan this numeric mode (Q formats, proved error bound, table sizes)", [("fixed", NumericMode.Fixed)]);
     private readonly FixedPointOptionSet _fixed = new();
 
     public Command Build(CliContext ctx)
     {
-        _model.AcceptExistingOnly();
         var cmd = new Command("inspect", "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and SHA-256")
         {
             _model, _json, _numeric,
         };
-        _numeric.AcceptOnlyFromAmong("fixed");
         _fixed.AddTo(cmd);
         cmd.SetAction(parse =>
         {
             var path = parse.GetRequiredValue(_model).FullName;
             var model = ModelLoader.Load(path);
             var stats = ModelStatistics.Of(model);
-            var plan = parse.GetValue(_numeric) == "fixed" ? FixedPointPlanner.Build(model, _fixed.Read(parse)) : null;
+            FixedPointPlan? plan = null;
+            var fixedOptions = parse.GetValue(_numeric)?.Value == NumericMode.Fixed ? _fixed.Read(parse) : null;
+            try
+            {
+                if (fixedOptions is not null) plan = FixedPointPlanner.Build(model, fixedOptions);
+            }
+            catch (EmitException e) when (e.File is null && e.Line is null)
+            {
+                throw e.InFile(path);
+            }
             if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan);
             else WriteText(ctx.Out, path, model, stats, plan);
             return CliApp.Ok;

@@ -9,17 +9,15 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit logz MODEL --method exact [--json] [--store]</c>: the log partition function.</summary>
 public sealed class LogzCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
-    private readonly Option<string> _method = new("--method")
-    {
-        Description = "How to compute log Z: exact (enumeration) or ais (annealed importance sampling, for larger models)",
-        DefaultValueFactory = _ => "exact",
-    };
-    private readonly Option<int> _chains = new("--chains") { Description = "AIS: independent chains", DefaultValueFactory = _ => new AisOptions().Chains };
-    private readonly Option<int> _steps = new("--steps") { Description = "AIS: annealing steps from the base model to the model", DefaultValueFactory = _ => new AisOptions().Steps };
-    private readonly Option<ulong> _seed = new("--seed") { Description = "AIS: random seed (same seed, same result)", DefaultValueFactory = _ => new AisOptions().Seed };
-    private readonly Option<bool> _json = new("--json") { Description = "Write the result as JSON" };
-    private readonly Option<bool> _store = new("--store") { Description = "Write the result into the model file's log_partition (JSON models only)" };
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<Chosen<LogZMethod>> _method = CliOptions.Choice(
+        "--method", "How to compute log Z: exact (enumeration) or ais (annealed importance sampling, for larger models)",
+        [("exact", LogZMethod.Exact), ("ais", LogZMethod.Ais)], "exact");
+    private readonly Option<int> _chains = CliOptions.Number("--chains", "AIS: independent chains", 1, int.MaxValue, new AisOptions().Chains);
+    private readonly Option<int> _steps = CliOptions.Number("--steps", "AIS: annealing steps from the base model to the model", 1, int.MaxValue, new AisOptions().Steps);
+    private readonly Option<ulong> _seed = CliOptions.Number("--seed", "AIS: random seed (same seed, same result)", ulong.MinValue, ulong.MaxValue, new AisOptions().Seed);
+    private readonly Option<bool> _json = new("--json") { Description = "Write the result as JSON to standard output instead of text" };
+    private readonly Option<bool> _store = new("--store") { Description = "Also write the result into MODEL's log_partition, replacing MODEL (JSON models only)" };
 
     /// <summary>Above this many states a progress bar is shown on stderr.</summary>
     public const long ProgressStates = 1L << 20;
@@ -29,8 +27,6 @@ public sealed class LogzCommand : ICliCommand
 
     public Command Build(CliContext ctx)
     {
-        _model.AcceptExistingOnly();
-        _method.AcceptOnlyFromAmong("exact", "ais");
         var cmd = new Command("logz", "Compute the log partition function log Z of a model, exactly or by sampling")
         {
             _model, _method, _chains, _steps, _seed, _json, _store,
@@ -42,7 +38,7 @@ public sealed class LogzCommand : ICliCommand
             bool store = parse.GetValue(_store);
             if (store && path.EndsWith(".npz", StringComparison.OrdinalIgnoreCase))
                 throw new EmitException("--store needs a JSON model", "run emit import first", path);
-            var (logZ, stderr, method, states, seconds, detail) = parse.GetValue(_method) == "ais"
+            var (logZ, stderr, method, states, seconds, detail) = parse.GetValue(_method)!.Value == LogZMethod.Ais
                 ? Ais(model, new AisOptions(parse.GetValue(_chains), parse.GetValue(_steps), parse.GetValue(_seed)))
                 : Exact(ctx, model);
             if (store)
@@ -79,7 +75,7 @@ public sealed class LogzCommand : ICliCommand
         long states = ExactLogPartition.States(model);
         if (states > EstimateStates)
             ctx.Error.WriteLine($"emit: exact log Z visits {states} states; estimated {ExactLogPartition.EstimateSeconds(model):F0} s on {Environment.ProcessorCount} cores");
-        var r = states > ProgressStates && ReferenceEquals(ctx.Error, Console.Error) && !Console.IsErrorRedirected
+        var r = states > ProgressStates && ctx.ErrorIsConsole && !Console.IsErrorRedirected
             ? WithProgressBar(model, states)
             : ExactLogPartition.Compute(model);
         return (r.LogPartition, 0.0, "exact", r.States, r.Seconds, r.Enumerated);

@@ -12,21 +12,22 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class ScoreCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true, HelpName = "DATA" };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output)" };
+    private readonly Option<string?> _output = new("--output", "-o") { Description = "CSV file to write, or - for standard output (the default)", HelpName = "FILE" };
 
     public Command Build(CliContext ctx)
     {
-        _model.AcceptExistingOnly();
         var cmd = new Command("score", "Score vectors with the double-precision reference: free energy, log-probability (when the model has log Z) and the unusual flag (when it has a threshold)")
         {
             _model, _input, _output, _force,
         };
         cmd.SetAction(parse =>
         {
-            var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
+            var modelPath = parse.GetRequiredValue(_model).FullName;
+            AtomicFile.RefuseInput(parse.GetValue(_output), modelPath, parse.GetRequiredValue(_input));
+            var model = ModelLoader.Load(modelPath);
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
             VectorNames.Check(model, reader);
             TextOutput.Write(parse.GetValue(_output), parse.GetValue(_force), ctx.Out, w => Score(model, reader, w));
@@ -52,6 +53,10 @@ public sealed class ScoreCommand : ICliCommand
             scorer.FreeEnergies(units, rows, f);
             for (int r = 0; r < rows; r++)
             {
+                // A free energy outside double precision has no meaningful score or decision: an error, not a row.
+                if (!double.IsFinite(f[r]))
+                    throw new EmitException($"vector {index}: the free energy is {(double.IsNaN(f[r]) ? "not a number" : "beyond double precision")}",
+                        "the model's parameters are too large to score; scale them down", reader.Source);
                 line.Clear().Append(index++).Append(',').Append(f[r].ToString("R", fmt));
                 if (logP) line.Append(',').Append(scorer.LogProbability(f[r]).ToString("R", fmt));
                 if (flag) line.Append(',').Append(f[r] > model.Threshold!.Value ? '1' : '0');

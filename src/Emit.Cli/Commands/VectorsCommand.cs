@@ -6,32 +6,38 @@ using Emit.Vectors;
 
 namespace Emit.Cli.Commands;
 
-/// <summary><c>emit vectors MODEL --count N --out FILE.csv [--seed S] [--from DATA]</c>: deterministic test vectors.</summary>
+/// <summary><c>emit vectors MODEL --count N -o FILE.csv [--seed S] [--from DATA]</c>: deterministic test vectors.</summary>
 public sealed class VectorsCommand : ICliCommand
 {
     /// <summary>Most rows of DATA kept in memory to draw from.</summary>
     public const int MaxDataRows = 100_000;
 
-    private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
-    private readonly Option<int> _count = new("--count", "-n") { Description = "Number of vectors", Required = true };
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<int> _count = CliOptions.Number("--count", "Number of vectors", 1, MaxCount, aliases: ["-n"]);
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo> _out = new("--out", "-o") { Description = "CSV file to write", Required = true };
-    private readonly Option<ulong> _seed = new("--seed") { Description = "Random seed (same seed, same file)", DefaultValueFactory = _ => 1UL };
-    private readonly Option<string?> _from = new("--from") { Description = "Vector file to draw some rows from (its first 100000 rows)" };
-    private readonly Option<int> _burnIn = new("--burn-in") { Description = "Gibbs sweeps discarded before sampling", DefaultValueFactory = _ => 1000 };
+    private readonly (Option<string> Output, Option<string> Former) _output = CliOptions.Output("CSV file to write, or - for standard output");
+    private readonly Option<ulong> _seed = CliOptions.Number("--seed", "Random seed (same seed, same file)", ulong.MinValue, ulong.MaxValue, 1UL);
+    private readonly Option<string?> _from = new("--from") { Description = "Vector file to draw some rows from (its first 100000 rows), or - for standard input", HelpName = "DATA" };
+    private readonly Option<int> _burnIn = CliOptions.Number("--burn-in", "Gibbs sweeps discarded before sampling", 0, int.MaxValue, 1000);
+
+    /// <summary>Most vectors one run writes.</summary>
+    public const int MaxCount = 100_000_000;
 
     public Command Build(CliContext ctx)
     {
-        _model.AcceptExistingOnly();
-        _count.Validators.Add(r => { if (r.GetValueOrDefault<int>() < 1) r.AddError("--count must be at least 1"); });
+        _count.Required = true;
         var cmd = new Command("vectors",
             "Generate test vectors: all-off, all-on, each hidden unit's input maximiser and minimiser, pairs across the threshold, Gibbs samples from the model, rows of DATA")
         {
-            _model, _count, _out, _seed, _from, _burnIn, _force,
+            _model, _count, _output.Output, _output.Former, _seed, _from, _burnIn, _force,
         };
         cmd.SetAction(parse =>
         {
-            var model = ModelLoader.Load(parse.GetRequiredValue(_model).FullName);
+            var modelPath = parse.GetRequiredValue(_model).FullName;
+            var path = CliOptions.ReadOutput(parse, _output, ctx.Error)
+                       ?? throw new EmitException("no output file given", "name one with -o/--output FILE, or - for standard output");
+            AtomicFile.RefuseInput(path, modelPath, parse.GetValue(_from));
+            var model = ModelLoader.Load(modelPath);
             List<byte[]>? data = null;
             if (parse.GetValue(_from) is { } from)
             {
@@ -41,14 +47,14 @@ public sealed class VectorsCommand : ICliCommand
                 while (data.Count < MaxDataRows && reader.TryRead(row)) data.Add(row.ToArray());
             }
             var set = TestVectorSet.Generate(model, new TestVectorOptions(parse.GetValue(_count), parse.GetValue(_seed), parse.GetValue(_burnIn)), data);
-            var path = parse.GetRequiredValue(_out).FullName;
-            AtomicFile.Write(path, parse.GetValue(_force), stream =>
+            TextOutput.Write(path, parse.GetValue(_force), ctx.Out, w =>
             {
-                using var w = new StreamWriter(stream, new UTF8Encoding(false));
                 var vw = new VectorWriter(w, model.Names);
                 foreach (var v in set) vw.Write(v.Units);
             });
-            ctx.Out.WriteLine($"wrote {set.Count} vectors to {path}: " +
+            // With the vectors on standard output, the summary goes to standard error.
+            (TextOutput.IsStdout(path) ? ctx.Error : ctx.Out).WriteLine(
+                $"wrote {set.Count} vectors to {(TextOutput.IsStdout(path) ? "standard output" : Path.GetFullPath(path))}: " +
                 string.Join(", ", set.GroupBy(v => v.Origin).Select(g => $"{g.Count()} {Describe(g.Key)}")));
             return CliApp.Ok;
         });

@@ -13,27 +13,25 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class VerifyCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.AcceptExistingOnly();
+    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
 
-    private readonly Option<string> _target = new("--target")
-    {
-        Description = $"Where to run the generated code, comma-separated: {Runners.NameList}",
-        DefaultValueFactory = _ => "c",
-    };
+    private readonly Option<string[]> _target = CliOptions.ChoiceList(
+        "--target", "Where to run the generated code, comma-separated", Runners.All.Select(r => r.Name).ToArray(), "c");
 
-    private readonly Option<string?> _numeric = new("--numeric") { Description = "f64, f32 or fixed (default: as stamped in --generated sources, else f32)" };
+    private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
+        "--numeric", "Arithmetic of the scorer to check (default: as stamped in --generated sources, else f32)", NumericChoices.All);
     private readonly FixedPointOptionSet _fixed = new();
-    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated") { Description = "Check the sources emit compile wrote to this folder instead of generating them" }.AcceptExistingOnly();
+    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated") { Description = "Check the sources emit compile wrote to this folder instead of generating them", HelpName = "DIR" }.MustExist();
     private readonly Option<string?> _name = new("--name") { Description = "Scorer name (default: the one scorer in --generated, else from the model file name)" };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo?> _report = new("--report") { Description = "Write the JSON report here (see docs/verify-report.md)" };
-    private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Write a JUnit XML report here, one testcase per target" };
-    private readonly Option<FileInfo?> _plot = new("--plot") { Description = "Write a PNG histogram of the errors per target here" };
+    private readonly Option<FileInfo?> _report = new("--report") { Description = "Also write the JSON report to this file (see docs/verify-report.md)", HelpName = "FILE" };
+    private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Also write a JUnit XML report to this file, one testcase per target", HelpName = "FILE" };
+    private readonly Option<FileInfo?> _plot = new("--plot") { Description = "Also write a PNG histogram of the errors per target to this file", HelpName = "FILE" };
     private readonly Option<string?> _cc = new("--cc") { Description = "Host C compiler for target c (default: $CC, else cc)" };
     private readonly Option<string> _cflags = new("--cflags") { Description = "Extra flags for the host C compile, after the strict ones", DefaultValueFactory = _ => "" };
-    private readonly Option<int> _timeout = new("--timeout") { Description = "Seconds allowed for each build and each run of generated code", DefaultValueFactory = _ => (int)RunnerSettings.DefaultTimeout.TotalSeconds };
-    private readonly Option<DirectoryInfo?> _work = new("--work") { Description = "Build in this folder and keep it (default: a temporary folder, deleted)" };
+    private readonly Option<int> _timeout = CliOptions.Number("--timeout", "Seconds allowed for each build and each run of generated code", 1, 86400, (int)RunnerSettings.DefaultTimeout.TotalSeconds);
+    private readonly Option<DirectoryInfo?> _work = new("--work") { Description = "Build in this folder and keep it (default: a temporary folder, deleted)", HelpName = "DIR" };
 
     public Command Build(CliContext ctx)
     {
@@ -49,12 +47,16 @@ public sealed class VerifyCommand : ICliCommand
     private int Run(CliContext ctx, ParseResult parse)
     {
         var modelPath = parse.GetRequiredValue(_model).FullName;
-        NumericMode? mode = null;
-        if (parse.GetValue(_numeric) is { } numeric)
-            mode = NumericModeNames.Parse(numeric) ?? throw new EmitException($"--numeric {Naming.CommentText(numeric)} is unknown", "use f64, f32 or fixed");
+        bool force = parse.GetValue(_force);
+        foreach (var output in new[] { parse.GetValue(_report), parse.GetValue(_junit), parse.GetValue(_plot) })
+        {
+            if (output is null) continue;
+            AtomicFile.RefuseInput(output.FullName, modelPath, parse.GetRequiredValue(_input));
+            AtomicFile.Precheck(output.FullName, force);
+        }
+        NumericMode? mode = parse.GetValue(_numeric)?.Value;
         bool fixedGiven = new Option[] { _fixed.Weights, _fixed.Accumulator, _fixed.SoftplusTable }.Any(o => parse.GetResult(o) is { Implicit: false });
         int timeout = parse.GetValue(_timeout);
-        if (timeout < 1) throw new EmitException($"--timeout {timeout} is not allowed", "give a number of seconds, at least 1");
         var model = ModelLoader.Load(modelPath);
         var request = new VerifyRequest
         {
@@ -62,7 +64,7 @@ public sealed class VerifyCommand : ICliCommand
             ModelLabel = Path.GetFileName(modelPath),
             InputPath = parse.GetRequiredValue(_input),
             Stdin = ctx.In,
-            Targets = parse.GetValue(_target)!.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries),
+            Targets = parse.GetValue(_target)!,
             Numeric = mode,
             Fixed = fixedGiven || mode == NumericMode.Fixed && parse.GetValue(_generated) is null ? _fixed.Read(parse) : null,
             GeneratedDirectory = parse.GetValue(_generated)?.FullName,

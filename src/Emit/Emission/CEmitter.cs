@@ -28,7 +28,7 @@ public sealed partial class CEmitter : ITargetEmitter
             ];
         }
         var plan = scorer as FloatScorerPlan
-                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()}");
+                   ?? throw new EmitException($"the {Name} target has no layout for {Setting.Numeric.Ref()} {scorer.Mode.ToText()}");
         var model = BuildModel(plan);
         return
         [

@@ -33,7 +33,7 @@ public sealed partial class CSharpEmitter : ITargetEmitter
             return [new GeneratedFile(fixedModel.FileName, templates.Render(Name, FixedTemplate, fixedModel))];
         }
         var plan = scorer as FloatScorerPlan
-                   ?? throw new EmitException($"the {Name} target has no layout for --numeric {scorer.Mode.ToText()}");
+                   ?? throw new EmitException($"the {Name} target has no layout for {Setting.Numeric.Ref()} {scorer.Mode.ToText()}");
         var model = BuildModel(plan);
         return [new GeneratedFile(model.FileName, templates.Render(Name, FloatTemplate, model))];
     }

@@ -102,7 +102,7 @@ public sealed class FixedScorerPlan : ScorerPlan
     {
         if (options.Numeric != NumericMode.Fixed) throw new ArgumentException("fixed mode only", nameof(options));
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
-            throw new EmitException($"--selftest-vectors {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
+            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
         plan ??= FixedPointPlanner.Build(model, options.FixedOptions);

@@ -42,7 +42,7 @@ public sealed class FloatScorerPlan : ScorerPlan
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
-            throw new EmitException($"--selftest-vectors {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
+            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
 
         var plan = new FloatScorerPlan(model, options, modelLabel);
         ImmutableArray<double> Rounded(ImmutableArray<double> values, string what)

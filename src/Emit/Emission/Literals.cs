@@ -19,7 +19,7 @@ public static class Literals
         {
             float f = (float)value;
             if (!float.IsFinite(f))
-                throw new EmitException($"{what} = {value.ToString("R", CultureInfo.InvariantCulture)} does not fit in a 32-bit float", "use --numeric f64");
+                throw new EmitException($"{what} = {value.ToString("R", CultureInfo.InvariantCulture)} does not fit in a 32-bit float", $"use {Setting.Numeric.Ref()} f64");
             return f;
         }
         return value;

@@ -13,7 +13,7 @@ public static class ScorerCompiler
     {
         Naming.CheckScorerName(options.Name);
         Naming.CheckNamespace(options.Namespace);
-        if (options.Targets.Count == 0) throw new EmitException("no target given", $"use --target with one or more of: {Targets.NameList}");
+        if (options.Targets.Count == 0) throw new EmitException("no target given", $"use {Setting.Targets.Ref()} with one or more of: {Targets.NameList}");
         var emitters = new List<ITargetEmitter>();
         foreach (var name in options.Targets)
         {

@@ -13,7 +13,7 @@ public sealed class HostCRunner : ITargetRunner
 
     private static Tool Compiler(RunnerSettings settings) => new(settings.HostCompiler().Program, "gcc", "C compiler");
 
-    public void CheckTools(RunnerSettings settings) => Compiler(settings).Require(Name, "pass --cc PATH");
+    public void CheckTools(RunnerSettings settings) => Compiler(settings).Require(Name, $"pass {Setting.CCompiler.Ref()} PATH");
 
     /// <summary>
     /// Compiles the generated C and the harness main into an executable in <paramref name="workDirectory"/>; returns its
@@ -22,7 +22,7 @@ public sealed class HostCRunner : ITargetRunner
     public static string? Build(ScorerSources sources, HarnessLayout layout, RunnerSettings settings, string workDirectory, out string failure)
     {
         var (program, prefix) = settings.HostCompiler();
-        var cc = Compiler(settings).Require("c", "pass --cc PATH");
+        var cc = Compiler(settings).Require("c", $"pass {Setting.CCompiler.Ref()} PATH");
         Directory.CreateDirectory(workDirectory);
         var main = Path.Combine(workDirectory, "emit-harness-main.c");
         File.WriteAllText(main, HarnessTemplates.Main(sources, layout, "emit-harness-main.c"));

@@ -20,7 +20,7 @@ public static class Verifier
     public static VerifyReport Run(VerifyRequest request)
     {
         var model = request.Model;
-        if (request.Targets.Count == 0) throw new EmitException("no target given", $"use --target with one or more of: {Runners.NameList}");
+        if (request.Targets.Count == 0) throw new EmitException("no target given", $"use {Setting.Targets.Ref()} with one or more of: {Runners.NameList}");
         var runners = new List<ITargetRunner>();
         foreach (var name in request.Targets)
         {
@@ -39,7 +39,7 @@ public static class Verifier
                 located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
         var mode = ResolveMode(request, located.Values);
         if (request.Fixed is not null && mode != NumericMode.Fixed)
-            throw new EmitException($"--weights, --accumulator and --softplus-table apply to --numeric fixed, not {mode.ToText()}", "leave them out, or use --numeric fixed");
+            throw new EmitException($"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}", $"leave them out, or use {Setting.Numeric.Ref()} fixed");
         var fixedOptions = mode == NumericMode.Fixed ? request.Fixed ?? StampedFixedOptions(located.Values) : null;
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
@@ -169,11 +169,11 @@ public static class Verifier
         {
             if (!s.StampedOptions.TryGetValue("--numeric", out var text) || NumericModeNames.Parse(text) is not { } m) continue;
             if (stamped is { } other && other != m)
-                throw new EmitException($"the C and C# sources were generated with different numeric modes ({other.ToText()}, {m.ToText()})", "regenerate them with the same --numeric", s.Directory);
+                throw new EmitException($"the C and C# sources were generated with different numeric modes ({other.ToText()}, {m.ToText()})", $"regenerate them with the same {Setting.Numeric.Ref()}", s.Directory);
             stamped = m;
             if (request.Numeric is { } asked && asked != m)
-                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with --numeric {m.ToText()}, not {asked.ToText()}",
-                    $"pass --numeric {m.ToText()}, or leave --numeric out to take it from the sources", s.SourceFile);
+                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with {Setting.Numeric.Ref()} {m.ToText()}, not {asked.ToText()}",
+                    $"pass {Setting.Numeric.Ref()} {m.ToText()}, or leave {Setting.Numeric.Ref()} out to take it from the sources", s.SourceFile);
         }
         return request.Numeric ?? stamped ?? NumericMode.F32;
     }

@@ -132,7 +132,7 @@ public static class ProjectFile
                 {
                     case "model":
                         model = PathValue(field);
-                        if (!File.Exists(model)) throw _c.Error($"{field}: model file not found: {Naming.CommentText(model)}", "paths are relative to the project file's folder");
+                        if (!File.Exists(model)) throw _c.Error($"{field}: file not found: {Naming.CommentText(model)}", "check the path; paths are relative to the project file's folder");
                         break;
                     case "name":
                         name = _c.String(field);

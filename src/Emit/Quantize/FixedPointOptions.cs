@@ -24,7 +24,7 @@ public sealed record FixedPointOptions(
     public void Validate()
     {
         if (SoftplusTableSize < MinTableSize || SoftplusTableSize > MaxTableSize || !BitOperations.IsPow2(SoftplusTableSize))
-            throw new EmitException($"--softplus-table {SoftplusTableSize} is not allowed",
+            throw new EmitException($"{Setting.SoftplusTable.Ref()} {SoftplusTableSize} is not allowed",
                 $"use a power of two from {MinTableSize} to {MaxTableSize}");
         if (!Enum.IsDefined(Weights))
             throw new EmitException($"weight type {Weights} is unknown", "use int8, int16 or int32");

@@ -44,7 +44,7 @@ public static class FixedPointPlanner
         {
             var only = search.Best(forced) is { } found ? search.Refine(found) : throw new EmitException(
                 $"no fixed-point format keeps every intermediate of this model within {forced.ToText()}",
-                forced == AccumulatorType.Int32 ? "use --accumulator int64 or auto" : "the model's weights are too large for fixed point");
+                forced == AccumulatorType.Int32 ? $"use {Setting.Accumulator.Ref()} int64 or auto" : "the model's weights are too large for fixed point");
             return search.Materialize(only, $"{forced.ToText()} as requested");
         }
         var p32 = search.Best(AccumulatorType.Int32) is { } c32 ? search.Refine(c32) : null;

@@ -45,7 +45,7 @@ public static class ExactLogPartition
 
     private static EmitException TooLarge(string what, int units, int limit) =>
         new($"exact log Z would enumerate 2^{units} {what} states, more than the 2^{limit} allowed",
-            "use --method ais, the sampling estimate, for a model this size");
+            $"use {Setting.Method.Ref()} ais, the sampling estimate, for a model this size");
 
     private static EnumerationPlan Plan(BoltzmannModel m)
     {

@@ -191,7 +191,7 @@ public sealed class CompileCommandTests
     public void Help_lists_the_targets_from_the_target_table()
     {
         var (_, stdout, _) = Emit("compile", "--help");
-        Assert.Contains(Targets.NameList, stdout);
+        Assert.Contains("--target <" + string.Join("|", Targets.All.Select(t => t.Name)) + ",...>", stdout);
     }
 
     [Fact]

@@ -15,8 +15,8 @@ public sealed class VectorsCommandTests
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
         ModelJson.WriteFile(m, model, force: true);
-        var a = CliRunner.Run("vectors", model, "--count", "50", "--out", Path.Combine(dir, "a.csv"), "--seed", "4");
-        var b = CliRunner.Run("vectors", model, "--count", "50", "--out", Path.Combine(dir, "b.csv"), "--seed", "4");
+        var a = CliRunner.Run("vectors", model, "--count", "50", "-o", Path.Combine(dir, "a.csv"), "--seed", "4");
+        var b = CliRunner.Run("vectors", model, "--count", "50", "-o", Path.Combine(dir, "b.csv"), "--seed", "4");
         Assert.Equal(0, a.ExitCode);
         Assert.Equal(0, b.ExitCode);
         Assert.Equal(File.ReadAllBytes(Path.Combine(dir, "a.csv")), File.ReadAllBytes(Path.Combine(dir, "b.csv")));
@@ -35,7 +35,7 @@ public sealed class VectorsCommandTests
     {
         var model = Path.Combine(CliRunner.TempDir(), "m.json");
         ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 3, 2, 1), model, force: true);
-        var r = CliRunner.Run("vectors", model, "--count", "0", "--out", "x.csv");
+        var r = CliRunner.Run("vectors", model, "--count", "0", "-o", "x.csv");
         Assert.Equal(2, r.ExitCode);
     }
 }

@@ -340,10 +340,10 @@ public sealed class VerifyCommandTests
     }
 
     [Theory]
-    [InlineData("--target", "c,riscv", "unknown target \"riscv\"")]
-    [InlineData("--numeric", "f16", "--numeric f16 is unknown")]
+    [InlineData("--target", "c,riscv", "--target: 'riscv' is not one of c, csharp, cortex-m3")]
+    [InlineData("--numeric", "f16", "--numeric: 'f16' is not one of f32, f64, fixed")]
     [InlineData("--weights", "int8", "apply to --numeric fixed")]
-    [InlineData("--timeout", "0", "--timeout 0 is not allowed")]
+    [InlineData("--timeout", "0", "--timeout: '0' is not a whole number from 1 to 86400")]
     public void Bad_options_are_exit_2(string option, string value, string message)
     {
         var (_, model, vectors) = Setup("verify-bad", Lateral.Model, count: 4);

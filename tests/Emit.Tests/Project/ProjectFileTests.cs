@@ -95,7 +95,7 @@ public sealed class ProjectFileTests
         { Head + "\"scorers\": []}", "[", "scorers is empty" },
         { Head + "\"scorers\": [{\"model\": \"m.json\"},]}", "]}", "not valid JSON" },
         { Head + "\"scorers\": [{}]}", "{", "scorers[0] has no model" },
-        { Head + "\"scorers\": [{\"model\": \"nope.json\"}]}", "\"nope", "model file not found" },
+        { Head + "\"scorers\": [{\"model\": \"nope.json\"}]}", "\"nope", "file not found" },
         { Head + "\"scorers\": [{\"model\": \"\"}]}", "\"\"", "scorers[0].model is empty" },
         { Head + "\"scorers\": [{\"model\": \"a\\u0000b\"}]}", "\"a", "characters a path cannot have" },
         { Head + "\"scorers\": [{\"model\": 5}]}", "5", "expected a string for scorers[0].model" },

@@ -126,7 +126,7 @@ public sealed class ModelDiffTests
         ModelJson.WriteFile(WithBias(Old, 4, 0.75), newPath, force: true);
         File.WriteAllText(data, string.Concat(Vectors(500, 4).Select(v => string.Join(",", v) + "\n")));
 
-        var plain = CliRunner.Run("diff", oldPath, newPath, "--input", data, "--json", Path.Combine(dir, "d.json"));
+        var plain = CliRunner.Run("diff", oldPath, newPath, "--input", data, "--report", Path.Combine(dir, "d.json"));
         Assert.True(plain.ExitCode == 0, plain.Error);
         Assert.Contains("no longer unusual", plain.Out);
         Assert.Contains("not a safety function", plain.Out);
