@@ -96,8 +96,8 @@ public sealed class CompileCommand : ICliCommand
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
-        var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);
-        foreach (var path in OutputFolder.Write(outDir, files, force))
+        var compiled = ScorerCompiler.Build(model, Path.GetFileName(modelPath), options);
+        foreach (var path in OutputFolder.Write(outDir, compiled, force))
             ctx.Out.WriteLine($"wrote {path}");
         return CliApp.Ok;
     }
