@@ -59,6 +59,10 @@ public sealed class VerifyCommand : ICliCommand
         bool fixedGiven = new Option[] { _fixed.Weights, _fixed.Accumulator, _fixed.SoftplusTable }.Any(o => parse.GetResult(o) is { Implicit: false });
         int timeout = parse.GetValue(_timeout);
         if (timeout < 1) throw new EmitException($"--timeout {timeout} is not allowed", "give a number of seconds, at least 1");
+        if (parse.GetValue(_generated) is null)
+            foreach (var option in new Option[] { _allowModelChange, _templates })
+                if (parse.GetResult(option) is { Implicit: false })
+                    throw new EmitException($"{option.Name} applies to existing sources only", "add --generated DIR, or leave the option out");
         var model = ModelLoader.Load(modelPath);
         var request = new VerifyRequest
         {

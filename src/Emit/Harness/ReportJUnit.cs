@@ -39,6 +39,8 @@ public static class ReportJUnit
         Property(w, "input", report.Input);
         Property(w, "vectors", report.Vectors.ToString(inv));
         Property(w, "tool", "emit " + report.ToolVersion);
+        Property(w, "allow_model_change", report.AllowModelChange ? "true" : "false");
+        Property(w, "fail_on_decision_mismatch", report.FailOnDecisionMismatch ? "true" : "false");
         w.WriteEndElement();
         foreach (var t in report.Targets)
         {

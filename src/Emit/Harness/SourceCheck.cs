@@ -66,7 +66,8 @@ public static class SourceCheck
         {
             var path = Path.Combine(sources.Directory, entry.File);
             string found;
-            try { found = File.ReadAllText(path); }
+            // decoded without dropping a byte-order mark, so every byte counts
+            try { found = new UTF8Encoding(false).GetString(File.ReadAllBytes(path)); }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException) { throw new EmitException($"cannot read: {e.Message}", null, path); }
             if (!expected.TryGetValue(entry.File, out var want))
             {
@@ -78,6 +79,12 @@ public static class SourceCheck
             var (line, wantLine, foundLine) = FirstDifference(want, found);
             edits.Add(new SourceEdit(entry.File, line, wantLine, foundLine, asWritten));
             string where = $"line {line}: emit generates {Quote(wantLine)}, the file has {Quote(foundLine)}";
+            if (found.Replace("\r\n", "\n", StringComparison.Ordinal) == want)
+            {
+                failures.Add($"{entry.File}: line ends changed to CRLF after generation (a checkout converting line ends?), first at line {line}; " +
+                             "emit writes LF: keep the file as written (e.g. a .gitattributes line '* -text' for the folder)");
+                continue;
+            }
             failures.Add(asWritten
                 ? $"{entry.File}: not what emit {ScorerPlan.ToolVersion} generates from {Naming.CommentText(m.ModelFile)} with the recorded options " +
                   $"(the sources were written by emit {m.ToolVersion}{(templateNotes.Count > 0 ? "; " + string.Join("; ", templateNotes) : "")}); first difference at {where}; regenerate the sources"

@@ -214,4 +214,28 @@ public sealed class VerifyGeneratedTests
         Assert.Contains("FAIL c: 1 of 1 decisions differ from the reference", strict.Out);
         Assert.True(JsonDocument.Parse(File.ReadAllText(json)).RootElement.GetProperty("fail_on_decision_mismatch").GetBoolean());
     }
+
+    [SkippableFact]
+    public void Line_ends_changed_by_a_checkout_are_named_as_such()
+    {
+        VerifyCases.Require("c");
+        var (_, model, vectors, gen) = Compiled("verify-crlf", "--target", "c");
+        var path = Path.Combine(gen, "plant.h");
+        File.WriteAllText(path, File.ReadAllText(path).Replace("\n", "\r\n", StringComparison.Ordinal));
+        var r = CliRunner.Run("verify", model, "--input", vectors, "--generated", gen);
+        Assert.True(r.ExitCode == 1, r.Out + r.Error);
+        Assert.Contains("FAIL c: plant.h: line ends changed to CRLF after generation", r.Out);
+    }
+
+    [Theory]
+    [InlineData("--allow-model-change")]
+    [InlineData("--templates")]
+    public void Options_for_existing_sources_without_generated_are_exit_2(string option)
+    {
+        var (dir, model, vectors, _) = Compiled("verify-no-generated", "--target", "c");
+        string[] args = option == "--templates" ? [option, dir] : [option];
+        var r = CliRunner.Run(["verify", model, "--input", vectors, .. args]);
+        Assert.Equal(2, r.ExitCode);
+        Assert.Contains($"{option} applies to existing sources only", r.Error);
+    }
 }
