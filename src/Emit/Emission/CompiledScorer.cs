@@ -6,13 +6,15 @@ namespace Emit.Emission;
 /// </summary>
 public sealed class CompiledScorer
 {
-    internal CompiledScorer(ScorerPlan plan, IReadOnlyList<string> targets, IReadOnlyList<(string Target, GeneratedFile File)> files, IReadOnlyList<TemplateUse> templates)
+    internal CompiledScorer(ScorerPlan plan, IReadOnlyList<string> targets,
+        IReadOnlyList<(string Target, GeneratedFile File)> files, IReadOnlyList<TemplateUse> templates)
     {
         Plan = plan;
         Files = files.Select(f => f.File).ToArray();
         Templates = templates;
         Manifest = SourceManifest.Describe(plan, targets, files, templates);
-        ManifestFile = new GeneratedFile(SourceManifest.FileNameFor(plan.Options.Name), SourceManifestJson.Write(Manifest));
+        ManifestFile = new GeneratedFile(SourceManifest.FileNameFor(plan.Options.Name),
+            SourceManifestJson.Write(Manifest));
     }
 
     /// <summary>The scorer plan every target laid out.</summary>

@@ -41,7 +41,10 @@ public sealed record SourceManifest
 
     public required int Hidden { get; init; }
 
-    /// <summary>The compile options, every one (a templates folder only as "custom": paths differ between machines).</summary>
+    /// <summary>
+    /// The targets compiled; this and the properties down to <see cref="Fixed"/> are every compile option (a
+    /// templates folder only as "custom": paths differ between machines).
+    /// </summary>
     public required IReadOnlyList<string> Targets { get; init; }
 
     public required NumericMode Numeric { get; init; }
@@ -52,10 +55,12 @@ public sealed record SourceManifest
 
     public required int SelfTestVectors { get; init; }
 
-    /// <summary>True when a templates folder overrode shipped templates (see <see cref="Templates"/> for which).</summary>
+    /// <summary>True when a templates folder overrode shipped templates (<see cref="Templates"/> says which).</summary>
     public required bool CustomTemplates { get; init; }
 
-    /// <summary>Fixed mode: the fixed-point options as given (accumulator null: chosen by emit); null in the float modes.</summary>
+    /// <summary>
+    /// Fixed mode: the fixed-point options as given (accumulator null: chosen by emit); null in the float modes.
+    /// </summary>
     public FixedPointOptions? Fixed { get; init; }
 
     /// <summary>The type of the scorer's result: f32, f64, int32 or int64.</summary>
@@ -102,10 +107,12 @@ public sealed record SourceManifest
     /// given when <see cref="CustomTemplates"/> is set.
     /// </summary>
     public CompileOptions ToCompileOptions(IReadOnlyList<string> targets, string? templatesDirectory) =>
-        new(targets, Numeric, Name, Namespace, SelfTestVectors, templatesDirectory, Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null);
+        new(targets, Numeric, Name, Namespace, SelfTestVectors, templatesDirectory,
+            Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null);
 
     /// <summary>The manifest for a compilation.</summary>
-    internal static SourceManifest Describe(ScorerPlan plan, IReadOnlyList<string> targets, IReadOnlyList<(string Target, GeneratedFile File)> files, IReadOnlyList<TemplateUse> templates)
+    internal static SourceManifest Describe(ScorerPlan plan, IReadOnlyList<string> targets,
+        IReadOnlyList<(string Target, GeneratedFile File)> files, IReadOnlyList<TemplateUse> templates)
     {
         var options = plan.Options;
         var utf8 = new UTF8Encoding(false);
@@ -132,12 +139,15 @@ public sealed record SourceManifest
             ErrorBound = plan.ErrorBound,
             Threshold = plan.Model.Threshold,
             ThresholdUnits = fixedPlan?.ThresholdUnits,
-            CSharpClass = targets.Contains("csharp") ? Naming.ClassName(options.Name, CSharpEmitter.ClassMembers) : null,
+            CSharpClass = targets.Contains("csharp")
+                ? Naming.ClassName(options.Name, CSharpEmitter.ClassMembers)
+                : null,
             Templates = templates,
             Files = files.Select(f =>
             {
                 var bytes = utf8.GetBytes(f.File.Text);
-                return new ManifestEntry(f.Target, f.File.FileName, Convert.ToHexStringLower(SHA256.HashData(bytes)), bytes.LongLength);
+                var sha = Convert.ToHexStringLower(SHA256.HashData(bytes));
+                return new ManifestEntry(f.Target, f.File.FileName, sha, bytes.LongLength);
             }).ToArray(),
         };
     }

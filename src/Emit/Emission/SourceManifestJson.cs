@@ -96,12 +96,18 @@ public static class SourceManifestJson
         return Encoding.UTF8.GetString(buffer.ToArray()) + "\n";
     }
 
-    /// <summary>Reads the manifest file at <paramref name="path"/>; throws <see cref="EmitException"/> naming the file when it is not one.</summary>
+    /// <summary>
+    /// Reads the manifest file at <paramref name="path"/>; throws <see cref="EmitException"/> naming the file when it
+    /// is not one.
+    /// </summary>
     public static SourceManifest ReadFile(string path)
     {
         string text;
         try { text = File.ReadAllText(path); }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException) { throw new EmitException($"cannot read the manifest: {e.Message}", null, path); }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new EmitException($"cannot read the manifest: {e.Message}", null, path);
+        }
         return Read(text, path);
     }
 
@@ -113,31 +119,24 @@ public static class SourceManifestJson
         catch (JsonException e)
         {
             throw new EmitException($"the manifest is not valid JSON: {e.Message}", Regenerate, path,
-                e.LineNumber is { } l ? (int)l + 1 : null, e.BytePositionInLine is { } c ? (int)c + 1 : null);
+                e.LineNumber + 1, e.BytePositionInLine + 1);
         }
         using (doc)
         {
             var r = new Cursor(doc.RootElement, path, "");
             if (r.Text("format") != SourceManifest.FormatName)
-                throw new EmitException($"not an emit manifest (format \"{Naming.CommentText(r.Text("format"))}\")", Regenerate, path);
+                throw r.Bad($"not an emit manifest (format \"{Naming.CommentText(r.Text("format"))}\")");
             int version = r.Int("version");
             if (version != SourceManifest.FormatVersion)
-                throw new EmitException($"manifest version {version} is not the version {SourceManifest.FormatVersion} this emit reads", Regenerate, path);
+                throw r.Bad(
+                    $"manifest version {version} is not the version {SourceManifest.FormatVersion} this emit reads");
             var tool = r.Text("tool");
             var model = r.Object("model");
             var options = r.Object("options");
             var scorer = r.Object("scorer");
             var numericText = options.Text("numeric");
-            var numeric = NumericModeNames.Parse(numericText) ?? throw r.Bad($"options.numeric \"{Naming.CommentText(numericText)}\" is unknown");
-            FixedPointOptions? fixedOptions = null;
-            if (options.Has("fixed"))
-            {
-                var f = options.Object("fixed");
-                var weights = WeightTypeInfo.Parse(f.Text("weights")) ?? throw r.Bad("options.fixed.weights is not int8, int16 or int32");
-                var accText = f.Text("accumulator");
-                AccumulatorType? accumulator = accText == "auto" ? null : AccumulatorTypeInfo.Parse(accText) ?? throw r.Bad("options.fixed.accumulator is not auto, int32 or int64");
-                fixedOptions = new FixedPointOptions(weights, accumulator, f.Int("softplus_table"));
-            }
+            var numeric = NumericModeNames.Parse(numericText)
+                          ?? throw r.Bad($"options.numeric \"{Naming.CommentText(numericText)}\" is unknown");
             return new SourceManifest
             {
                 ToolVersion = tool.StartsWith("emit ", StringComparison.Ordinal) ? tool[5..] : tool,
@@ -146,7 +145,7 @@ public static class SourceManifestJson
                 ModelKind = model.Text("kind"),
                 Visible = model.Int("visible"),
                 Hidden = model.Int("hidden"),
-                Targets = options.Array("targets").Select(t => t.Value.GetString() ?? throw r.Bad("options.targets holds a non-string")).ToArray(),
+                Targets = options.Array("targets").Select(t => t.String()).ToArray(),
                 Numeric = numeric,
                 Name = options.Text("name"),
                 Namespace = options.Text("namespace"),
@@ -157,7 +156,7 @@ public static class SourceManifestJson
                     "shipped" => false,
                     _ => throw r.Bad("options.templates is not shipped or custom"),
                 },
-                Fixed = fixedOptions,
+                Fixed = options.Has("fixed") ? ReadFixed(options.Object("fixed")) : null,
                 EnergyType = scorer.Text("energy_type"),
                 EnergyScale = scorer.Number("energy_scale"),
                 Weights = scorer.Text("weights"),
@@ -166,18 +165,35 @@ public static class SourceManifestJson
                 Threshold = scorer.Has("threshold") ? scorer.Number("threshold") : null,
                 ThresholdUnits = scorer.Has("threshold_units") ? scorer.Long("threshold_units") : null,
                 CSharpClass = scorer.Has("csharp_class") ? scorer.Text("csharp_class") : null,
-                Templates = r.Array("templates").Select(t => new TemplateUse(t.Text("target"), t.Text("file"), t.Text("origin") == "custom", t.Text("sha256"))).ToArray(),
-                Files = r.Array("files").Select(e => new ManifestEntry(e.Text("target"), e.Text("file"), e.Text("sha256"), e.Long("bytes"))).ToArray(),
+                Templates = r.Array("templates")
+                    .Select(t => new TemplateUse(t.Text("target"), t.Text("file"), t.Text("origin") == "custom",
+                        t.Text("sha256")))
+                    .ToArray(),
+                Files = r.Array("files")
+                    .Select(e => new ManifestEntry(e.Text("target"), e.Text("file"), e.Text("sha256"), e.Long("bytes")))
+                    .ToArray(),
             };
         }
     }
 
-    /// <summary>A JSON object being read, with the path of its fields for messages.</summary>
+    private static FixedPointOptions ReadFixed(Cursor f)
+    {
+        var weights = WeightTypeInfo.Parse(f.Text("weights"))
+                      ?? throw f.Bad("options.fixed.weights is not int8, int16 or int32");
+        var text = f.Text("accumulator");
+        AccumulatorType? accumulator = text == "auto"
+            ? null
+            : AccumulatorTypeInfo.Parse(text) ?? throw f.Bad("options.fixed.accumulator is not auto, int32 or int64");
+        return new FixedPointOptions(weights, accumulator, f.Int("softplus_table"));
+    }
+
+    /// <summary>A JSON value being read, with the path of its fields for messages.</summary>
     private readonly struct Cursor(JsonElement value, string file, string at)
     {
-        public JsonElement Value => value;
-
         public EmitException Bad(string problem) => new($"manifest: {problem}", Regenerate, file);
+
+        private string Where(string name) =>
+            at.Length == 0 ? (name.Length == 0 ? "the top level" : name) : name.Length == 0 ? at : at + "." + name;
 
         private JsonElement Get(string name)
         {
@@ -186,47 +202,55 @@ public static class SourceManifestJson
             return v;
         }
 
-        private string Where(string name) => at.Length == 0 ? (name.Length == 0 ? "the top level" : name) : name.Length == 0 ? at : at + "." + name;
+        public bool Has(string name) =>
+            value.ValueKind == JsonValueKind.Object && value.TryGetProperty(name, out var v)
+                                                    && v.ValueKind != JsonValueKind.Null;
 
-        public bool Has(string name) => value.ValueKind == JsonValueKind.Object && value.TryGetProperty(name, out var v) && v.ValueKind != JsonValueKind.Null;
+        private EmitException Not(string name, string what) => Bad($"field {Where(name)} is not {what}");
+
+        public string String() =>
+            value.ValueKind == JsonValueKind.String ? value.GetString()! : throw Bad($"{Where("")} is not a string");
 
         public string Text(string name)
         {
             var v = Get(name);
-            return v.ValueKind == JsonValueKind.String ? v.GetString()! : throw Bad($"field {Where(name)} is not a string");
+            return v.ValueKind == JsonValueKind.String ? v.GetString()! : throw Not(name, "a string");
         }
 
         public int Int(string name)
         {
             var v = Get(name);
-            return v.ValueKind == JsonValueKind.Number && v.TryGetInt32(out int n) ? n : throw Bad($"field {Where(name)} is not an integer");
+            return v.ValueKind == JsonValueKind.Number && v.TryGetInt32(out int n) ? n : throw Not(name, "an integer");
         }
 
         public long Long(string name)
         {
             var v = Get(name);
-            return v.ValueKind == JsonValueKind.Number && v.TryGetInt64(out long n) ? n : throw Bad($"field {Where(name)} is not an integer");
+            return v.ValueKind == JsonValueKind.Number && v.TryGetInt64(out long n) ? n : throw Not(name, "an integer");
         }
 
         public double Number(string name)
         {
             var v = Get(name);
-            return v.ValueKind == JsonValueKind.Number ? v.GetDouble() : throw Bad($"field {Where(name)} is not a number");
+            return v.ValueKind == JsonValueKind.Number ? v.GetDouble() : throw Not(name, "a number");
         }
 
         public Cursor Object(string name)
         {
             var v = Get(name);
-            return v.ValueKind == JsonValueKind.Object ? new Cursor(v, file, Where(name)) : throw Bad($"field {Where(name)} is not an object");
+            return v.ValueKind == JsonValueKind.Object
+                ? new Cursor(v, file, Where(name))
+                : throw Not(name, "an object");
         }
 
-        public IEnumerable<Cursor> Array(string name)
+        public IReadOnlyList<Cursor> Array(string name)
         {
             var v = Get(name);
-            if (v.ValueKind != JsonValueKind.Array) throw Bad($"field {Where(name)} is not an array");
-            var f = file;
-            var w = Where(name);
-            return v.EnumerateArray().Select((e, k) => new Cursor(e, f, $"{w}[{k.ToString(CultureInfo.InvariantCulture)}]")).ToArray();
+            if (v.ValueKind != JsonValueKind.Array) throw Not(name, "an array");
+            var (f, w) = (file, Where(name));
+            return v.EnumerateArray()
+                .Select((e, k) => new Cursor(e, f, $"{w}[{k.ToString(CultureInfo.InvariantCulture)}]"))
+                .ToArray();
         }
     }
 }
