@@ -238,4 +238,13 @@ public sealed class VerifyGeneratedTests
         Assert.Equal(2, r.ExitCode);
         Assert.Contains($"{option} applies to existing sources only", r.Error);
     }
+
+    [SkippableFact]
+    public void Fixed_point_options_contradicting_the_manifest_are_exit_2()
+    {
+        var (_, model, vectors, gen) = Compiled("verify-fixed-options", "--target", "c", "--numeric", "fixed", "--weights", "int8");
+        var r = CliRunner.Run("verify", model, "--input", vectors, "--generated", gen, "--weights", "int16", "--cc", Toolchain.Require("cc"));
+        Assert.Equal(2, r.ExitCode);
+        Assert.Contains("plant.c was generated with other fixed-point options (--weights int8 --accumulator auto --softplus-table 256), not --weights int16", r.Error);
+    }
 }
