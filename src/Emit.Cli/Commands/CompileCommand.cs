@@ -85,17 +85,17 @@ public sealed class CompileCommand : ICliCommand
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
-        IReadOnlyList<GeneratedFile> files;
+        CompiledScorer compiled;
         try
         {
-            files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);
+            compiled = ScorerCompiler.Build(model, Path.GetFileName(modelPath), options);
         }
         catch (EmitException e) when (e.File is null)
         {
             // A value of the model the scorer cannot hold: the model file is where to look.
             throw e.InFile(modelPath);
         }
-        foreach (var path in OutputFolder.Write(outDir, files, force))
+        foreach (var path in OutputFolder.Write(outDir, compiled, force))
             ctx.Out.WriteLine($"wrote {path}");
         return CliApp.Ok;
     }

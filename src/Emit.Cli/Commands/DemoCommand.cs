@@ -87,10 +87,10 @@ public sealed class DemoCommand : ICliCommand
         var dir = Path.Combine(Path.GetTempPath(), "emit-demo-" + Guid.NewGuid().ToString("N")[..12]);
         try
         {
-            var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), new CompileOptions(["c"], NumericMode.F32, name));
-            OutputFolder.Write(dir, files, force: false);
-            var header = files.Single(f => f.FileName.EndsWith(".h", StringComparison.Ordinal)).Text;
-            var bound = double.Parse(System.Text.RegularExpressions.Regex.Match(header, @"_ERROR_BOUND (\S+)").Groups[1].Value, inv);
+            var compiled = ScorerCompiler.Build(model, Path.GetFileName(modelPath), new CompileOptions(["c"], NumericMode.F32, name));
+            OutputFolder.Write(dir, compiled, force: false);
+            var files = compiled.Files;
+            var bound = compiled.Manifest.ErrorBound;     // the bound the header states, from the manifest (docs/manifest.md)
             o.WriteLine($"4. compile   emit compile --target c --numeric f32: {string.Join(", ", files.Select(f => $"{f.FileName} ({f.Text.Length / 1024.0:F0} KiB)"))}");
             o.WriteLine($"             stated error bound {G(bound)} nats; self-test of {CompileOptions.DefaultSelfTestVectors} embedded vectors");
             VerifyReport report;

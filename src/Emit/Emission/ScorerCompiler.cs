@@ -9,7 +9,14 @@ public static class ScorerCompiler
     /// Plans the scorer once and lets each requested target lay it out. <paramref name="modelLabel"/> names the
     /// model in banners (a file name, not a path, so output does not depend on where the model lies).
     /// </summary>
-    public static IReadOnlyList<GeneratedFile> Compile(BoltzmannModel model, string modelLabel, CompileOptions options)
+    public static IReadOnlyList<GeneratedFile> Compile(BoltzmannModel model, string modelLabel, CompileOptions options) =>
+        Build(model, modelLabel, options).Files;
+
+    /// <summary>
+    /// As <see cref="Compile"/>, keeping the plan, the templates read and the manifest written beside the sources
+    /// (docs/manifest.md).
+    /// </summary>
+    public static CompiledScorer Build(BoltzmannModel model, string modelLabel, CompileOptions options)
     {
         Naming.CheckScorerName(options.Name);
         Naming.CheckNamespace(options.Namespace);
@@ -24,6 +31,7 @@ public static class ScorerCompiler
             ? FixedScorerPlan.Build(model, options, modelLabel)
             : FloatScorerPlan.Build(model, options, modelLabel);
         var templates = new TemplateRenderer(options.TemplatesDirectory);
-        return emitters.SelectMany(e => e.Emit(plan, templates)).ToArray();
+        var files = emitters.SelectMany(e => e.Emit(plan, templates).Select(f => (e.Name, f))).ToArray();
+        return new CompiledScorer(plan, emitters.Select(e => e.Name).ToArray(), files, templates.Used);
     }
 }

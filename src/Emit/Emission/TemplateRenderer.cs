@@ -14,6 +14,7 @@ namespace Emit.Emission;
 public sealed class TemplateRenderer
 {
     private readonly string? _overrideDirectory;
+    private readonly List<TemplateUse> _used = [];
 
     public TemplateRenderer(string? overrideDirectory)
     {
@@ -21,6 +22,9 @@ public sealed class TemplateRenderer
             throw new EmitException("templates folder does not exist", "give a folder holding c/ and csharp/ template files", overrideDirectory);
         _overrideDirectory = overrideDirectory;
     }
+
+    /// <summary>The templates read so far, each once, in the order first read (for the manifest, docs/manifest.md).</summary>
+    public IReadOnlyList<TemplateUse> Used => _used;
 
     /// <summary>Names of the shipped templates, as <c>TARGET/FILE.sbn</c>.</summary>
     public static IReadOnlyList<string> ShippedTemplates() =>
@@ -83,14 +87,24 @@ public sealed class TemplateRenderer
             var path = System.IO.Path.Combine(_overrideDirectory, target, file);
             if (File.Exists(path))
             {
-                try { return (File.ReadAllText(path), path); }
+                try { return (Record(target, file, true, File.ReadAllBytes(path)), path); }
                 catch (IOException e) { throw new EmitException($"cannot read template: {e.Message}", null, path); }
             }
         }
         var name = $"templates/{target}/{file}";
         using var stream = Assembly.GetExecutingAssembly().GetManifestResourceStream(name)
                            ?? throw new InvalidOperationException($"shipped template {name} is missing from the assembly");
-        using var reader = new StreamReader(stream);
-        return (reader.ReadToEnd(), name);
+        using var bytes = new MemoryStream();
+        stream.CopyTo(bytes);
+        return (Record(target, file, false, bytes.ToArray()), name);
+    }
+
+    /// <summary>Notes a template read (its SHA-256 over the bytes) and returns its text.</summary>
+    private string Record(string target, string file, bool custom, byte[] bytes)
+    {
+        if (!_used.Any(u => u.Target == target && u.File == file))
+            _used.Add(new TemplateUse(target, file, custom, Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes))));
+        using var reader = new StreamReader(new MemoryStream(bytes));
+        return reader.ReadToEnd();
     }
 }

@@ -39,6 +39,8 @@ public static class ReportJUnit
         Property(w, "input", report.Input);
         Property(w, "vectors", report.Vectors.ToString(inv));
         Property(w, "tool", "emit " + report.ToolVersion);
+        Property(w, "allow_model_change", report.AllowModelChange ? "true" : "false");
+        Property(w, "fail_on_decision_mismatch", report.FailOnDecisionMismatch ? "true" : "false");
         w.WriteEndElement();
         foreach (var t in report.Targets)
         {
@@ -70,7 +72,9 @@ public static class ReportJUnit
         string G(double? x) => x is { } v ? v.ToString("G4", inv) : "-";
         return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound {G(t.ErrorBound)} nats, " +
                $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches {t.DecisionMismatches} " +
-               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash {(t.ModelHashMatches ? "matches" : "DIFFERS")}";
+               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash {(t.ModelHashMatches ? "matches" : "DIFFERS")}" +
+               (t.SourcesMatch is { } match ? $", sources {(match ? "as generated" : "NOT as generated")}" : "") +
+               (t.Compared ? "" : ", numbers not compared");
     }
 
     private static void Property(XmlWriter w, string name, string value)

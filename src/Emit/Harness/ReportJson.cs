@@ -19,6 +19,8 @@ public static class ReportJson
         w.WriteString("input", report.Input);
         w.WriteNumber("vectors", report.Vectors);
         Number(w, "threshold", report.Threshold);
+        w.WriteBoolean("allow_model_change", report.AllowModelChange);
+        w.WriteBoolean("fail_on_decision_mismatch", report.FailOnDecisionMismatch);
         w.WriteStartArray("warnings");
         foreach (var s in report.Warnings) w.WriteStringValue(s);
         w.WriteEndArray();
@@ -44,6 +46,21 @@ public static class ReportJson
             w.WriteString("sources", t.Sources);
             if (t.SourceModelSha256 is { } sha) w.WriteString("source_model_sha256", sha); else w.WriteNull("source_model_sha256");
             w.WriteBoolean("model_hash_matches", t.ModelHashMatches);
+            if (t.Manifest is { } manifest) w.WriteString("manifest", manifest); else w.WriteNull("manifest");
+            if (t.SourcesMatch is { } match) w.WriteBoolean("sources_match", match); else w.WriteNull("sources_match");
+            w.WriteStartArray("edits");
+            foreach (var e in t.Edits)
+            {
+                w.WriteStartObject();
+                w.WriteString("file", e.File);
+                if (e.Line is { } line) w.WriteNumber("line", line); else w.WriteNull("line");
+                if (e.Expected is { } want) w.WriteString("expected", want); else w.WriteNull("expected");
+                if (e.Found is { } found) w.WriteString("found", found); else w.WriteNull("found");
+                w.WriteBoolean("matches_manifest", e.MatchesManifest);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+            w.WriteBoolean("compared", t.Compared);
             w.WriteBoolean("passed", t.Passed);
             Number(w, "seconds", t.Seconds);
             Number(w, "build_seconds", t.BuildSeconds);

@@ -8,13 +8,14 @@ namespace Emit.Harness;
 /// a target passes when its largest error is within the bound, in fixed mode every result equals the integer
 /// simulator's, both entry points agree, the embedded self-test passes, and every decision that differs from the
 /// reference is explained by the bound (the reference free energy lies within bound + threshold rounding of the threshold).
+/// With <c>failOnDecisionMismatch</c> any decision that differs fails the target, explained or not.
 /// </summary>
-public sealed class TargetComparison(NumericExpectation expectation)
+public sealed class TargetComparison(NumericExpectation expectation, bool failOnDecisionMismatch = false)
 {
     private const int Examples = 3;
 
     private readonly ErrorHistogram _histogram = new();
-    private readonly List<string> _bitExamples = [], _decisionExamples = [], _entryExamples = [];
+    private readonly List<string> _bitExamples = [], _decisionExamples = [], _entryExamples = [], _anyDecisionExamples = [];
     private long _count, _bitMismatches, _decisionMismatches, _unexplained, _entryMismatches, _worst = -1;
     private double _sum, _max;
 
@@ -50,7 +51,8 @@ public sealed class TargetComparison(NumericExpectation expectation)
             bool referenceUnusual = reference > t, generatedUnusual = row.Decision == 1;
             if (referenceUnusual != generatedUnusual)
             {
-                _decisionMismatches++;
+                if (_decisionMismatches++ < Examples)
+                    _anyDecisionExamples.Add($"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = {generated.ToString("R", inv)}");
                 if (!(Math.Abs(reference - t) <= expectation.ErrorBound + expectation.ThresholdAllowance) && _unexplained++ < Examples)
                     _decisionExamples.Add($"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = {generated.ToString("R", inv)}, " +
                                           $"generated says {(generatedUnusual ? "unusual" : "usual")}");
@@ -60,7 +62,7 @@ public sealed class TargetComparison(NumericExpectation expectation)
 
     /// <summary>The verdict and figures; <paramref name="runFailures"/> are failures to build or run the target.</summary>
     public TargetResult Finish(string target, ScorerSources? sources, bool generatedHere, string modelSha256, int? selfTestFailures,
-        IReadOnlyList<string> runFailures, double buildSeconds, double scoreSeconds)
+        IReadOnlyList<string> runFailures, double buildSeconds, double scoreSeconds, SourceCheckResult? check = null)
     {
         var inv = CultureInfo.InvariantCulture;
         var failures = new List<string>(runFailures);
@@ -71,11 +73,14 @@ public sealed class TargetComparison(NumericExpectation expectation)
             failures.Add($"{_bitMismatches} of {_count} results differ from the integer simulator ({string.Join("; ", _bitExamples)})");
         if (_unexplained > 0)
             failures.Add($"{_unexplained} of {_decisionMismatches} decision mismatches are farther from the threshold than the bound allows ({string.Join("; ", _decisionExamples)})");
+        if (failOnDecisionMismatch && _decisionMismatches > 0)
+            failures.Add($"{_decisionMismatches} of {_count} decisions differ from the reference, within the bound or not, and every difference fails " +
+                         $"({string.Join("; ", _anyDecisionExamples)})");
         if (_entryMismatches > 0)
             failures.Add($"the packed and one-byte-per-unit entry points differ on {_entryMismatches} inputs ({string.Join("; ", _entryExamples)})");
         if (selfTestFailures is > 0)
             failures.Add($"the embedded self-test reports {selfTestFailures} failing vectors");
-        if (_count == 0 && failures.Count == 0)
+        if (_count == 0 && failures.Count == 0 && check is not { Compare: false })
             failures.Add("no inputs were compared");
         return new TargetResult
         {
@@ -95,8 +100,12 @@ public sealed class TargetComparison(NumericExpectation expectation)
             EntryPointMismatches = _entryMismatches,
             SelfTestFailures = selfTestFailures,
             Sources = generatedHere || sources is null ? "generated" : sources.Directory,
-            SourceModelSha256 = sources?.StampedSha256,
-            ModelHashMatches = sources?.StampedSha256 == modelSha256,
+            SourceModelSha256 = generatedHere ? null : sources?.ModelSha256,
+            ModelHashMatches = generatedHere || sources?.ModelSha256 == modelSha256,
+            Manifest = generatedHere ? null : sources?.ManifestPath,
+            SourcesMatch = generatedHere || check is null ? null : check.Edits.Count == 0 && !check.ModelChanged,
+            Edits = check?.Edits ?? [],
+            Compared = check is not { Compare: false },
             Passed = failures.Count == 0,
             Seconds = buildSeconds + scoreSeconds,
             BuildSeconds = buildSeconds,

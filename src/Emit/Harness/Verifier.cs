@@ -38,11 +38,21 @@ public static class Verifier
             foreach (var language in languages)
                 located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
         var mode = ResolveMode(request, located.Values);
+        var fixedOptions = mode == NumericMode.Fixed ? ResolveFixed(request, located.Values) : null;
         if (request.Fixed is not null && mode != NumericMode.Fixed)
             throw new EmitException($"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}", $"leave them out, or use {Setting.Numeric.Ref()} fixed");
-        var fixedOptions = mode == NumericMode.Fixed ? request.Fixed ?? StampedFixedOptions(located.Values) : null;
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
+
+        // The strict check of existing sources, before anything is built (a missing templates folder is exit 2).
+        var checks = new Dictionary<string, SourceCheckResult>();
+        foreach (var (language, sources) in located)
+        {
+            var check = SourceCheck.Run(sources, model, request.ModelLabel, request.AllowModelChange, request.TemplatesDirectory);
+            checks[language] = check;
+            foreach (var w in check.Warnings)
+                if (!warnings.Contains(w)) warnings.Add(w);
+        }
 
         using var reader = VectorReader.Open(request.InputPath, model.Visible, request.Stdin);
         VectorNames.Check(model, reader);
@@ -57,23 +67,12 @@ public static class Verifier
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
                 var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions);
-                foreach (var f in ScorerCompiler.Compile(model, request.ModelLabel, options))
+                foreach (var f in ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)
                     located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
             }
-            else
-            {
-                foreach (var (language, sources) in located)
-                {
-                    var files = string.Join(", ", sources.Files.Select(Path.GetFileName));
-                    if (sources.StampedSha256 is null)
-                        warnings.Add($"{files}: no model SHA-256 stamped in the sources; the numbers are compared all the same");
-                    else if (sources.StampedSha256 != model.Sha256)
-                        warnings.Add($"{files}: generated from model {sources.StampedSha256}, but {request.ModelLabel} is {model.Sha256}; the numbers are compared all the same");
-                }
-            }
-            return Compare(request, runners, located, expectation, layout, reader, work, warnings);
+            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings);
         }
         finally
         {
@@ -83,13 +82,23 @@ public static class Verifier
     }
 
     private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string, ScorerSources> located,
-        NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings)
+        Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings)
     {
         var model = request.Model;
         var states = new List<State>();
         foreach (var runner in runners)
         {
-            var state = new State(runner, located[runner.Language], new TargetComparison(expectation));
+            var state = new State(runner, located[runner.Language], new TargetComparison(expectation, request.FailOnDecisionMismatch),
+                checks.GetValueOrDefault(runner.Language));
+            if (state.Check is { } check)
+            {
+                state.Failures.AddRange(check.Failures);
+                if (!check.Compare)
+                {
+                    states.Add(state);
+                    continue;
+                }
+            }
             var watch = Stopwatch.StartNew();
             state.Session = runner.Start(state.Sources, layout, request.Settings, Path.Combine(work, runner.Name), out var failure);
             state.BuildSeconds = watch.Elapsed.TotalSeconds;
@@ -156,46 +165,53 @@ public static class Verifier
             Vectors = index,
             Threshold = model.Threshold,
             Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources, request.GeneratedDirectory is null, model.Sha256, s.SelfTest,
-                s.Failures, s.BuildSeconds, s.ScoreSeconds)).ToArray(),
+                s.Failures, s.BuildSeconds, s.ScoreSeconds, s.Check)).ToArray(),
             Warnings = warnings,
+            AllowModelChange = request.AllowModelChange,
+            FailOnDecisionMismatch = request.FailOnDecisionMismatch,
         };
     }
 
-    /// <summary>The requested mode, or the one stamped in the sources, or f32; a request that contradicts the sources is an error.</summary>
+    /// <summary>The requested mode, or the one in the sources' manifest, or f32; a request that contradicts the manifest is an error.</summary>
     private static NumericMode ResolveMode(VerifyRequest request, IEnumerable<ScorerSources> sources)
     {
-        NumericMode? stamped = null;
+        NumericMode? recorded = null;
         foreach (var s in sources)
         {
-            if (!s.StampedOptions.TryGetValue("--numeric", out var text) || NumericModeNames.Parse(text) is not { } m) continue;
-            if (stamped is { } other && other != m)
+            var m = s.Manifest.Numeric;
+            if (recorded is { } other && other != m)
                 throw new EmitException($"the C and C# sources were generated with different numeric modes ({other.ToText()}, {m.ToText()})", $"regenerate them with the same {Setting.Numeric.Ref()}", s.Directory);
-            stamped = m;
+            recorded = m;
             if (request.Numeric is { } asked && asked != m)
                 throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with {Setting.Numeric.Ref()} {m.ToText()}, not {asked.ToText()}",
-                    $"pass {Setting.Numeric.Ref()} {m.ToText()}, or leave {Setting.Numeric.Ref()} out to take it from the sources", s.SourceFile);
+                    $"pass {Setting.Numeric.Ref()} {m.ToText()}, or leave {Setting.Numeric.Ref()} out to take it from the manifest", s.ManifestPath);
         }
-        return request.Numeric ?? stamped ?? NumericMode.F32;
+        return request.Numeric ?? recorded ?? NumericMode.F32;
     }
 
-    /// <summary>Fixed-point options from the sources' banners (defaults where a banner does not say).</summary>
-    private static FixedPointOptions? StampedFixedOptions(IEnumerable<ScorerSources> sources)
+    /// <summary>Fixed-point options: those requested, else the manifest's; a request that contradicts the manifest is an error.</summary>
+    private static FixedPointOptions ResolveFixed(VerifyRequest request, IEnumerable<ScorerSources> sources)
     {
+        FixedPointOptions? recorded = null;
         foreach (var s in sources)
         {
-            var o = s.StampedOptions;
-            if (!o.ContainsKey("--weights") && !o.ContainsKey("--accumulator") && !o.ContainsKey("--softplus-table")) continue;
-            var weights = o.TryGetValue("--weights", out var w) ? WeightTypeInfo.Parse(w) ?? WeightType.Int16 : WeightType.Int16;
-            var accumulator = o.TryGetValue("--accumulator", out var a) ? AccumulatorTypeInfo.Parse(a) : null;
-            int table = o.TryGetValue("--softplus-table", out var t) && int.TryParse(t, System.Globalization.NumberStyles.None, System.Globalization.CultureInfo.InvariantCulture, out int n)
-                ? n : FixedPointOptions.DefaultTableSize;
-            return new FixedPointOptions(weights, accumulator, table);
+            var m = s.Manifest.Fixed ?? new FixedPointOptions();
+            if (recorded is not null && recorded != m)
+                throw new EmitException("the C and C# sources were generated with different fixed-point options", "regenerate them with the same options", s.Directory);
+            recorded = m;
+            if (request.Fixed is { } asked && asked != m)
+                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with other fixed-point options ({Describe(m)}), not {Describe(asked)}",
+                    "leave --weights, --accumulator and --softplus-table out to take them from the manifest", s.ManifestPath);
         }
-        return null;
+        return request.Fixed ?? recorded ?? new FixedPointOptions();
     }
 
-    private sealed class State(ITargetRunner runner, ScorerSources sources, TargetComparison comparison)
+    private static string Describe(FixedPointOptions o) =>
+        $"--weights {o.Weights.ToText()} --accumulator {(o.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {o.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+
+    private sealed class State(ITargetRunner runner, ScorerSources sources, TargetComparison comparison, SourceCheckResult? check)
     {
+        public SourceCheckResult? Check { get; } = check;
         public ITargetRunner Runner { get; } = runner;
         public ScorerSources Sources { get; } = sources;
         public TargetComparison Comparison { get; } = comparison;

@@ -25,6 +25,12 @@ public sealed record VerifyReport
     /// <summary>Things worth knowing that do not fail a target (a model hash differing from the stamped one).</summary>
     public required IReadOnlyList<string> Warnings { get; init; }
 
+    /// <summary>Whether sources of another model were compared all the same instead of failing.</summary>
+    public bool AllowModelChange { get; init; }
+
+    /// <summary>Whether any decision differing from the reference failed a target, even within the bound.</summary>
+    public bool FailOnDecisionMismatch { get; init; }
+
     /// <summary>True when every target passed.</summary>
     public bool Passed => Targets.Count > 0 && Targets.All(t => t.Passed);
 

@@ -32,6 +32,18 @@ public sealed record VerifyRequest
     /// <summary>Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an identifier.</summary>
     public string? Name { get; init; }
 
+    /// <summary>
+    /// With <see cref="GeneratedDirectory"/>: compare the numbers even when the sources were generated from another
+    /// model (otherwise such sources fail without being run).
+    /// </summary>
+    public bool AllowModelChange { get; init; }
+
+    /// <summary>Fail a target on any decision that differs from the reference, even one the error bound explains.</summary>
+    public bool FailOnDecisionMismatch { get; init; }
+
+    /// <summary>The templates folder of sources generated with custom templates (needed to regenerate and compare them).</summary>
+    public string? TemplatesDirectory { get; init; }
+
     public RunnerSettings Settings { get; init; } = new();
 
     /// <summary>Where to build; null: a temporary folder deleted afterwards.</summary>

@@ -203,7 +203,9 @@ public sealed class VerifyCommandTests
         var xml = CheckJUnitShape(junit);
         var failed = xml.Descendants("testcase").Where(c => c.Element("failure") is not null).Select(c => c.Attribute("name")!.Value).ToList();
         Assert.Equal(["c f64 f64", "cortex-m3 f64 f64"], failed);
-        Assert.All(xml.Descendants("failure"), f => Assert.Contains("above the bound", f.Attribute("message")!.Value));
+        // the first reason is the edit (found by regenerating the sources); the numbers follow
+        Assert.All(xml.Descendants("failure"), f => Assert.Contains("plant.c: edited after generation", f.Attribute("message")!.Value));
+        Assert.All(xml.Descendants("failure"), f => Assert.Contains("above the bound", f.Value));
     }
 
     /// <summary>
@@ -253,8 +255,12 @@ public sealed class VerifyCommandTests
 
     // ---- existing sources from another model ----
 
+    /// <summary>
+    /// Sources generated from another version of the model fail with exit 1 and both hashes, without being run; with
+    /// --allow-model-change the numbers are compared as before (here they agree: only the threshold changed).
+    /// </summary>
     [SkippableFact]
-    public void Sources_stamped_with_another_model_hash_are_reported_and_the_numbers_still_compared()
+    public void Sources_of_another_model_fail_naming_both_hashes_unless_a_model_change_is_allowed()
     {
         VerifyCases.Require("c");
         var a = TestModels.Random(ModelKind.Rbm, 20, 6, seed: 8);
@@ -264,12 +270,30 @@ public sealed class VerifyCommandTests
         var b = a.With(threshold: 1.5, null);       // the same numbers, another identity
         var modelB = Path.Combine(dir, "plant-recalibrated.json");
         ModelJson.WriteFile(b, modelB, force: true);
+        Assert.NotEqual(a.Sha256, b.Sha256);
         var json = Path.Combine(dir, "r.json");
-        var r = CliRunner.Run("verify", modelB, "--input", vectors, "--generated", gen, "--name", "plant", "--report", json);
+
+        var strict = CliRunner.Run("verify", modelB, "--input", vectors, "--generated", gen, "--name", "plant", "--report", json);
+        Assert.True(strict.ExitCode == 1, strict.Out + strict.Error);
+        Assert.Contains($"FAIL c: plant.h, plant.c were generated from model sha256 {a.Sha256} (plant.json), but plant-recalibrated.json has sha256 {b.Sha256}", strict.Out);
+        var report = ReadReport(json);
+        Assert.False(report.GetProperty("passed").GetBoolean());
+        Assert.False(report.GetProperty("allow_model_change").GetBoolean());
+        var t = Target(report, "c");
+        Assert.False(t.GetProperty("compared").GetBoolean());
+        Assert.False(t.GetProperty("model_hash_matches").GetBoolean());
+        Assert.Equal(a.Sha256, t.GetProperty("source_model_sha256").GetString());
+        Assert.Equal(0, t.GetProperty("vectors").GetInt64());
+        Assert.False(t.GetProperty("passed").GetBoolean());
+
+        var r = CliRunner.Run("verify", modelB, "--input", vectors, "--generated", gen, "--name", "plant", "--allow-model-change", "--report", json);
         Assert.True(r.ExitCode == 0, r.Out + r.Error);
         Assert.Contains($"emit: warning: plant.h, plant.c: generated from model {a.Sha256}", r.Error);
         Assert.Contains("the numbers are compared all the same", r.Error);
-        var t = Target(ReadReport(json), "c");
+        report = ReadReport(json);
+        Assert.True(report.GetProperty("allow_model_change").GetBoolean());
+        t = Target(report, "c");
+        Assert.True(t.GetProperty("compared").GetBoolean());
         Assert.False(t.GetProperty("model_hash_matches").GetBoolean());
         Assert.Equal(a.Sha256, t.GetProperty("source_model_sha256").GetString());
         Assert.Equal(20, t.GetProperty("vectors").GetInt64());
@@ -277,6 +301,17 @@ public sealed class VerifyCommandTests
     }
 
     // ---- crashes, faults, hangs ----
+
+    /// <summary>
+    /// Failure <paramref name="index"/> of a target whose sources were broken by hand: failure 0 is always the edit
+    /// ("edited after generation", found by regenerating), the run's own failures follow.
+    /// </summary>
+    private static string Failure(JsonElement report, string target, int index)
+    {
+        var failures = Target(report, target).GetProperty("failures");
+        Assert.Contains("plant.c: edited after generation", failures[0].GetString());
+        return failures[index].GetString()!;
+    }
 
     private static string BreakScorer(string what, string statement)
     {
@@ -300,8 +335,8 @@ public sealed class VerifyCommandTests
         var r = CliRunner.Run("verify", p[1], "--input", p[2], "--generated", p[3], "--target", "c,cortex-m3", "--report", json);
         Assert.True(r.ExitCode == 1, r.Out + r.Error);
         var report = ReadReport(json);
-        Assert.Contains("killed by signal", Target(report, "c").GetProperty("failures")[0].GetString());
-        Assert.Contains($"took a fault on the emulated Cortex-M3 (qemu exit status {HarnessTemplates.FaultStatus})", Target(report, "cortex-m3").GetProperty("failures")[0].GetString());
+        Assert.Contains("killed by signal", Failure(report, "c", 1));
+        Assert.Contains($"took a fault on the emulated Cortex-M3 (qemu exit status {HarnessTemplates.FaultStatus})", Failure(report, "cortex-m3", 1));
     }
 
     [SkippableFact]
@@ -313,8 +348,8 @@ public sealed class VerifyCommandTests
         var r = CliRunner.Run("verify", p[1], "--input", p[2], "--generated", p[3], "--target", "c,cortex-m3", "--timeout", "5", "--report", json);
         Assert.True(r.ExitCode == 1, r.Out + r.Error);
         var report = ReadReport(json);
-        Assert.Contains("did not answer within 5 s", Target(report, "c").GetProperty("failures")[0].GetString());
-        Assert.Contains("qemu did not finish image 1 within 5 s", Target(report, "cortex-m3").GetProperty("failures")[0].GetString());
+        Assert.Contains("did not answer within 5 s", Failure(report, "c", 1));
+        Assert.Contains("qemu did not finish image 1 within 5 s", Failure(report, "cortex-m3", 1));
     }
 
     [SkippableFact]

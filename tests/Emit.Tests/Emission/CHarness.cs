@@ -20,20 +20,16 @@ internal static class CHarness
 
     /// <summary>
     /// Compiles NAME.c in <paramref name="dir"/> and the harness main with the strict flags (plus extra flags). The
-    /// numeric mode comes from the file's banner; <paramref name="integer"/> states that it is fixed point.
+    /// numeric mode and result width come from the manifest beside the sources; <paramref name="integer"/> states that it is fixed point.
     /// </summary>
     public static Built Build(string dir, string name, bool hasThreshold, string extraFlags = "", bool integer = false)
     {
         Toolchain.Require("cc");
         var sources = ScorerSources.Locate(dir, "c", name, name);
         Assert.Equal(hasThreshold, sources.HasThreshold);
-        var mode = NumericModeNames.Parse(sources.StampedOptions["--numeric"]) ?? throw new InvalidOperationException("no numeric mode in the banner");
+        var mode = sources.Manifest.Numeric;
         Assert.Equal(integer, mode == NumericMode.Fixed);
-        int bytes = mode == NumericMode.F32 ? 4 : 8;
-        if (mode == NumericMode.Fixed)
-            bytes = File.ReadAllText(sources.MainFile).Contains("typedef int64_t " + name + "_energy_t", StringComparison.Ordinal) ? 8 : 4;
-        var layout = new HarnessLayout(int.Parse(System.Text.RegularExpressions.Regex.Match(File.ReadAllText(sources.MainFile), $@"#define {Naming.MacroPrefix(name)}_VISIBLE (\d+)").Groups[1].Value,
-            System.Globalization.CultureInfo.InvariantCulture), bytes);
+        var layout = new HarnessLayout(sources.Manifest.Visible, sources.Manifest.EnergyBytes);
         var exe = HostCRunner.Build(sources, layout, new RunnerSettings("cc", extraFlags, Toolchain.Limit), Path.Combine(dir, "harness-" + name), out var failure);
         Assert.True(exe is not null, failure);
         return new Built(exe!, sources, layout, mode == NumericMode.Fixed);

@@ -52,7 +52,7 @@ internal static class CodegenCases
     public static string Generate(Case c, NumericMode mode, string dir, string target = "c")
     {
         var name = c.Id + "_" + mode.ToText();
-        var files = ScorerCompiler.Compile(c.Model, c.Id + ".json", new CompileOptions([target], mode, name, "Emit.Tests.Generated"));
+        var files = ScorerCompiler.Build(c.Model, c.Id + ".json", new CompileOptions([target], mode, name, "Emit.Tests.Generated")).AllFiles;
         foreach (var f in files) File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         return name;
     }

@@ -51,7 +51,7 @@ internal static class FixedCodegenCases
     /// <summary>Generated files for a combination, written to <paramref name="dir"/>; returns the scorer name.</summary>
     public static string Generate(Combo c, string dir, string target = "c")
     {
-        var files = ScorerCompiler.Compile(c.Case.Model, c.Case.Id + ".json", Options(c, target));
+        var files = ScorerCompiler.Build(c.Case.Model, c.Case.Id + ".json", Options(c, target)).AllFiles;
         foreach (var f in files) File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         return c.Name;
     }

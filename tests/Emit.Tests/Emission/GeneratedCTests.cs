@@ -67,7 +67,7 @@ public sealed class GeneratedCTests
         var m = new BoltzmannModel(ModelKind.General, 2, 2, [0, 0], [0, 0], [2, 0, 0, 1], ImmutableArray<Link>.Empty, [new Link(0, 1, -1)]);
         var dir = Toolchain.TempDir("worked");
         var name = "worked_" + mode.ToText();
-        foreach (var f in ScorerCompiler.Compile(m, "worked.json", new CompileOptions(["c"], mode, name)))
+        foreach (var f in ScorerCompiler.Build(m, "worked.json", new CompileOptions(["c"], mode, name)).AllFiles)
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         var result = CHarness.Run(CHarness.Build(dir, name, false), [[0, 0], [1, 1], [1, 0]]);
         double e = Math.E, rel = RelativeTolerance(mode);
@@ -136,7 +136,7 @@ public sealed class GeneratedCTests
         var cc = Toolchain.Require("cc");
         var m = CodegenCases.WithNames(TestModels.Random(ModelKind.Lateral, CodegenCases.HostileNames.Length, 4, seed: 5), CodegenCases.HostileNames);
         var dir = Toolchain.TempDir("hostile");
-        foreach (var f in ScorerCompiler.Compile(m, "*/ evil\n#define model.json", new CompileOptions(["c", "csharp"], NumericMode.F32, "hostile")))
+        foreach (var f in ScorerCompiler.Build(m, "*/ evil\n#define model.json", new CompileOptions(["c", "csharp"], NumericMode.F32, "hostile")).AllFiles)
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         // -Wcomment (in -Wall) rejects "/*" inside a comment and backslash-newline in a // comment; -Wtrigraphs rejects
         // trigraphs that would change the program. The preprocessed source must also hold no injected tokens.

@@ -128,7 +128,7 @@ public sealed class GeneratedFixedCTests
         var cc = Toolchain.Require("cc");
         var m = CodegenCases.WithNames(TestModels.Random(ModelKind.Lateral, CodegenCases.HostileNames.Length, 4, seed: 5), CodegenCases.HostileNames);
         var dir = Toolchain.TempDir("fhostile");
-        foreach (var f in ScorerCompiler.Compile(m, "*/ evil\n#define model.json", new CompileOptions(["c", "csharp"], NumericMode.Fixed, "hostile")))
+        foreach (var f in ScorerCompiler.Build(m, "*/ evil\n#define model.json", new CompileOptions(["c", "csharp"], NumericMode.Fixed, "hostile")).AllFiles)
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         var pre = Toolchain.RunOk(cc, [.. Toolchain.Split(Toolchain.StrictC), "-E", "-P", Path.Combine(dir, "hostile.c")]);
         Assert.DoesNotContain("injected", pre);

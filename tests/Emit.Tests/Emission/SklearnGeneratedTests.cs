@@ -28,7 +28,7 @@ public sealed class SklearnGeneratedTests
 
         var dir = Toolchain.TempDir("sklearn");
         var name = "digits_" + mode.ToText();
-        foreach (var f in ScorerCompiler.Compile(model, "sklearn_digits_rbm.npz", new CompileOptions(["c"], mode, name)))
+        foreach (var f in ScorerCompiler.Build(model, "sklearn_digits_rbm.npz", new CompileOptions(["c"], mode, name)).AllFiles)
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         var result = CHarness.Run(CHarness.Build(dir, name, model.Threshold.HasValue), vectors);
         Assert.Equal(0, result.SelfTestFailures);

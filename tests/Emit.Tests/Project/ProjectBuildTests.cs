@@ -33,9 +33,10 @@ public sealed class ProjectBuildTests
         Assert.True(a.ExitCode == 0 && b.ExitCode == 0, a.Error + b.Error);
         var expected = Tree(Path.Combine(dir, "cmp"));
         var actual = Tree(Path.Combine(dir, "gen"));
-        Assert.Equal(["f64/plant.c", "f64/plant.cs", "f64/plant.h", "q/m.c", "q/m.h"], actual.Keys.Order());
+        // each scorer's manifest beside its sources (docs/manifest.md), the same bytes as compile writes
+        Assert.Equal(["f64/plant.c", "f64/plant.cs", "f64/plant.emit.json", "f64/plant.h", "q/m.c", "q/m.emit.json", "q/m.h"], actual.Keys.Order());
         Assert.Equal(expected, actual);
-        Assert.Equal(5, built.Out.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
+        Assert.Equal(7, built.Out.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
     }
 
     [Fact]
