@@ -21,7 +21,8 @@ public static class CortexM0Footprint
     public const int LibraryStackAllowance = 32;
 
     /// <summary>Predicts the footprint of <c>emit compile --numeric fixed</c> output with <paramref name="selfTestVectors"/> embedded inputs.</summary>
-    public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors)
+    public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors,
+        OptimizeFor optimize = OptimizeFor.Speed)
     {
         var m = plan.Model;
         int v = m.Visible, h = m.Hidden, links = m.VisibleLinks.Length, packed = (v + 7) / 8;
@@ -44,7 +45,7 @@ public static class CortexM0Footprint
             tables += Table(v + 1, index) + Table(links, other) + Table(links, w);
         }
 
-        bool pairs = plan.WeightType.Bits() < plan.Accumulator.Bits();
+        bool pairs = optimize == OptimizeFor.Speed && plan.WeightType.Bits() < plan.Accumulator.Bits();
         int code = (h == 0, general, wide) switch
         {
             (true, _, false) => 200,

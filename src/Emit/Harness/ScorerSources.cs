@@ -20,7 +20,9 @@ public sealed partial class ScorerSources
         var sha = ShaPattern().Match(head);
         StampedSha256 = sha.Success ? sha.Groups[1].Value : null;
         var options = OptionsPattern().Match(head);
-        StampedOptions = options.Success ? ParseOptions(options.Groups[1].Value) : new Dictionary<string, string>();
+        StampedOptions = options.Success
+            ? ParseOptions(ContinuationPattern().Replace(options.Groups[1].Value, " "))
+            : new Dictionary<string, string>();
         if (language == "csharp")
         {
             var ns = NamespacePattern().Match(text);
@@ -136,8 +138,12 @@ public sealed partial class ScorerSources
     [GeneratedRegex(@"model sha256: ([0-9a-f]{64})")]
     private static partial Regex ShaPattern();
 
-    [GeneratedRegex(@"options: ([^\n]*)")]
+    /// <summary>The banner's options line and its continuation lines (comment prefix, then spaces, then an option).</summary>
+    [GeneratedRegex(@"options: ([^\n]*(?:\n(?: \*|//) +--[^\n]*)*)")]
     private static partial Regex OptionsPattern();
+
+    [GeneratedRegex(@"\n(?: \*|//) +")]
+    private static partial Regex ContinuationPattern();
 
     [GeneratedRegex(@"^namespace ([A-Za-z_][A-Za-z0-9_.]*)", RegexOptions.Multiline)]
     private static partial Regex NamespacePattern();
