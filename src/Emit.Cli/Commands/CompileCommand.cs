@@ -1,5 +1,6 @@
 using System.CommandLine;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 
 namespace Emit.Cli.Commands;
@@ -54,6 +55,13 @@ public sealed class CompileCommand : ICliCommand
 
     private readonly FixedPointOptionSet _fixed = new();
 
+    private readonly Option<OptimizeFor> _optimize = new("--optimize")
+    {
+        Description = "Code layout: speed (rows added four at a time, vectorizable blocks) or size (plain loops, for " +
+                      "flash-limited parts such as Cortex-M0); the results are bit-identical",
+        DefaultValueFactory = _ => OptimizeFor.Speed,
+    };
+
     private readonly Option<bool> _force = new("--force")
     {
         Description = "Overwrite files in the output folder even when emit did not generate them",
@@ -63,7 +71,7 @@ public sealed class CompileCommand : ICliCommand
     {
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest })
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _optimize })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -83,17 +91,18 @@ public sealed class CompileCommand : ICliCommand
                 parse.GetValue(_templates)?.FullName,
                 parse.GetValue(_selfTest),
                 mode == NumericMode.Fixed ? _fixed.Read(parse) : null,
+                parse.GetValue(_optimize),
                 parse.GetValue(_force));
         });
         return cmd;
     }
 
     private static int Run(CliContext ctx, string modelPath, string target, NumericMode mode, string? name, string ns,
-        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, bool force)
+        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, OptimizeFor optimize, bool force)
     {
         var targets = target.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries);
         name ??= Naming.ScorerNameFromFile(modelPath);
-        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions);
+        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
         var files = ScorerCompiler.Compile(model, Path.GetFileName(modelPath), options);

@@ -1,5 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
+using Emit.Analysis;
+using Emit.Quantize;
 using Emit.Demo;
 using Emit.Emission;
 using Emit.Harness;

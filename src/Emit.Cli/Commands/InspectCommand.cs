@@ -12,7 +12,17 @@ public sealed class InspectCommand : ICliCommand
 {
     private readonly Argument<FileInfo> _model = new("MODEL") { Description = "Model file (.json or .npz)" };
     private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON" };
-    private readonly Option<string?> _numeric = new("--numeric") { Description = "Also plan this numeric mode: fixed (Q formats, proved error bound, table sizes)" };
+    private readonly Option<NumericMode?> _numeric = new("--numeric")
+    {
+        Description = "Also plan this numeric mode: f32, f64 or fixed (fixed adds Q formats, the proved error bound and table " +
+                      "sizes); every mode adds the predicted flash, stack and run-time dependencies of the generated C",
+    };
+
+    private readonly Option<OptimizeFor> _optimize = new("--optimize")
+    {
+        Description = "Layout the footprint is predicted for: speed or size (as for compile)",
+        DefaultValueFactory = _ => OptimizeFor.Speed,
+    };
     private readonly FixedPointOptionSet _fixed = new();
 
     public Command Build(CliContext ctx)
@@ -20,18 +30,26 @@ public sealed class InspectCommand : ICliCommand
         _model.AcceptExistingOnly();
         var cmd = new Command("inspect", "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and SHA-256")
         {
-            _model, _json, _numeric,
+            _model, _json, _numeric, _optimize,
         };
-        _numeric.AcceptOnlyFromAmong("fixed");
         _fixed.AddTo(cmd);
         cmd.SetAction(parse =>
         {
             var path = parse.GetRequiredValue(_model).FullName;
             var model = ModelLoader.Load(path);
             var stats = ModelStatistics.Of(model);
-            var plan = parse.GetValue(_numeric) == "fixed" ? FixedPointPlanner.Build(model, _fixed.Read(parse)) : null;
-            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan);
-            else WriteText(ctx.Out, path, model, stats, plan);
+            var mode = parse.GetValue(_numeric);
+            var plan = mode == NumericMode.Fixed ? FixedPointPlanner.Build(model, _fixed.Read(parse)) : null;
+            ScorerFootprint? footprint = null;
+            if (mode is { } m)
+            {
+                var options = new CompileOptions(["c"], m, "model", Fixed: plan is null ? null : _fixed.Read(parse), Optimize: parse.GetValue(_optimize));
+                ScorerPlan scorer = plan is null ? FloatScorerPlan.Build(model, options, Path.GetFileName(path))
+                    : FixedScorerPlan.Build(model, options, Path.GetFileName(path), plan);
+                footprint = FootprintModel.Predict(scorer);
+            }
+            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan, footprint);
+            else WriteText(ctx.Out, path, model, stats, plan, footprint);
             return CliApp.Ok;
         });
         return cmd;
@@ -39,7 +57,7 @@ public sealed class InspectCommand : ICliCommand
 
     private static string N(double x) => x.ToString("G6", CultureInfo.InvariantCulture);
 
-    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan)
+    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint)
     {
         o.WriteLine($"model          {path}");
         o.WriteLine($"sha256         {m.Sha256}");
@@ -66,6 +84,15 @@ public sealed class InspectCommand : ICliCommand
             o.WriteLine($"  h{j,-5} {N(s.HiddenInputRanges[j].Min),12} .. {N(s.HiddenInputRanges[j].Max)}");
         o.WriteLine();
         o.WriteLine("table bytes    " + string.Join("  ", s.TableBytes.Select(kv => $"{kv.Key} {kv.Value}")));
+        if (footprint is { } fp)
+        {
+            o.WriteLine();
+            o.WriteLine($"footprint      {fp.Reference}, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
+            o.WriteLine($"  flash        {fp.FlashBytes} bytes predicted (code {fp.Figures.CodeBytes}, tables {fp.Figures.TableBytes})");
+            o.WriteLine($"  stack        {fp.StackBytes} bytes worst case predicted ({fp.Figures.LibraryStackAllowance} of them for library calls)");
+            o.WriteLine($"  run time     {(fp.LibmFunctions.Count == 0 ? "no libm function" : string.Join(", ", fp.LibmFunctions) + " (libm: link with -lm)")}; " +
+                        "a compiler may call memcpy and memset");
+        }
         if (plan is null) return;
         o.WriteLine();
         o.WriteLine($"fixed point    {plan.WeightType.ToText()} weights, {plan.Accumulator.ToText()} accumulator ({plan.AccumulatorReason})");
@@ -77,12 +104,9 @@ public sealed class InspectCommand : ICliCommand
         o.WriteLine($"  rounding     half away from zero; no division, no left shift of negative values");
         o.WriteLine($"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all binary vectors");
         o.WriteLine($"  table bytes  weights {plan.WeightBytes}, softplus table {plan.TableBytes}");
-        var fp = CortexM0Footprint.Predict(plan);
-        o.WriteLine($"  cortex-m0    predicted flash {fp.FlashBytes} bytes (tables {fp.TableBytes}, code {fp.CodeBytes}), " +
-                    $"worst-case stack {fp.StackBytes} bytes (gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors)");
     }
 
-    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan) => JsonOut.Write(o, w =>
+    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint) => JsonOut.Write(o, w =>
     {
         w.WriteStartObject();
         w.WriteString("model", path);
@@ -174,10 +198,24 @@ public sealed class InspectCommand : ICliCommand
             w.WriteNumber("slack", plan.Error.Slack);
             w.WriteEndObject();
             w.WriteNumber("weight_bytes", plan.WeightBytes);
-            var fp = CortexM0Footprint.Predict(plan);
-            w.WriteNumber("predicted_flash_bytes", fp.FlashBytes);
-            w.WriteNumber("predicted_stack_bytes", fp.StackBytes);
-            w.WriteString("footprint_target", $"cortex-m0, gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
+            w.WriteEndObject();
+        }
+        if (footprint is { } fp)
+        {
+            w.WriteStartObject("footprint");
+            w.WriteString("reference", fp.Reference);
+            w.WriteNumber("self_test_vectors", CompileOptions.DefaultSelfTestVectors);
+            w.WriteNumber("flash_bytes", fp.FlashBytes);
+            w.WriteNumber("code_bytes", fp.Figures.CodeBytes);
+            w.WriteNumber("table_bytes", fp.Figures.TableBytes);
+            w.WriteNumber("stack_bytes", fp.StackBytes);
+            w.WriteNumber("library_stack_allowance", fp.Figures.LibraryStackAllowance);
+            w.WriteStartArray("libm_functions");
+            foreach (var f in fp.LibmFunctions) w.WriteStringValue(f);
+            w.WriteEndArray();
+            w.WriteStartArray("memory_functions");
+            foreach (var f in ScorerFootprint.MemoryFunctions) w.WriteStringValue(f);
+            w.WriteEndArray();
             w.WriteEndObject();
         }
         w.WriteEndObject();

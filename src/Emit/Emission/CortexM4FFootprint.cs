@@ -1,3 +1,4 @@
+using Emit.Quantize;
 namespace Emit.Emission;
 
 /// <summary>

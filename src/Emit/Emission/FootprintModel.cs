@@ -1,3 +1,4 @@
+using Emit.Quantize;
 namespace Emit.Emission;
 
 /// <summary>The footprint of a planned scorer on its mode's reference core (<see cref="CortexM0Footprint"/> in fixed mode, <see cref="CortexM4FFootprint"/> in float modes).</summary>

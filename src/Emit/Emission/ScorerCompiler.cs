@@ -1,4 +1,5 @@
 using Emit.Model;
+using Emit.Quantize;
 
 namespace Emit.Emission;
 

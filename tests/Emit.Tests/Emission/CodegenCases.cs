@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 
 namespace Emit.Tests.Emission;

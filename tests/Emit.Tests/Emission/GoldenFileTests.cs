@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.Globalization;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 
 namespace Emit.Tests.Emission;

@@ -1,6 +1,7 @@
 using System.Collections;
 using System.Globalization;
 using Emit.Model;
+using Emit.Quantize;
 using Scriban.Runtime;
 
 namespace Emit.Emission.Dialects;
