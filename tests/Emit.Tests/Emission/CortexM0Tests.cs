@@ -63,7 +63,7 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
     /// The deepest stack over the call graph (VCG text of -fcallgraph-info=su) from the public functions: each node's
     /// frame from its "N bytes (static)" label, a library node's from <paramref name="helpers"/>.
     /// </summary>
-    private static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers)
+    internal static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers)
     {
         var frames = new Dictionary<string, int>(StringComparer.Ordinal);
         foreach (Match m in Regex.Matches(ci, @"node: \{ title: ""([^""]+)"" label: ""([^""]*)"""))

@@ -46,16 +46,6 @@ public sealed class CSharpDialect : TargetDialect
     /// <inheritdoc/>
     public override IReadOnlyList<string> UnitIdentifiers => _units;
 
-    private AccumulatorType Acc => ((FixedScorerPlan)Plan).Accumulator;
-
-    /// <inheritdoc/>
-    public override string EnergyType => Plan.Mode switch
-    {
-        NumericMode.F32 => "float",
-        NumericMode.F64 => "double",
-        _ => AccType,
-    };
-
     /// <inheritdoc/>
     public override string AccType => Acc == AccumulatorType.Int32 ? "int" : "long";
 

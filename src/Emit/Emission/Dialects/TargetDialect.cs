@@ -33,8 +33,16 @@ public abstract class TargetDialect
     /// <summary>Identifiers of the visible units (one per unit; empty when the model names none).</summary>
     public abstract IReadOnlyList<string> UnitIdentifiers { get; }
 
-    /// <summary>The type of a free energy value as returned to callers.</summary>
-    public abstract string EnergyType { get; }
+    /// <summary>The type of a free energy value as returned to callers (C and C# spell float and double alike).</summary>
+    public virtual string EnergyType => Plan.Mode switch
+    {
+        NumericMode.F32 => "float",
+        NumericMode.F64 => "double",
+        _ => AccType,
+    };
+
+    /// <summary>Fixed mode: the accumulator type of the plan.</summary>
+    private protected AccumulatorType Acc => ((FixedScorerPlan)Plan).Accumulator;
 
     /// <summary>Fixed mode: the accumulator type (the energy type's width).</summary>
     public abstract string AccType { get; }
