@@ -130,7 +130,7 @@ public sealed class GoldenFileTests
         Assert.Matches(@"\n    /\* 3: temp > 80 <U\+00B0>C \*/\n", c);   // one weight row per visible unit, with its name
     }
 
-    /// <summary>What a firmware reviewer must find in fixed-mode C (issue 4 §2, §4; the style guide's fixed-point notes).</summary>
+    /// <summary>What a firmware reviewer must find in fixed-mode C (docs/generated-code.md, "Fixed-point mode"; CMSIS-DSP's scaling-and-overflow notes).</summary>
     [Fact]
     public void Fixed_c_files_state_formats_limits_rounding_bound_and_threshold()
     {
