@@ -57,6 +57,7 @@ public sealed class CompileCommand : ICliCommand
 
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
     {
+        HelpName = "speed|size",
         Description = "Code layout: speed (rows added four at a time, vectorizable blocks) or size (plain loops, for " +
                       "flash-limited parts such as Cortex-M0); the results are bit-identical",
         DefaultValueFactory = _ => OptimizeFor.Speed,

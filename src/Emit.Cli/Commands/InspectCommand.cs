@@ -14,12 +14,14 @@ public sealed class InspectCommand : ICliCommand
     private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON" };
     private readonly Option<NumericMode?> _numeric = new("--numeric")
     {
+        HelpName = "f32|f64|fixed",
         Description = "Also plan this numeric mode: f32, f64 or fixed (fixed adds Q formats, the proved error bound and table " +
                       "sizes); every mode adds the predicted flash, stack and run-time dependencies of the generated C",
     };
 
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
     {
+        HelpName = "speed|size",
         Description = "Layout the footprint is predicted for: speed or size (as for compile)",
         DefaultValueFactory = _ => OptimizeFor.Speed,
     };

@@ -59,7 +59,7 @@ public static class CortexM0Footprint
         if (links > 0) code += wide ? 100 : 80;
 
         int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
-            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? 192 : 64) + (pairs ? 16 : 0);
+            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? (pairs ? 192 : 144) : 64) + (pairs ? 16 : 0);
         int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
         return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
     }
