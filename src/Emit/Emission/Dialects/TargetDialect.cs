@@ -158,7 +158,7 @@ public abstract class TargetDialect
 
     /// <summary>
     /// Puts the dialect (<c>d</c>), the plan (<c>p</c>) and the formatting functions on the script object: <c>lit</c>,
-    /// <c>lit_up</c>, <c>bound</c>, <c>int</c>, <c>index</c>, <c>real</c>, <c>label</c>, <c>items</c>, <c>row</c>,
+    /// <c>lit_up</c>, <c>bound</c>, <c>double_up</c>, <c>int</c>, <c>index</c>, <c>real</c>, <c>label</c>, <c>items</c>, <c>row</c>,
     /// <c>comment</c>, <c>prefixed</c>, <c>xml</c>.
     /// </summary>
     public virtual void Register(ScriptObject globals)
@@ -168,6 +168,7 @@ public abstract class TargetDialect
         globals.Import("lit", new Func<double, string>(Real));
         globals.Import("lit_up", new Func<double, string>(RealUp));
         globals.Import("bound", new Func<double, string>(Bound));
+        globals.Import("double_up", new Func<double, string>(v => Literals.Upward(v, NumericMode.F64)));
         globals.Import("int", new Func<long, string>(Int));
         globals.Import("index", new Func<long, string>(Index));
         globals.Import("real", new Func<long, int, string>(RealOf));

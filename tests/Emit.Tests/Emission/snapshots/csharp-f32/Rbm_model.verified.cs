@@ -32,7 +32,7 @@ namespace Emit.Generated
         public const float Threshold = -3.0f;
 
         /// <summary>|computed − exact free energy| &lt;= ErrorBound nats for every input.</summary>
-        public const double ErrorBound = 8.47760675e-05f;
+        public const double ErrorBound = 8.4776063985650426e-05;
 
         /// <summary>SHA-256 of the model this class was generated from.</summary>
         public const string ModelSha256 = "b5cb3247cb62cb5f82d70422bbecc3615a7ded2134800dc13450b427858483df";

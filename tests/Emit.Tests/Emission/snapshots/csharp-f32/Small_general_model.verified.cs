@@ -29,7 +29,7 @@ namespace Emit.Generated
         public const double EnergyScale = 1.0;
 
         /// <summary>|computed − exact free energy| &lt;= ErrorBound nats for every input.</summary>
-        public const double ErrorBound = 3.58610996e-05f;
+        public const double ErrorBound = 3.5861098876402652e-05;
 
         /// <summary>SHA-256 of the model this class was generated from.</summary>
         public const string ModelSha256 = "2e2a123289c85ae04bf4a706bd82a3b6f42e5283a47f11365d5378625ae8a986";

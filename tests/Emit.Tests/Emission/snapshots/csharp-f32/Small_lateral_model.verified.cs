@@ -32,7 +32,7 @@ namespace Emit.Generated
         public const float Threshold = 4.5f;
 
         /// <summary>|computed − exact free energy| &lt;= ErrorBound nats for every input.</summary>
-        public const double ErrorBound = 1.54558256e-05f;
+        public const double ErrorBound = 1.5455825480118018e-05;
 
         /// <summary>SHA-256 of the model this class was generated from.</summary>
         public const string ModelSha256 = "32f83eea68a94fdc14fc7c7c8df83a1d255fd3ef4c924602a1636eacf7850e0d";
