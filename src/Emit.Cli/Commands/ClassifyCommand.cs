@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using System.Text;
+using Emit.Analysis;
 using Emit.Emission;
 using Emit.Model;
 using Emit.Reference;

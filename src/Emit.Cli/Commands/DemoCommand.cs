@@ -1,5 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
+using Emit.Analysis;
+using Emit.Quantize;
 using Emit.Demo;
 using Emit.Emission;
 using Emit.Harness;
@@ -82,7 +84,6 @@ public sealed class DemoCommand : ICliCommand
     /// </summary>
     private static void CompileAndVerify(TextWriter o, BoltzmannModel model, string modelPath, string vectorsPath)
     {
-        var inv = CultureInfo.InvariantCulture;
         var name = Naming.ScorerNameFromFile(modelPath);
         var dir = Path.Combine(Path.GetTempPath(), "emit-demo-" + Guid.NewGuid().ToString("N")[..12]);
         try

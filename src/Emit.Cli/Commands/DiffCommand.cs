@@ -2,6 +2,7 @@ using System.CommandLine;
 using System.Globalization;
 using System.Text.Json;
 using Emit.Emission;
+using Emit.Analysis;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Vectors;

@@ -13,14 +13,22 @@ public sealed class InspectCommand : ICliCommand
     private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON to standard output instead of text" };
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
-        "--numeric", "Also plan this numeric mode (Q formats, proved error bound, table sizes)", [("fixed", NumericMode.Fixed)]);
+        "--numeric", "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
+                     "the predicted flash, stack and run-time dependencies of the generated C", NumericChoices.All);
+
+    private readonly Option<OptimizeFor> _optimize = new("--optimize")
+    {
+        HelpName = "speed|size",
+        Description = "Layout the footprint is predicted for: speed or size (as for compile)",
+        DefaultValueFactory = _ => OptimizeFor.Speed,
+    };
     private readonly FixedPointOptionSet _fixed = new();
 
     public Command Build(CliContext ctx)
     {
         var cmd = new Command("inspect", "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and SHA-256")
         {
-            _model, _json, _numeric,
+            _model, _json, _numeric, _optimize,
         };
         _fixed.AddTo(cmd);
         cmd.SetAction(parse =>
@@ -28,18 +36,27 @@ public sealed class InspectCommand : ICliCommand
             var path = parse.GetRequiredValue(_model).FullName;
             var model = ModelLoader.Load(path);
             var stats = ModelStatistics.Of(model);
+            var mode = parse.GetValue(_numeric)?.Value;
             FixedPointPlan? plan = null;
-            var fixedOptions = parse.GetValue(_numeric)?.Value == NumericMode.Fixed ? _fixed.Read(parse) : null;
+            ScorerFootprint? footprint = null;
             try
             {
+                var fixedOptions = mode == NumericMode.Fixed ? _fixed.Read(parse) : null;
                 if (fixedOptions is not null) plan = FixedPointPlanner.Build(model, fixedOptions);
+                if (mode is { } m)
+                {
+                    var options = new CompileOptions(["c"], m, "model", Fixed: fixedOptions, Optimize: parse.GetValue(_optimize));
+                    ScorerPlan scorer = plan is null ? FloatScorerPlan.Build(model, options, Path.GetFileName(path))
+                        : FixedScorerPlan.Build(model, options, Path.GetFileName(path), plan);
+                    footprint = FootprintModel.Predict(scorer);
+                }
             }
             catch (EmitException e) when (e.File is null && e.Line is null)
             {
                 throw e.InFile(path);
             }
-            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan);
-            else WriteText(ctx.Out, path, model, stats, plan);
+            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan, footprint);
+            else WriteText(ctx.Out, path, model, stats, plan, footprint);
             return CliApp.Ok;
         });
         return cmd;
@@ -47,7 +64,7 @@ public sealed class InspectCommand : ICliCommand
 
     private static string N(double x) => x.ToString("G6", CultureInfo.InvariantCulture);
 
-    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan)
+    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint)
     {
         o.WriteLine($"model          {path}");
         o.WriteLine($"sha256         {m.Sha256}");
@@ -74,6 +91,15 @@ public sealed class InspectCommand : ICliCommand
             o.WriteLine($"  h{j,-5} {N(s.HiddenInputRanges[j].Min),12} .. {N(s.HiddenInputRanges[j].Max)}");
         o.WriteLine();
         o.WriteLine("table bytes    " + string.Join("  ", s.TableBytes.Select(kv => $"{kv.Key} {kv.Value}")));
+        if (footprint is { } fp)
+        {
+            o.WriteLine();
+            o.WriteLine($"footprint      {fp.Reference}, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
+            o.WriteLine($"  flash        {fp.FlashBytes} bytes predicted (code {fp.Figures.CodeBytes}, tables {fp.Figures.TableBytes})");
+            o.WriteLine($"  stack        {fp.StackBytes} bytes worst case predicted ({fp.Figures.LibraryStackAllowance} of them for library calls)");
+            o.WriteLine($"  run time     {(fp.LibmFunctions.Count == 0 ? "no libm function" : string.Join(", ", fp.LibmFunctions) + " (libm: link with -lm)")}; " +
+                        "a compiler may call memcpy and memset");
+        }
         if (plan is null) return;
         o.WriteLine();
         o.WriteLine($"fixed point    {plan.WeightType.ToText()} weights, {plan.Accumulator.ToText()} accumulator ({plan.AccumulatorReason})");
@@ -85,12 +111,9 @@ public sealed class InspectCommand : ICliCommand
         o.WriteLine($"  rounding     half away from zero; no division, no left shift of negative values");
         o.WriteLine($"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all binary vectors");
         o.WriteLine($"  table bytes  weights {plan.WeightBytes}, softplus table {plan.TableBytes}");
-        var fp = CortexM0Footprint.Predict(plan);
-        o.WriteLine($"  cortex-m0    predicted flash {fp.FlashBytes} bytes (tables {fp.TableBytes}, code {fp.CodeBytes}), " +
-                    $"worst-case stack {fp.StackBytes} bytes (gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors)");
     }
 
-    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan) => JsonOut.Write(o, w =>
+    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint) => JsonOut.Write(o, w =>
     {
         w.WriteStartObject();
         w.WriteString("model", path);
@@ -182,10 +205,24 @@ public sealed class InspectCommand : ICliCommand
             w.WriteNumber("slack", plan.Error.Slack);
             w.WriteEndObject();
             w.WriteNumber("weight_bytes", plan.WeightBytes);
-            var fp = CortexM0Footprint.Predict(plan);
-            w.WriteNumber("predicted_flash_bytes", fp.FlashBytes);
-            w.WriteNumber("predicted_stack_bytes", fp.StackBytes);
-            w.WriteString("footprint_target", $"cortex-m0, gcc -Os, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
+            w.WriteEndObject();
+        }
+        if (footprint is { } fp)
+        {
+            w.WriteStartObject("footprint");
+            w.WriteString("reference", fp.Reference);
+            w.WriteNumber("self_test_vectors", CompileOptions.DefaultSelfTestVectors);
+            w.WriteNumber("flash_bytes", fp.FlashBytes);
+            w.WriteNumber("code_bytes", fp.Figures.CodeBytes);
+            w.WriteNumber("table_bytes", fp.Figures.TableBytes);
+            w.WriteNumber("stack_bytes", fp.StackBytes);
+            w.WriteNumber("library_stack_allowance", fp.Figures.LibraryStackAllowance);
+            w.WriteStartArray("libm_functions");
+            foreach (var f in fp.LibmFunctions) w.WriteStringValue(f);
+            w.WriteEndArray();
+            w.WriteStartArray("memory_functions");
+            foreach (var f in ScorerFootprint.MemoryFunctions) w.WriteStringValue(f);
+            w.WriteEndArray();
             w.WriteEndObject();
         }
         w.WriteEndObject();

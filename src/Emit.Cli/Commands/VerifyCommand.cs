@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Harness;
 using Emit.Model;
 

@@ -7,7 +7,7 @@ namespace Emit.Emission;
 /// (see <see cref="Naming.CheckScorerName"/>). <see cref="TemplatesDirectory"/> is a folder whose
 /// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file. <see cref="Fixed"/> holds the
 /// fixed-point choices (weights, accumulator, table size) and is used only with <see cref="NumericMode.Fixed"/>
-/// (null there means the defaults).
+/// (null there means the defaults). <see cref="Optimize"/> chooses the code layout (never the results).
 /// </summary>
 public sealed record CompileOptions(
     IReadOnlyList<string> Targets,
@@ -16,7 +16,8 @@ public sealed record CompileOptions(
     string Namespace = CompileOptions.DefaultNamespace,
     int SelfTestVectors = CompileOptions.DefaultSelfTestVectors,
     string? TemplatesDirectory = null,
-    FixedPointOptions? Fixed = null)
+    FixedPointOptions? Fixed = null,
+    OptimizeFor Optimize = OptimizeFor.Speed)
 {
     /// <summary>The fixed-point options in effect (the defaults when none were given).</summary>
     public FixedPointOptions FixedOptions => Fixed ?? new FixedPointOptions();
@@ -39,7 +40,7 @@ public sealed record CompileOptions(
         }
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
-        text += $" --selftest-vectors {SelfTestVectors}";
+        text += $" --selftest-vectors {SelfTestVectors} --optimize {Optimize.ToText()}";
         if (TemplatesDirectory is not null) text += " --templates (custom)";
         return text;
     }

@@ -21,7 +21,8 @@ public static class CortexM0Footprint
     public const int LibraryStackAllowance = 32;
 
     /// <summary>Predicts the footprint of <c>emit compile --numeric fixed</c> output with <paramref name="selfTestVectors"/> embedded inputs.</summary>
-    public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors)
+    public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors,
+        OptimizeFor optimize = OptimizeFor.Speed)
     {
         var m = plan.Model;
         int v = m.Visible, h = m.Hidden, links = m.VisibleLinks.Length, packed = (v + 7) / 8;
@@ -44,7 +45,7 @@ public static class CortexM0Footprint
             tables += Table(v + 1, index) + Table(links, other) + Table(links, w);
         }
 
-        bool pairs = plan.WeightType.Bits() < plan.Accumulator.Bits();
+        bool pairs = optimize == OptimizeFor.Speed && plan.WeightType.Bits() < plan.Accumulator.Bits();
         int code = (h == 0, general, wide) switch
         {
             (true, _, false) => 200,
@@ -58,7 +59,7 @@ public static class CortexM0Footprint
         if (links > 0) code += wide ? 100 : 80;
 
         int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
-            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? 176 : 64) + (pairs ? 16 : 0);
+            : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? (pairs ? 192 : 144) : 64) + (pairs ? 16 : 0);
         int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
         return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
     }

@@ -52,20 +52,8 @@ public sealed class FixedScorerPlan : ScorerPlan
     /// <summary>general: M in format E as a full symmetric H×H matrix with zero diagonal; empty otherwise.</summary>
     public ImmutableArray<long> HiddenPairs { get; private set; }
 
-    /// <summary>
-    /// Weight rows are added several at a time (C: four, acc += r0 + r1 + r2 + r3; C#: two) when a sum of four weights
-    /// always fits the accumulator, i.e. when weights are narrower than the accumulator (4 · (2^15 − 1) &lt; 2^31,
-    /// 4 · (2^31 − 1) &lt; 2^63); otherwise one at a time. Every value an accumulator takes is still the accumulator of
-    /// some binary input, which the range analysis covers.
-    /// </summary>
-    public bool GroupRows => WeightBits < AccumulatorBits;
-
-    /// <summary>
-    /// The C row additions run over blocks of this many hidden units (then the rest one by one): gcc at -O2 (its
-    /// "very cheap" vectorizer) turns a fixed-length inner loop into full-width vector code, which a plain loop over a
-    /// widening int8/int16 → int32 addition does not get (measured on bench/generated-c, docs/benchmarks.md).
-    /// </summary>
-    public const int RowBlock = 16;
+    /// <inheritdoc/>
+    public override int RowsPerAddition => Options.Optimize == OptimizeFor.Speed && WeightBits < AccumulatorBits ? 4 : 1;
 
     /// <summary>
     /// The threshold in energy units: floor(t · 2^E), so for every integer f, f &gt; this exactly when f / 2^E &gt; t;
@@ -75,6 +63,18 @@ public sealed class FixedScorerPlan : ScorerPlan
 
     /// <summary>True when <see cref="ThresholdUnits"/> was clamped to the reachable range of results.</summary>
     public bool ThresholdClamped { get; private set; }
+
+    /// <summary>The accumulator's symmetric limit 2^(bits − 1) − 1.</summary>
+    public long AccumulatorMax => Accumulator.MaxMagnitude();
+
+    /// <summary>The weight type's symmetric limit.</summary>
+    public long WeightMax => WeightType.MaxMagnitude();
+
+    /// <summary>Smallest value the scorer returns (proved).</summary>
+    public long ResultMin => (long)ResultRange.Min;
+
+    /// <summary>Largest value the scorer returns (proved).</summary>
+    public long ResultMax => (long)ResultRange.Max;
 
     /// <summary>Proven range of every value the scorer returns (check "energy.result").</summary>
     public IntRange ResultRange => Check("energy.result").Range;

@@ -20,6 +20,9 @@ public sealed class FloatScorerPlan : ScorerPlan
     {
     }
 
+    /// <inheritdoc/>
+    public override int RowsPerAddition => 2;
+
     public ImmutableArray<double> VisibleBias { get; private set; }
     public ImmutableArray<double> HiddenBias { get; private set; }
 

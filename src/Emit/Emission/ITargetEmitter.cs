@@ -12,9 +12,9 @@ public interface ITargetEmitter
     /// <summary>File extensions written, in order (".h", ".c").</summary>
     IReadOnlyList<string> Extensions { get; }
 
-    /// <summary>Template files this target reads (names under templates/TARGET/).</summary>
+    /// <summary>Template files this target reads (names under templates/TARGET/), includes among them.</summary>
     IReadOnlyList<string> TemplateFiles { get; }
 
-    /// <summary>The generated files for a planned scorer (a <see cref="FloatScorerPlan"/> today; the fixed-point mode adds its own plan type).</summary>
+    /// <summary>The generated files for a planned scorer, each with the templates it was laid out from.</summary>
     IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates);
 }

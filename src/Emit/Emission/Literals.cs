@@ -1,3 +1,4 @@
+using Emit.Quantize;
 using System.Globalization;
 
 namespace Emit.Emission;

@@ -1,4 +1,5 @@
 using Emit.Model;
+using Emit.Quantize;
 
 namespace Emit.Emission;
 
@@ -32,6 +33,21 @@ public static class ScorerCompiler
             : FloatScorerPlan.Build(model, options, modelLabel);
         var templates = new TemplateRenderer(options.TemplatesDirectory);
         var files = emitters.SelectMany(e => e.Emit(plan, templates).Select(f => (e.Name, f))).ToArray();
-        return new CompiledScorer(plan, emitters.Select(e => e.Name).ToArray(), files, templates.Used);
+        return new CompiledScorer(plan, emitters.Select(e => e.Name).ToArray(), files, TemplatesRead(files.Select(f => f.f)));
+    }
+
+    /// <summary>Every template behind the files, once each, in the order first read, with the SHA-256 of its text as read.</summary>
+    private static IReadOnlyList<TemplateUse> TemplatesRead(IEnumerable<GeneratedFile> files)
+    {
+        var used = new List<TemplateUse>();
+        foreach (var t in files.SelectMany(f => f.Templates))
+        {
+            int slash = t.Name.IndexOf('/');
+            string target = t.Name[..slash], file = t.Name[(slash + 1)..];
+            if (used.Any(u => u.Target == target && u.File == file)) continue;
+            var sha = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(t.Text)));
+            used.Add(new TemplateUse(target, file, t.IsOverride, sha));
+        }
+        return used;
     }
 }

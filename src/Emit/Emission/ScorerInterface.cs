@@ -18,7 +18,7 @@ public sealed record ScorerInterface(string Name, int Visible, IReadOnlyList<str
     /// </summary>
     public static ScorerInterface Of(BoltzmannModel model, string modelFile)
     {
-        var macros = model.Names.IsEmpty ? [] : Naming.UnitIdentifiers(model.Names, ScorerPlan.CSharpReservedNames).C;
+        var macros = model.Names.IsEmpty ? [] : Naming.UnitIdentifiers(model.Names, []).C;
         string? energy = null, problem = null;
         if (model.Hidden > MaxPlannedHidden) problem = $"not planned for more than {MaxPlannedHidden} hidden units";
         else try

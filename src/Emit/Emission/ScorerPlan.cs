@@ -23,14 +23,9 @@ public abstract class ScorerPlan
         for (int i = 0; i < model.Visible; i++) start[i + 1] += start[i];
         LinkStart = [.. start];
         LinkOther = [.. byHigher.Select(l => l.I)];
+        LinkHigher = [.. byHigher.Select(l => l.J)];
         LinksByHigher = [.. byHigher];
-        if (!model.Names.IsEmpty)
-        {
-            UnitComments = model.Names.Select(Naming.CommentText).ToArray();
-            var (c, cs) = Naming.UnitIdentifiers(model.Names, CSharpReservedNames);
-            UnitMacroNames = c;
-            UnitConstantNames = cs;
-        }
+        if (!model.Names.IsEmpty) UnitComments = model.Names.Select(Naming.CommentText).ToArray();
     }
 
     /// <summary>Refuses a general model with more than <see cref="FloatScorerPlan.MaxGeneralHidden"/> hidden units, with the reason.</summary>
@@ -82,6 +77,9 @@ public abstract class ScorerPlan
     public ImmutableArray<int> LinkOther { get; }
     public int LinkCount => LinkOther.Length;
 
+    /// <summary>The higher unit of each link, in the order of <see cref="LinkOther"/>.</summary>
+    public ImmutableArray<int> LinkHigher { get; }
+
     /// <summary>The model's visible links in the order of <see cref="LinkOther"/>.</summary>
     protected ImmutableArray<Link> LinksByHigher { get; }
 
@@ -93,15 +91,56 @@ public abstract class ScorerPlan
     /// <summary>general: log2 of the Gray-code block size (scores are recomputed at every block start).</summary>
     public int GrayBlockBits => FloatErrorBound.GrayBlockBits(Model.Hidden);
 
+    /// <summary>general: states per Gray-code block (2^<see cref="GrayBlockBits"/>).</summary>
+    public long GrayBlockStates => 1L << GrayBlockBits;
+
+    /// <summary>general: Gray-code blocks in a walk over all hidden states.</summary>
+    public long GrayBlocks => 1L << (Model.Hidden - GrayBlockBits);
+
+    /// <summary>All 2^hidden states of a general model's hidden units.</summary>
+    public long HiddenStates => 1L << Model.Hidden;
+
     /// <summary>Unit names as one-line comment text (empty list when the model has no names).</summary>
     public IReadOnlyList<string> UnitComments { get; } = [];
 
-    /// <summary>Identifiers for unit indices: C macro suffixes and C# constant names (empty when no names).</summary>
-    public IReadOnlyList<string> UnitMacroNames { get; } = [];
-    public IReadOnlyList<string> UnitConstantNames { get; } = [];
+    /// <summary>The model's unit names as given (empty when it has none); a dialect makes identifiers of them.</summary>
+    public IReadOnlyList<string> UnitNames => Model.Names;
 
-    /// <summary>Names the generated C# class uses itself, so unit constants avoid them.</summary>
-    public static readonly string[] CSharpReservedNames = ["Units"];
+    /// <summary>The comment naming visible unit i: "i: name" or "unit i".</summary>
+    public string UnitLabel(int i) =>
+        UnitComments.Count > 0 ? Inv(i) + ": " + UnitComments[i] : "unit " + Inv(i);
+
+    private static string Inv(long n) => n.ToString(System.Globalization.CultureInfo.InvariantCulture);
+
+    /// <summary>True when the model has hidden units.</summary>
+    public bool HasHidden => Model.Hidden > 0;
+
+    /// <summary>True for kind general (links between hidden units: the hidden part is a log-sum-exp over all states).</summary>
+    public bool IsGeneral => Model.Kind == ModelKind.General;
+
+    /// <summary>True when the model has lateral links between visible units.</summary>
+    public bool HasLinks => LinkCount > 0;
+
+    /// <summary>True when the last packed byte has unused bits (they are masked off).</summary>
+    public bool HasPartialByte => LastByteMask != 0xFF;
+
+    /// <summary>True when the model carries a decision threshold.</summary>
+    public bool HasThreshold => Model.Threshold.HasValue;
+
+    /// <summary>What the generated code is laid out for (the results are the same either way).</summary>
+    public OptimizeFor Optimize => Options.Optimize;
+
+    /// <summary>The largest count any table index runs to (decides the width of index types).</summary>
+    public long LargestCount => new[] { Visible, (long)Hidden + 1, (long)Visible * Hidden, (long)Hidden * Hidden, LinkCount, (long)SelfTest.Count * PackedBytes }.Max();
+
+    /// <summary>
+    /// Weight rows added per accumulator update in fixed mode, the same in every target: four (acc += r0 + r1 + r2 +
+    /// r3) when optimizing for speed and a sum of four weights always fits the accumulator (4 · (2^15 − 1) &lt; 2^31,
+    /// 4 · (2^31 − 1) &lt; 2^63), otherwise one. Integer sums that cannot overflow are exact, so the grouping never
+    /// changes a result. Float modes add two rows at a time in every target and either optimization (rounding depends
+    /// on the order, so it is fixed).
+    /// </summary>
+    public abstract int RowsPerAddition { get; }
 
     public static string ToolVersion
     {
@@ -112,13 +151,34 @@ public abstract class ScorerPlan
         }
     }
 
+    /// <summary>
+    /// "options: …" cut before an option where the line would pass 100 characters; continuation lines are indented to
+    /// align with the first option (readers join them: see the harness's banner reader).
+    /// </summary>
+    private IEnumerable<string> OptionLines(string target)
+    {
+        const string head = "options: ";
+        var line = head;
+        foreach (var word in System.Text.RegularExpressions.Regex.Split(Options.BannerText(target), " (?=--)"))
+        {
+            if (line.Length > head.Length && line.Length + 1 + word.Length > 100)
+            {
+                yield return line;
+                line = new string(' ', head.Length);
+            }
+            line += (line.Length > head.Length && line.Trim().Length > 0 ? " " : "") + word;
+        }
+        yield return line;
+    }
+
     /// <summary>The lines of the banner every generated file starts with (no timestamp: regeneration is byte-stable).</summary>
     public IReadOnlyList<string> BannerLines(string fileName, string target) =>
     [
         $"{fileName}: generated by emit {ToolVersion} -- do not edit; regenerate with emit compile.",
         $"model: {Naming.CommentText(ModelLabel)} (kind {Model.Kind.ToText()}, {Model.Visible} visible, {Model.Hidden} hidden)",
         $"model sha256: {Model.Sha256}",
-        $"options: {Options.BannerText(target)}",
+        .. OptionLines(target),
+        $"layout: optimized for {Options.Optimize.ToText()} (the results do not depend on it)",
         "A monitoring aid, not a safety function.",
     ];
 }

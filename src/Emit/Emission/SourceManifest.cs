@@ -140,7 +140,7 @@ public sealed record SourceManifest
             Threshold = plan.Model.Threshold,
             ThresholdUnits = fixedPlan?.ThresholdUnits,
             CSharpClass = targets.Contains("csharp")
-                ? Naming.ClassName(options.Name, CSharpEmitter.ClassMembers)
+                ? Naming.ClassName(options.Name, Dialects.CSharpDialect.ClassMembers)
                 : null,
             Templates = templates,
             Files = files.Select(f =>

@@ -1,5 +1,6 @@
 using System.Reflection;
 using Scriban;
+using Scriban.Parsing;
 using Scriban.Runtime;
 using Scriban.Syntax;
 
@@ -8,31 +9,20 @@ namespace Emit.Emission;
 /// <summary>
 /// Loads and renders the Scriban templates that lay out generated files. Shipped templates are embedded resources
 /// named <c>templates/TARGET/FILE.sbn</c>; a templates folder given by the user overrides them file by file
-/// (<c>DIR/TARGET/FILE.sbn</c>). Templates see one object, <c>m</c>, whose members keep their C# names
-/// (no snake_case renaming). Errors name the template file, line and column.
+/// (<c>DIR/TARGET/FILE.sbn</c>), included templates (<c>include "common.c.sbn"</c>) too. Member names keep their C#
+/// spelling (no snake_case renaming). Errors name the template file, line and column.
 /// </summary>
 public sealed class TemplateRenderer
 {
     private readonly string? _overrideDirectory;
-    private readonly List<TemplateUse> _used = [];
 
+    /// <summary>A renderer reading overrides from <paramref name="overrideDirectory"/> (null: shipped templates only).</summary>
     public TemplateRenderer(string? overrideDirectory)
     {
         if (overrideDirectory is not null && !Directory.Exists(overrideDirectory))
             throw new EmitException("templates folder does not exist", "give a folder holding c/ and csharp/ template files", overrideDirectory);
         _overrideDirectory = overrideDirectory;
     }
-
-    /// <summary>The templates read so far, each once, in the order first read (for the manifest, docs/manifest.md).</summary>
-    public IReadOnlyList<TemplateUse> Used => _used;
-
-    /// <summary>Names of the shipped templates, as <c>TARGET/FILE.sbn</c>.</summary>
-    public static IReadOnlyList<string> ShippedTemplates() =>
-        typeof(TemplateRenderer).Assembly.GetManifestResourceNames()
-            .Where(n => n.StartsWith("templates/", StringComparison.Ordinal))
-            .Select(n => n["templates/".Length..])
-            .Order(StringComparer.Ordinal)
-            .ToArray();
 
     /// <summary>
     /// Checks an override folder's sub-folder for <paramref name="target"/>: every <c>.sbn</c> file there must be one
@@ -49,17 +39,20 @@ public sealed class TemplateRenderer
     }
 
     /// <summary>Renders template <c>TARGET/FILE</c> with <paramref name="model"/> as <c>m</c>.</summary>
-    public string Render(string target, string file, object model)
+    public string Render(string target, string file, object model) =>
+        Render(target, file, globals => globals.SetValue("m", model, readOnly: true)).Text;
+
+    /// <summary>
+    /// Renders template <c>TARGET/FILE</c> with the globals <paramref name="register"/> puts on the script object;
+    /// returns the text and every template read (the main one first, then its includes).
+    /// </summary>
+    public (string Text, IReadOnlyList<UsedTemplate> Templates) Render(string target, string file, Action<ScriptObject> register)
     {
-        var (text, path) = Load(target, file);
-        var template = Template.Parse(text, path);
-        if (template.HasErrors)
-        {
-            var first = template.Messages.First(m => m.Type == Scriban.Parsing.ParserMessageType.Error);
-            throw new EmitException($"template error: {first.Message}", "fix the template", path, first.Span.Start.Line + 1, first.Span.Start.Column + 1);
-        }
+        var loader = new Loader(this, target);
+        var main = loader.Read(target + "/" + file);
+        var template = Parse(main);
         var globals = new ScriptObject();
-        globals.SetValue("m", model, readOnly: true);
+        register(globals);
         var context = new TemplateContext
         {
             StrictVariables = true,
@@ -67,44 +60,85 @@ public sealed class TemplateRenderer
             NewLine = "\n",
             LoopLimit = 0,          // a weight table has more than the default 1000 rows
             LimitToString = 0,      // and more than the default 1 MB of text
+            RecursiveLimit = 0,
             MemberRenamer = member => member.Name,
+            TemplateLoader = loader,
         };
         context.PushGlobal(globals);
         try
         {
-            return template.Render(context).Replace("\r\n", "\n", StringComparison.Ordinal);
+            var text = template.Render(context).Replace("\r\n", "\n", StringComparison.Ordinal);
+            return (text, loader.Used);
+        }
+        catch (ScriptParserRuntimeException e) when (e.ParserMessages.Count > 0)
+        {
+            var first = e.ParserMessages.First(m => m.Type == ParserMessageType.Error);
+            throw new EmitException($"template error: {first.Message}", "fix the template", first.Span.FileName,
+                first.Span.Start.Line + 1, first.Span.Start.Column + 1);
         }
         catch (ScriptRuntimeException e)
         {
-            throw new EmitException($"template error: {e.OriginalMessage}", "fix the template", path, e.Span.Start.Line + 1, e.Span.Start.Column + 1);
+            throw new EmitException($"template error: {e.OriginalMessage}", "fix the template", e.Span.FileName ?? main.Source,
+                e.Span.Start.Line + 1, e.Span.Start.Column + 1);
         }
     }
 
-    private (string Text, string Path) Load(string target, string file)
+    private static Template Parse(UsedTemplate t)
+    {
+        var template = Template.Parse(t.Text, t.Source);
+        if (template.HasErrors)
+        {
+            var first = template.Messages.First(m => m.Type == ParserMessageType.Error);
+            throw new EmitException($"template error: {first.Message}", "fix the template", t.Source, first.Span.Start.Line + 1, first.Span.Start.Column + 1);
+        }
+        return template;
+    }
+
+    private UsedTemplate Load(string name)
     {
         if (_overrideDirectory is not null)
         {
-            var path = System.IO.Path.Combine(_overrideDirectory, target, file);
+            var path = Path.Combine(_overrideDirectory, name);
             if (File.Exists(path))
             {
-                try { return (Record(target, file, true, File.ReadAllBytes(path)), path); }
+                try { return new UsedTemplate(name, path, File.ReadAllText(path).Replace("\r\n", "\n", StringComparison.Ordinal)); }
                 catch (IOException e) { throw new EmitException($"cannot read template: {e.Message}", null, path); }
             }
         }
-        var name = $"templates/{target}/{file}";
-        using var stream = Assembly.GetExecutingAssembly().GetManifestResourceStream(name)
-                           ?? throw new InvalidOperationException($"shipped template {name} is missing from the assembly");
-        using var bytes = new MemoryStream();
-        stream.CopyTo(bytes);
-        return (Record(target, file, false, bytes.ToArray()), name);
+        var resource = "templates/" + name;
+        using var stream = Assembly.GetExecutingAssembly().GetManifestResourceStream(resource)
+                           ?? throw new InvalidOperationException($"shipped template {resource} is missing from the assembly");
+        using var reader = new StreamReader(stream);
+        return new UsedTemplate(name, resource, reader.ReadToEnd());
     }
 
-    /// <summary>Notes a template read (its SHA-256 over the bytes) and returns its text.</summary>
-    private string Record(string target, string file, bool custom, byte[] bytes)
+    /// <summary>Resolves includes within the target's folder and records every template read.</summary>
+    private sealed class Loader(TemplateRenderer owner, string target) : ITemplateLoader
     {
-        if (!_used.Any(u => u.Target == target && u.File == file))
-            _used.Add(new TemplateUse(target, file, custom, Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(bytes))));
-        using var reader = new StreamReader(new MemoryStream(bytes));
-        return reader.ReadToEnd();
+        private readonly List<UsedTemplate> _used = [];
+
+        public IReadOnlyList<UsedTemplate> Used => _used;
+
+        public UsedTemplate Read(string name)
+        {
+            var found = _used.FirstOrDefault(u => u.Name == name);
+            if (found is not null) return found;
+            var t = owner.Load(name);
+            _used.Add(t);
+            return t;
+        }
+
+        public string GetPath(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templateName)
+        {
+            if (templateName.Contains('/') || templateName.Contains('\\') || templateName.Contains(".."))
+                throw new EmitException($"template error: include \"{templateName}\" names a folder", "include files of the same target folder by file name",
+                    callerSpan.FileName, callerSpan.Start.Line + 1, callerSpan.Start.Column + 1);
+            return target + "/" + templateName;
+        }
+
+        public string Load(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templatePath) => Read(templatePath).Text;
+
+        public ValueTask<string?> LoadAsync(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templatePath) =>
+            ValueTask.FromResult<string?>(Load(context, callerSpan, templatePath));
     }
 }

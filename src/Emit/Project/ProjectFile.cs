@@ -119,6 +119,7 @@ public static class ProjectFile
             List<string>? targets = null;
             NumericMode numeric = NumericMode.F32;
             int selfTest = CompileOptions.DefaultSelfTestVectors;
+            OptimizeFor optimize = OptimizeFor.Speed;
             WeightType weights = WeightType.Int16;
             AccumulatorType? accumulator = null;
             int table = FixedPointOptions.DefaultTableSize;
@@ -157,6 +158,12 @@ public static class ProjectFile
                         if (!Directory.Exists(templates)) throw _c.Error($"{field}: folder not found: {Naming.CommentText(templates)}", "paths are relative to the project file's folder");
                         break;
                     case "selftest_vectors": selfTest = _c.Integer(field, 1, CompileOptions.MaxSelfTestVectors); break;
+                    case "optimize":
+                        {
+                            var text = _c.String(field);
+                            optimize = OptimizeForNames.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use speed or size");
+                            break;
+                        }
                     case "weights":
                         {
                             var text = _c.String(field);
@@ -179,7 +186,7 @@ public static class ProjectFile
                         break;
                     default:
                         throw _c.Error($"unknown field \"{Naming.CommentText(key)}\" in {at}",
-                            "a scorer has model, name, targets, numeric, namespace, out, templates, selftest_vectors, and for numeric fixed weights, accumulator, softplus_table");
+                            "a scorer has model, name, targets, numeric, namespace, out, templates, selftest_vectors, optimize, and for numeric fixed weights, accumulator, softplus_table");
                 }
             }
             if (model is null) throw _c.Error($"{at} has no model", "add \"model\": \"path/to/model.json\"", offset);
@@ -195,7 +202,7 @@ public static class ProjectFile
             foreach (var t in targets)
                 if (Targets.Find(t) is null) throw _c.Error($"{at}.targets: unknown target \"{Naming.CommentText(t)}\"", $"use one or more of: {Targets.NameList}", offset);
             var fixedOptions = numeric == NumericMode.Fixed ? new FixedPointOptions(weights, accumulator, table) : null;
-            var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name, ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions);
+            var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name, ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions, optimize);
             return new ProjectScorer(model, outDir ?? Path.Combine(_base, "out"), options, _c.Position(offset).Line);
         }
 

@@ -1,4 +1,3 @@
-using Emit.Emission;
 using Emit.Model;
 using Emit.Reference;
 

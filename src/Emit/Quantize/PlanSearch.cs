@@ -4,8 +4,13 @@ using Emit.Reference;
 
 namespace Emit.Quantize;
 
-/// <summary>The candidate search behind <see cref="FixedPointPlanner"/> (caches quantized columns and tables).</summary>
-internal sealed class PlanSearch
+/// <summary>
+/// The candidate search behind <see cref="FixedPointPlanner"/> (caches quantized columns and tables). Split by concern:
+/// this file tries candidates and builds the winner; PlanSearch.UnitFormats.cs chooses each hidden unit's format and
+/// checks its ranges, PlanSearch.LateralFormats.cs the lateral links' format, PlanSearch.ErrorBudget.cs encloses the
+/// hidden-input error.
+/// </summary>
+internal sealed partial class PlanSearch
 {
     private readonly BoltzmannModel _m;
     private readonly FixedPointOptions _o;
@@ -42,73 +47,6 @@ internal sealed class PlanSearch
     }
 
     private readonly double _energyMagnitude;
-
-    /// <summary>
-    /// Largest f ≤ MaxFractionBits with |round(maxAbs · 2^f)| ≤ wmax. A magnitude too large for
-    /// <see cref="FixedRounding.Quantize"/> at some f is above any weight type there, so f is lowered without
-    /// quantizing until the product is within 2^63.
-    /// </summary>
-    private static int FractionLimit(double maxAbs, long wmax)
-    {
-        int f = FixedPointPlanner.MaxFractionBits;
-        while (maxAbs > 0 && (Math.ScaleB(maxAbs, f) >= 9.2233720368547758E18 || FixedRounding.Quantize(maxAbs, f) > wmax)) f--;
-        return f;
-    }
-
-    /// <summary>A column (or the lateral links) quantized at f fraction bits, with its signed sums.</summary>
-    private sealed class Column
-    {
-        public required long[] Q;
-        public required long Bias;           // hidden bias (columns only)
-        public required Int128 Neg, Pos;     // Σ min(0, q), Σ max(0, q)
-        public required ErrorInterval Delta; // bias error + [Σ min(0, Δw), Σ max(0, Δw)], nats
-        public required double[] D;          // Δw per entry, nats
-        public required double DC;           // bias error, nats
-    }
-
-    private Column GetColumn(int j, int f)
-    {
-        if (_columns.TryGetValue((j, f), out var c)) return c;
-        int v = _m.Visible;
-        var q = new long[v];
-        var dd = new double[v];
-        Int128 neg = 0, pos = 0;
-        double dn = 0, dp = 0;
-        for (int i = 0; i < v; i++)
-        {
-            double w = _m.Weight(i, j);
-            q[i] = (long)FixedRounding.Quantize(w, f);
-            if (q[i] < 0) neg += q[i]; else pos += q[i];
-            double d = Math.ScaleB((double)q[i], -f) - w;
-            dd[i] = d;
-            if (d < 0) dn += d; else dp += d;
-        }
-        Int128 bias = FixedRounding.Quantize(_m.HiddenBias[j], f);
-        double db = Math.ScaleB((double)bias, -f) - _m.HiddenBias[j];
-        if (bias > long.MaxValue / 2 || bias < long.MinValue / 2) bias = long.MaxValue / 2;  // fails every range check
-        c = new Column { Q = q, Bias = (long)bias, Neg = neg, Pos = pos, Delta = new ErrorInterval(dn + db, dp + db), D = dd, DC = db };
-        _columns[(j, f)] = c;
-        return c;
-    }
-
-    private Column GetLateral(int f)
-    {
-        if (_lateral.TryGetValue(f, out var c)) return c;
-        var links = _m.VisibleLinks;
-        var q = new long[links.Length];
-        Int128 neg = 0, pos = 0;
-        double dn = 0, dp = 0;
-        for (int k = 0; k < links.Length; k++)
-        {
-            q[k] = (long)FixedRounding.Quantize(links[k].W, f);
-            if (q[k] < 0) neg += q[k]; else pos += q[k];
-            double d = Math.ScaleB((double)q[k], -f) - links[k].W;
-            if (d < 0) dn += d; else dp += d;
-        }
-        c = new Column { Q = q, Bias = 0, Neg = neg, Pos = pos, Delta = new ErrorInterval(dn, dp), D = [], DC = 0 };
-        _lateral[f] = c;
-        return c;
-    }
 
     private SoftplusTable? GetTable(int rho, int e)
     {
@@ -162,67 +100,6 @@ internal sealed class PlanSearch
         return best;
     }
 
-    private static Int128 Pow2(int k) => (Int128)1 << k;
-
-    /// <summary>Range of to_energy(x, s) over x ∈ r, and of its intermediate (|x| + half, or x · 2^−s).</summary>
-    private static (IntRange Result, IntRange Intermediate) RescaleRange(IntRange r, int s)
-    {
-        var result = new IntRange(FixedRounding.Rescale(r.Min, s), FixedRounding.Rescale(r.Max, s));
-        // s ≤ 0: the constant factor 2^−s itself must be representable too.
-        var mid = s > 0 ? new IntRange(0, r.MaxAbs + Pow2(s - 1)) : (Pow2(-s) * r).Hull(IntRange.Point(Pow2(-s)));
-        return (result, mid);
-    }
-
-    /// <summary>Collects named range checks, or only tests them when no list is given (the search).</summary>
-    private sealed class CheckSink(List<RangeCheck>? list, long limit)
-    {
-        public bool Ok { get; private set; } = true;
-
-        public void Add(string? unit, string name, IntRange range)
-        {
-            if (!range.Within(limit)) Ok = false;
-            list?.Add(new RangeCheck(unit is null ? name : unit + "." + name, range, limit));
-        }
-    }
-
-    /// <summary>Ranges of a table lookup G_q(m) at index shift d: the limit P and the interpolation product.</summary>
-    private static void LookupChecks(string? unit, string prefix, SoftplusTable table, int f, CheckSink checks)
-    {
-        int d = table.IndexShift(f);
-        checks.Add(unit, prefix + "table_limit", IntRange.Point(table.Limit(f)));
-        Int128 half = d > 0 ? Pow2(d - 1) : 0;
-        checks.Add(unit, prefix + "interpolation_product", new IntRange(0, table.MaxEntryStep * Pow2(d) + half));
-    }
-
-    /// <summary>Checks of one hidden unit at f fraction bits; its output range (softplus_q value or score term z_j).</summary>
-    private void UnitChecks(string? u, Column col, int f, SoftplusTable table, CheckSink checks, out IntRange output)
-    {
-        int e = table.FractionBits;
-        var a = new IntRange(col.Bias + col.Neg, col.Bias + col.Pos);
-        checks.Add(u, "accumulator", a);
-        int s = f - e;
-        if (_m.Kind == ModelKind.General)
-        {
-            var (z, mid) = RescaleRange(a, s);
-            checks.Add(u, "to_energy", mid);
-            checks.Add(u, "score_term", z);
-            output = z;
-        }
-        else
-        {
-            LookupChecks(u, "", table, f, checks);
-            Int128 posMax = 0;
-            if (a.Max > 0)
-            {
-                var (pos, mid) = RescaleRange(new IntRange(Int128.Max(a.Min, 1), a.Max), s);
-                checks.Add(u, "to_energy", mid);
-                posMax = pos.Max;
-            }
-            output = new IntRange(0, posMax + table.Entries[0]);
-            checks.Add(u, "softplus", output);
-        }
-    }
-
     /// <summary>
     /// One candidate: formats for (acc, table), range checks, and the error budget. With <paramref name="named"/>
     /// null the cheap per-unit hidden-input enclosure is used (search); otherwise the coupled one, and the checks
@@ -238,57 +115,9 @@ internal sealed class PlanSearch
         var outRange = new IntRange[h];
         var cols = new Column[h];
         reduced = false;
-        for (int j = 0; j < h; j++)
-        {
-            int fj = Math.Min(_weightLimit[j], FixedPointPlanner.MaxFractionBits);
-            while (true)
-            {
-                if (fj < step) return null;
-                var col = GetColumn(j, fj);
-                var probe = new CheckSink(null, lim);
-                UnitChecks(null, col, fj, table, probe, out outRange[j]);
-                if (probe.Ok)
-                {
-                    if (named is not null) UnitChecks("hidden[" + j + "]", col, fj, table, checks, out _);
-                    cols[j] = col;
-                    break;
-                }
-                fj--;
-                reduced = true;
-            }
-            f[j] = fj;
-        }
+        if (!ChooseUnitFormats(table, lim, checks, named is not null, f, outRange, cols, ref reduced)) return null;
 
-        // Lateral links: f_L as large as the weight type allows, lowered until the sum and its rescaling fit.
-        Column lat;
-        int fl;
-        IntRange latE;
-        if (_m.VisibleLinks.IsEmpty)
-        {
-            fl = e;
-            lat = GetLateral(fl);
-            latE = IntRange.Point(0);
-        }
-        else
-        {
-            fl = Math.Min(_lateralLimit, FixedPointPlanner.MaxFractionBits);
-            while (true)
-            {
-                if (fl < -40) return null;
-                lat = GetLateral(fl);
-                var r = new IntRange(lat.Neg, lat.Pos);
-                var (res, mid) = RescaleRange(r, fl - e);
-                latE = res;
-                if (r.Within(lim) && mid.Within(lim))
-                {
-                    checks.Add(null, "lateral.accumulator", r);
-                    checks.Add(null, "lateral.to_energy", mid);
-                    break;
-                }
-                fl--;
-                reduced |= fl < _lateralLimit;
-            }
-        }
+        if (!ChooseLateralFormat(e, lim, checks, ref reduced, out var lat, out int fl, out var latE)) return null;
 
         // Visible biases at E bits.
         var bq = new long[v];
@@ -416,34 +245,6 @@ internal sealed class PlanSearch
             Acc = acc, Table = table, F = f, LateralF = fl, VisibleBias = bq, HiddenLinks = mq, Offset = offset,
             Budget = budget, UnitError = unitErr,
         };
-    }
-
-    /// <summary>
-    /// Enclosure of Σ_j s_j δ_j(v) (slopes s_j ∈ [sLo_j, sHi_j]): per unit during the search; coupled (row-wise
-    /// with a spectral-norm term, see <see cref="CoupledBound"/>) for the final plan, cached per choice of formats.
-    /// </summary>
-    private ErrorInterval HiddenInputs(int[] f, Column[] cols, double[] sLo, double[] sHi, bool coupled)
-    {
-        int h = _m.Hidden, v = _m.Visible;
-        if (!coupled)
-        {
-            var sum = ErrorInterval.Zero;
-            for (int j = 0; j < h; j++) sum += new ErrorInterval(sLo[j], sHi[j]).Times(cols[j].Delta);
-            return sum;
-        }
-        string key = string.Join(",", f);
-        if (_coupled.TryGetValue(key, out var cached)) return cached;
-        var dW = new double[v * h];
-        var dC = new double[h];
-        for (int j = 0; j < h; j++)
-        {
-            dC[j] = cols[j].DC;
-            var d = cols[j].D;
-            for (int i = 0; i < v; i++) dW[i * h + j] = d[i];
-        }
-        var result = CoupledBound.Compute(v, h, dW, dC, sLo, sHi, spectral: true);
-        _coupled[key] = result;
-        return result;
     }
 
     /// <summary>Re-evaluates a search winner with the coupled hidden-input enclosure and named range checks.</summary>

@@ -14,6 +14,9 @@ public readonly record struct QFormat(int TotalBits, int FractionBits, bool Sign
     /// <summary>Value of one least significant bit: 2^−n.</summary>
     public double Lsb => Math.ScaleB(1.0, -FractionBits);
 
+    /// <summary>The format as text ("Q15.16"), for templates.</summary>
+    public string Text => ToString();
+
     /// <summary>"Qm.n" or "UQm.n".</summary>
     public override string ToString() =>
         (Signed ? "Q" : "UQ") + IntegerBits.ToString(System.Globalization.CultureInfo.InvariantCulture) + "." +

@@ -199,9 +199,6 @@ public sealed class VectorReader : IDisposable
         return rows;
     }
 
-    /// <inheritdoc cref="ReadBatch(Span{byte}, int)"/>
-    public int ReadBatch(byte[] buffer, int maxRows) => ReadBatch(buffer.AsSpan(), maxRows);
-
     public void Dispose()
     {
         if (!_leaveOpen) _stream.Dispose();

@@ -126,20 +126,32 @@ public sealed class InspectFixedPointTests
         Assert.True(worst > 0);
     }
 
-    /// <summary>The footprint prediction reaches both outputs; the Arm toolchain checks its values (CortexM0Tests).</summary>
-    [Fact]
-    public void Inspect_states_the_predicted_cortex_m0_flash_and_stack()
+    /// <summary>
+    /// The footprint prediction and the run-time dependencies reach both outputs in every mode, equal to what the generated
+    /// header states; the Arm toolchain checks the values (CortexM0Tests, CortexM4FTests).
+    /// </summary>
+    [Theory]
+    [InlineData("fixed", "Cortex-M0", "")]
+    [InlineData("f32", "Cortex-M4F", "expf, logf, fabsf")]
+    [InlineData("f64", "Cortex-M4F", "exp, log, fabs")]
+    public void Inspect_states_the_predicted_flash_stack_and_dependencies(string numeric, string core, string libm)
     {
-        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        var dir = CliRunner.TempDir();
+        var path = Path.Combine(dir, "m.json");
         ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 50, 20, 1), path, force: true);
-        var json = JsonDocument.Parse(CliRunner.Run("inspect", path, "--numeric", "fixed", "--json").Out).RootElement.GetProperty("fixed_point");
-        long flash = json.GetProperty("predicted_flash_bytes").GetInt64();
-        long stack = json.GetProperty("predicted_stack_bytes").GetInt64();
-        Assert.True(flash > 50 * 20 * 2, $"flash {flash} is below the int16 weight table alone");
+        var json = JsonDocument.Parse(CliRunner.Run("inspect", path, "--numeric", numeric, "--json").Out).RootElement.GetProperty("footprint");
+        long flash = json.GetProperty("flash_bytes").GetInt64();
+        long stack = json.GetProperty("stack_bytes").GetInt64();
+        Assert.Contains(core, json.GetProperty("reference").GetString());
+        Assert.Equal(libm, string.Join(", ", json.GetProperty("libm_functions").EnumerateArray().Select(e => e.GetString())));
+        Assert.True(flash > 50 * 20 * 2, $"flash {flash} is below the smallest weight table alone");
         Assert.InRange(stack, 20 * 4, 4096);
-        var text = CliRunner.Run("inspect", path, "--numeric", "fixed").Out;
-        Assert.Contains($"predicted flash {flash} bytes", text);
-        Assert.Contains($"worst-case stack {stack} bytes", text);
+        var text = CliRunner.Run("inspect", path, "--numeric", numeric).Out;
+        Assert.Contains($"flash        {flash} bytes predicted", text);
+        Assert.Contains($"stack        {stack} bytes worst case", text);
+        Assert.Equal(0, CliRunner.Run("compile", path, "--numeric", numeric, "--name", "m", "--out", dir).ExitCode);
+        var header = File.ReadAllText(Path.Combine(dir, "m.h"));
+        Assert.Contains($"#define M_FLASH_BYTES {flash}\n#define M_STACK_BYTES {stack}\n", header);
     }
 
     [Fact]

@@ -3,6 +3,7 @@ using System.Text.Json;
 using System.Text.RegularExpressions;
 using System.Xml.Linq;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Harness;
 using Emit.Model;
 using Emit.Reference;

@@ -1,4 +1,5 @@
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Harness;
 
 namespace Emit.Tests.Emission;

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 
 namespace Emit.Tests.Emission;
@@ -27,6 +28,8 @@ internal static class CodegenCases
         new("rbm_a", WithNames(TestModels.Random(ModelKind.Rbm, 37, 11, seed: 11), HostileNames).With(threshold: -2.5, null), 80),
         new("rbm_b", TestModels.Random(ModelKind.Rbm, 16, 0, seed: 12), 40),
         new("rbm_c", TestModels.Random(ModelKind.Rbm, 1, 3, seed: 13, scale: 2.0), 4),
+        // 19 hidden units: the row additions run in blocks of 16 plus a remainder when optimizing for speed
+        new("rbm_d", TestModels.Random(ModelKind.Rbm, 24, 19, seed: 20), 40),
         new("lat_a", TestModels.Random(ModelKind.Lateral, 29, 7, seed: 14).With(threshold: 3.25, null), 80),
         new("lat_b", TestModels.Random(ModelKind.Lateral, 8, 5, seed: 15, linkDensity: 0), 40),
         new("gen_a", TestModels.Random(ModelKind.General, 12, 6, seed: 16, scale: 1.0), 60),

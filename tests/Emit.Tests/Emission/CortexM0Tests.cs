@@ -39,10 +39,11 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
     private static string ReferenceModelPath([CallerFilePath] string here = "") =>
         Path.GetFullPath(Path.Combine(Path.GetDirectoryName(here)!, "..", "..", "..", "demo-data", "reefer-fleet.json"));
 
-    private static Build Compile(string dir, string name, BoltzmannModel model, FixedPointOptions options, string gcc, string poison)
+    private static Build Compile(string dir, string name, BoltzmannModel model, FixedPointOptions options, string gcc, string poison,
+        OptimizeFor optimize = OptimizeFor.Speed)
     {
         var plan = FixedPointPlanner.Build(model, options);
-        var compileOptions = new CompileOptions(["c"], NumericMode.Fixed, name, Fixed: options);
+        var compileOptions = new CompileOptions(["c"], NumericMode.Fixed, name, Fixed: options, Optimize: optimize);
         foreach (var f in ScorerCompiler.Compile(model, name + ".json", compileOptions))
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         var obj = Path.Combine(dir, name + ".o");
@@ -56,14 +57,14 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
         foreach (var line in File.ReadAllLines(Path.Combine(dir, name + ".su")))
             Assert.EndsWith("\tstatic", line);   // no variable-length arrays or alloca
         int stack = WorstStack(File.ReadAllText(Path.Combine(dir, name + ".ci")), name, HelperStack(gcc));
-        return new Build(name, flash, stack, undefined, CortexM0Footprint.Predict(plan, compileOptions.SelfTestVectors));
+        return new Build(name, flash, stack, undefined, CortexM0Footprint.Predict(plan, compileOptions.SelfTestVectors, optimize));
     }
 
     /// <summary>
     /// The deepest stack over the call graph (VCG text of -fcallgraph-info=su) from the public functions: each node's
     /// frame from its "N bytes (static)" label, a library node's from <paramref name="helpers"/>.
     /// </summary>
-    private static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers)
+    internal static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers)
     {
         var frames = new Dictionary<string, int>(StringComparer.Ordinal);
         foreach (Match m in Regex.Matches(ci, @"node: \{ title: ""([^""]+)"" label: ""([^""]*)"""))
@@ -133,7 +134,11 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
             foreach (var acc in new AccumulatorType?[] { null, AccumulatorType.Int64 })
                 builds.Add(Compile(dir, $"reefer_{w.ToText()}_{(acc is { } a ? a.ToText() : "auto")}", demo, new FixedPointOptions(w, acc), gcc, poison));
         foreach (var c in FixedCodegenCases.All)
+        {
             builds.Add(Compile(dir, c.Name, c.Case.Model, c.Options, gcc, poison));
+            builds.Add(Compile(dir, c.Name + "_size", c.Case.Model, c.Options, gcc, poison, OptimizeFor.Size));
+        }
+        builds.Add(Compile(dir, "reefer_int16_size", demo, new FixedPointOptions(), gcc, poison, OptimizeFor.Size));
 
         output.WriteLine("build | undefined symbols | flash measured / predicted | stack measured / predicted (bytes)");
         foreach (var b in builds)

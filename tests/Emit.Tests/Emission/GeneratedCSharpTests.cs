@@ -92,7 +92,7 @@ public sealed class CSharpBuildFixture
             {
                 var name = CodegenCases.Generate(c, mode, dir, "csharp");
                 Sources[name] = File.ReadAllText(Path.Combine(dir, name + ".cs"));
-                var cls = "Emit.Tests.Generated." + Naming.ClassName(name, CSharpEmitter.ClassMembers);
+                var cls = "Emit.Tests.Generated." + Naming.ClassName(name, Emit.Emission.Dialects.CSharpDialect.ClassMembers);
                 selfTest.Append($"        \"{name}\" => {cls}.SelfTest(),\n");
                 touch.Append($"        \"{name}\" => {cls}.FreeEnergy(packed) + {cls}.FreeEnergyUnits(units) + {cls}.SelfTest(),\n");
                 string unusual = c.Model.Threshold.HasValue ? $"({cls}.IsUnusual(e1) ? 1 : 0)" : "-1";

@@ -185,8 +185,7 @@ public sealed class GeneratedCTests
         var path = Path.Combine(dir, name + ".c");
         var text = File.ReadAllText(path);
         int table = text.IndexOf($"{name}_weights[", StringComparison.Ordinal);
-        var literal = System.Text.RegularExpressions.Regex.Match(text[table..], @"
-        (-?[0-9.e+-]+)f?,");
+        var literal = System.Text.RegularExpressions.Regex.Match(text[table..], @"\n    (-?[0-9][0-9.e+-]*)f?,");
         int at = table + literal.Groups[1].Index;
         double value = double.Parse(literal.Groups[1].Value, System.Globalization.CultureInfo.InvariantCulture);
         var damaged = Literals.Of(value + 0.01, mode);

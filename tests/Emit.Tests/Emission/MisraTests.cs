@@ -1,5 +1,6 @@
 using System.Text.RegularExpressions;
 using Emit.Emission;
+using Emit.Quantize;
 
 namespace Emit.Tests.Emission;
 

@@ -56,9 +56,9 @@ public sealed class NamingTests
     [Fact]
     public void Class_name_never_equals_a_member_name()
     {
-        Assert.Equal("VisibleScorer", Naming.ClassName("visible", CSharpEmitter.ClassMembers));
-        Assert.Equal("FreeEnergyScorer", Naming.ClassName("free_energy", CSharpEmitter.ClassMembers));
-        Assert.Equal("PumpA", Naming.ClassName("pump_a", CSharpEmitter.ClassMembers));
+        Assert.Equal("VisibleScorer", Naming.ClassName("visible", Emit.Emission.Dialects.CSharpDialect.ClassMembers));
+        Assert.Equal("FreeEnergyScorer", Naming.ClassName("free_energy", Emit.Emission.Dialects.CSharpDialect.ClassMembers));
+        Assert.Equal("PumpA", Naming.ClassName("pump_a", Emit.Emission.Dialects.CSharpDialect.ClassMembers));
     }
 
     [Fact]

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Runtime.CompilerServices;
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 
 namespace Emit.Tests.Emission;

@@ -1,4 +1,5 @@
 using Emit.Emission;
+using Emit.Quantize;
 using Emit.Model;
 using Emit.Tests.Model;
 using Emit.Vectors;

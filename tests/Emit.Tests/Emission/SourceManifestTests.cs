@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text.Json;
 using System.Text.RegularExpressions;
+using Emit.Quantize;
 using Emit.Emission;
 using Emit.Model;
 using Emit.Tests.Cli;

@@ -1,4 +1,5 @@
 using Emit.Emission;
+using Emit.Quantize;
 
 namespace Emit.Tests.Emission;
 

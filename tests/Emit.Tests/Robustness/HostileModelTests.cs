@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text;
+using Emit.Quantize;
 using Emit.Emission;
 using Emit.Tests.Cli;
 

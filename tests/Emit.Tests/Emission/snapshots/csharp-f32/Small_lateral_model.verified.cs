@@ -3,6 +3,8 @@
 // model: plant.json (kind lateral, 6 visible, 3 hidden)
 // model sha256: 32f83eea68a94fdc14fc7c7c8df83a1d255fd3ef4c924602a1636eacf7850e0d
 // options: --target csharp --numeric f32 --name plant --namespace Emit.Generated --selftest-vectors 5
+//          --optimize speed
+// layout: optimized for speed (the results do not depend on it)
 // A monitoring aid, not a safety function.
 #nullable enable
 
@@ -23,7 +25,7 @@ namespace Emit.Generated
         /// <summary>Bytes of a packed input: unit i is bit (i &amp; 7) of byte i &gt;&gt; 3.</summary>
         public const int PackedBytes = 1;
 
-        /// <summary>Real free energy = value / EnergyScale.</summary>
+        /// <summary>Real free energy = value / EnergyScale, which is 1 in the float modes.</summary>
         public const double EnergyScale = 1.0;
 
         /// <summary>An input is unusual when its free energy is above this.</summary>
@@ -41,17 +43,17 @@ namespace Emit.Generated
         /// <summary>Index of each named visible unit.</summary>
         public static class Units
         {
-            public const int InletValveOpen = 0; // inlet valve open
-            public const int PumpARunning = 1; // pump A running
-            public const int PressureHigh = 2; // pressure high
+            public const int InletValveOpen = 0;
+            public const int PumpARunning = 1;
+            public const int PressureHigh = 2;
             public const int Temp80C = 3; // temp > 80 <U+00B0>C
-            public const int DoorOpen = 4; // door * / open
-            public const int Alarm = 5; // alarm
+            public const int DoorOpen = 4;
+            public const int Alarm = 5;
         }
 
         /// <summary>
-        /// Free energy of a packed input (<see cref="PackedBytes"/> bytes, unit i = bit (i &amp; 7) of byte i &gt;&gt; 3;
-        /// bits beyond <see cref="Visible"/> are ignored).
+        /// Free energy of a packed input (<see cref="PackedBytes"/> bytes, unit i = bit (i &amp; 7) of byte
+        /// i &gt;&gt; 3; bits beyond <see cref="Visible"/> are ignored).
         /// </summary>
         public static float FreeEnergy(global::System.ReadOnlySpan<byte> packed)
         {
@@ -69,10 +71,10 @@ namespace Emit.Generated
             for (int byteIndex = 0; byteIndex < PackedBytes; byteIndex++)
             {
                 uint bits = packed[byteIndex];
+                int bit = 0; // set bits are taken lowest first, so the search for the next one goes on from here
                 if (byteIndex == PackedBytes - 1) bits &= 0x3Fu;
                 while (bits != 0u)
                 {
-                    int bit = 0;
                     while (((bits >> bit) & 1u) == 0u) bit++;
                     int i = byteIndex * 8 + bit;
                     linear += visibleBias[i];
@@ -105,7 +107,10 @@ namespace Emit.Generated
             return energy;
         }
 
-        /// <summary>Free energy of an input given as one byte per unit (nonzero = on); bit-identical to <see cref="FreeEnergy"/>.</summary>
+        /// <summary>
+        /// Free energy of an input given as one byte per unit (nonzero = on); bit-identical to
+        /// <see cref="FreeEnergy"/>.
+        /// </summary>
         public static float FreeEnergyUnits(global::System.ReadOnlySpan<byte> units)
         {
             if (units.Length != Visible)
@@ -117,7 +122,9 @@ namespace Emit.Generated
             return FreeEnergy(packed);
         }
 
-        /// <summary>True when free energy <paramref name="f"/> is above <see cref="Threshold"/> (or is not a number).</summary>
+        /// <summary>
+        /// True when free energy <paramref name="f"/> is above <see cref="Threshold"/> (or is not a number).
+        /// </summary>
         public static bool IsUnusual(float f) => !(f <= Threshold);
 
         /// <summary>

@@ -1,11 +1,12 @@
 using System.Text;
 using System.Text.Json;
+using Emit.Analysis;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Tests.Cli;
 using Emit.Vectors;
 
-namespace Emit.Tests.Reference;
+namespace Emit.Tests.Analysis;
 
 /// <summary>
 /// <c>emit diff</c> checked against the definition of the free energy: F(v) = −b·v − Σ_{i&lt;j} L_ij v_i v_j −

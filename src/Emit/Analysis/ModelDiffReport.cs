@@ -1,6 +1,7 @@
 using Emit.Model;
+using Emit.Reference;
 
-namespace Emit.Reference;
+namespace Emit.Analysis;
 
 /// <summary>The result of <see cref="ModelDiff.Compare"/>: ΔF = F_new − F_old over <see cref="Vectors"/> vectors.</summary>
 public sealed record ModelDiffReport(

@@ -1,9 +1,12 @@
+using Emit.Tests.Reference;
 using System.Globalization;
+using Emit.Analysis;
+using Emit.Quantize;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Tests.Cli;
 
-namespace Emit.Tests.Reference;
+namespace Emit.Tests.Analysis;
 
 /// <summary>
 /// Bayes' rule across models, P(k | v) = π_k p_k(v) / Σ_m π_m p_m(v), checked against probabilities computed by brute

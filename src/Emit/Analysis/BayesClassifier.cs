@@ -1,6 +1,7 @@
 using Emit.Model;
+using Emit.Reference;
 
-namespace Emit.Reference;
+namespace Emit.Analysis;
 
 /// <summary>
 /// Bayes' rule across several models of the same status flags (one per operating mode or fault class, each trained on

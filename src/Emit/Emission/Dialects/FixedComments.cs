@@ -2,52 +2,31 @@ using System.Globalization;
 using Emit.Model;
 using Emit.Quantize;
 
-namespace Emit.Emission;
+namespace Emit.Emission.Dialects;
 
 /// <summary>
-/// Text shared by the fixed-point emitters: integer literals for C and C#, represented real values for review
-/// comments, and the language-neutral lines of each function's "scaling and overflow" comment, with the numbers taken
-/// from the plan's range analysis (<see cref="FixedPointPlan.Checks"/>).
+/// The prose of a fixed-point scorer's comments (formats, the threshold, each function's "scaling and overflow"
+/// paragraph), with the numbers taken from the plan's range analysis (<see cref="FixedPointPlan.Checks"/>) and the
+/// type names from the target's dialect. Templates print these paragraphs with the dialect's comment syntax.
 /// </summary>
-internal static class FixedText
+public sealed class FixedComments
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+    private readonly FixedScorerPlan p;
+    private readonly TargetDialect _d;
+    private readonly string _bound;
 
-    /// <summary>
-    /// A C integer constant of the accumulator type: plain decimal within int32, <c>INT64_C(n)</c> beyond it (the
-    /// sign outside the macro), and the most negative value of the type as an expression.
-    /// </summary>
-    public static string CInt(long v, AccumulatorType acc)
+    /// <summary>Comments for <paramref name="plan"/> in <paramref name="dialect"/>; <paramref name="boundName"/> names the error bound constant.</summary>
+    public FixedComments(FixedScorerPlan plan, TargetDialect dialect, string boundName)
     {
-        if (acc == AccumulatorType.Int32 || (v >= -int.MaxValue && v <= int.MaxValue))
-        {
-            if (v == int.MinValue) return "(-2147483647 - 1)";
-            return v.ToString(Inv);
-        }
-        if (v == long.MinValue) return "(-INT64_C(9223372036854775807) - 1)";
-        return v < 0 ? "-INT64_C(" + (-v).ToString(Inv) + ")" : "INT64_C(" + v.ToString(Inv) + ")";
+        p = plan;
+        _d = dialect;
+        _bound = boundName;
     }
 
-    /// <summary><see cref="CInt"/> in parentheses when it starts with a sign (for macros).</summary>
-    public static string CMacroInt(long v, AccumulatorType acc)
-    {
-        var s = CInt(v, acc);
-        return s.StartsWith('-') ? "(" + s + ")" : s;
-    }
+    private static string Int(Int128 v) => v.ToString(Inv);
 
-    /// <summary>A C# integer constant (<c>L</c> suffix for long beyond int range).</summary>
-    public static string CsInt(long v, AccumulatorType acc) =>
-        acc == AccumulatorType.Int64 && (v < int.MinValue || v > int.MaxValue) ? v.ToString(Inv) + "L" : v.ToString(Inv);
-
-    /// <summary>The real value q / 2^n, 7 significant digits, for review comments.</summary>
-    public static string Real(long q, int fractionBits) => Math.ScaleB((double)q, -fractionBits).ToString("G7", Inv);
-
-    public static string Int(Int128 v) => v.ToString(Inv);
-
-    public static string Range(IntRange r) => "[" + Int(r.Min) + ", " + Int(r.Max) + "]";
-
-    /// <summary>"2^k" for a power of two given by its exponent, or the value when small.</summary>
-    public static string Pow2(int k) => "2^" + k.ToString(Inv);
+    private static string Range(IntRange r) => "[" + Int(r.Min) + ", " + Int(r.Max) + "]";
 
     /// <summary>"Q15.16 (3 units), Q16.15 (2 units)" or a single format.</summary>
     public static string FormatList(IEnumerable<QFormat> formats)
@@ -57,7 +36,7 @@ internal static class FixedText
         return string.Join(", ", groups.Select(g => g.Key + " (" + g.Count().ToString(Inv) + (g.Count() == 1 ? " unit)" : " units)")));
     }
 
-    private static string Guard(FixedScorerPlan p, IntRange r)
+    private string Guard(IntRange r)
     {
         int g = p.GuardBits(r);
         return g.ToString(Inv) + (g == 1 ? " guard bit" : " guard bits") + " in " + p.AccumulatorBits.ToString(Inv);
@@ -66,11 +45,11 @@ internal static class FixedText
     private static IntRange Hull(IntRange? a, IntRange? b) => a is { } x ? (b is { } y ? x.Hull(y) : x) : b ?? IntRange.Point(0);
 
     /// <summary>"weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j".</summary>
-    public static string FractionBitsFormats(FixedScorerPlan p) =>
+    public string FractionBitsFormats =>
         $"weight column Q{p.WeightBits - 1}-f_j.f_j, accumulator Q{p.AccumulatorBits - 1}-f_j.f_j";
 
-    /// <summary>Header comment of the fixed-point formats section (paragraphs; see <see cref="Wrap"/>).</summary>
-    public static IReadOnlyList<string> FormatLines(FixedScorerPlan p)
+    /// <summary>Header comment of the fixed-point formats section (paragraphs).</summary>
+    private IReadOnlyList<string> FormatsParagraphs()
     {
         var f = p.Fixed;
         var lines = new List<string>
@@ -81,13 +60,13 @@ internal static class FixedText
         };
         if (p.Hidden > 0)
         {
-            lines.Add($"  weights W ({f.WeightType.ToText()}_t): {f.WeightFormatSummary}; each hidden unit j has its own " +
+            lines.Add($"  weights W ({_d.WeightType}): {f.WeightFormatSummary}; each hidden unit j has its own " +
                       "fraction bits f_j, shared by its weight column, bias and accumulator");
-            lines.Add($"  hidden accumulators ({p.Accumulator.ToText()}_t): {f.AccumulatorFormatSummary}");
-            lines.Add($"  softplus table ({(p.TableEntriesUnsigned16 ? "uint16_t" : "int32_t")}): {f.Table.EntryFormat}, {p.TableSegments} segments over [0, {f.Table.Range.ToString("R", Inv)}]");
+            lines.Add($"  hidden accumulators ({_d.AccType}): {f.AccumulatorFormatSummary}");
+            lines.Add($"  softplus table ({_d.EntryType}): {f.Table.EntryFormat}, {p.TableSegments} segments over [0, {f.Table.Range.ToString("R", Inv)}]");
         }
         if (!f.Lateral.IsEmpty)
-            lines.Add($"  lateral weights ({f.WeightType.ToText()}_t): {f.LateralFormat}; lateral sum: {new QFormat(p.AccumulatorBits, f.LateralFractionBits)}");
+            lines.Add($"  lateral weights ({_d.WeightType}): {f.LateralFormat}; lateral sum: {new QFormat(p.AccumulatorBits, f.LateralFractionBits)}");
         lines.Add("Rounding: half away from zero, both for the constants (emit rounds them) and wherever bits are dropped at " +
                   "run time (half an LSB is added to the magnitude, which is shifted and given back its sign: no negative value " +
                   "is ever shifted right).");
@@ -98,7 +77,7 @@ internal static class FixedText
     }
 
     /// <summary>The threshold comment (paragraphs).</summary>
-    public static IReadOnlyList<string> ThresholdLines(FixedScorerPlan p, string boundName)
+    private IReadOnlyList<string> ThresholdParagraphs()
     {
         var t = p.Model.Threshold!.Value;
         int e = p.EnergyFractionBits;
@@ -107,12 +86,12 @@ internal static class FixedText
         [
             $"An input is unusual when its free energy f > this: the model's threshold {tt} nats times 2^{e}, rounded down" +
             $"{(p.ThresholdClamped ? " and clamped to the reachable results" : "")}, so f > this exactly when f / 2^{e} > {tt}. " +
-            $"Decisions can differ from the exact scorer's only for inputs whose exact free energy lies within {boundName} nats " +
+            $"Decisions can differ from the exact scorer's only for inputs whose exact free energy lies within {_bound} nats " +
             "of the threshold.",
         ];
     }
 
-    public static IReadOnlyList<string> ToEnergyLines(FixedScorerPlan p)
+    private IReadOnlyList<string> ToEnergyParagraphs()
     {
         var f = p.Fixed;
         var mid = Hull(p.UnitCheckHull("to_energy"), p.TryCheck("lateral.to_energy"));
@@ -131,7 +110,7 @@ internal static class FixedText
             "s > 0 drops s bits, rounding half away from zero: half an LSB is added to the magnitude, which is shifted " +
             "right and given back its sign, so no negative value is shifted. s <= 0 multiplies by the constant 2^-s.",
             $"Scaling and overflow: used for {string.Join(" and ", callers)}; over all inputs the intermediate " +
-            $"(|x| + 2^(s-1), or x * 2^-s) lies in {Range(mid)} ({Guard(p, mid)}).",
+            $"(|x| + 2^(s-1), or x * 2^-s) lies in {Range(mid)} ({Guard(mid)}).",
         ];
     }
 
@@ -141,7 +120,7 @@ internal static class FixedText
         return lo == hi ? lo.ToString(Inv) : lo.ToString(Inv) + " to " + hi.ToString(Inv);
     }
 
-    public static IReadOnlyList<string> LookupLines(FixedScorerPlan p)
+    private IReadOnlyList<string> LookupParagraphs()
     {
         var f = p.Fixed;
         var product = Hull(p.UnitCheckHull("interpolation_product"), p.TryCheck("general.lse.interpolation_product"));
@@ -154,11 +133,11 @@ internal static class FixedText
             "position r = mag & (2^d - 1), linear interpolation T[k+1] + ((T[k] - T[k+1]) * (2^d - r) + 2^(d-1)) >> d " +
             $"from non-negative terms, rounding half up; 0 beyond the table (mag >= N * 2^d, N = {p.TableSegments}), where G < e^-R.",
             $"Scaling and overflow: d = {Span(d)}; the limit N * 2^d is at most {Int(limit.Max)} and the interpolation " +
-            $"product plus half at most {Int(product.Max)} ({Guard(p, product)}); table entries lie in [0, {f.Table.Entries[0].ToString(Inv)}].",
+            $"product plus half at most {Int(product.Max)} ({Guard(product)}); table entries lie in [0, {f.Table.Entries[0].ToString(Inv)}].",
         ];
     }
 
-    public static IReadOnlyList<string> SoftplusLines(FixedScorerPlan p)
+    private IReadOnlyList<string> SoftplusParagraphs()
     {
         var f = p.Fixed;
         var acc = p.UnitCheckHull("accumulator")!.Value;
@@ -167,12 +146,12 @@ internal static class FixedText
         [
             "softplus_q(a, f) = (a > 0 ? to_energy(a, f - E) : 0) + G_q(|a|, f - e), from softplus(x) = max(x, 0) + G(|x|).",
             $"Scaling and overflow: a is a hidden accumulator with f fraction bits ({f.AccumulatorFormatSummary}). Over all " +
-            $"inputs a lies in {Range(acc)} ({Guard(p, acc)}), so -a cannot overflow; the result, in {f.EnergyFormat}, " +
+            $"inputs a lies in {Range(acc)} ({Guard(acc)}), so -a cannot overflow; the result, in {f.EnergyFormat}, " +
             $"lies in {Range(outRange)}.",
         ];
     }
 
-    public static IReadOnlyList<string> Lse2Lines(FixedScorerPlan p)
+    private IReadOnlyList<string> Lse2Paragraphs()
     {
         var tree = p.Check("general.tree").Range;
         var diff = p.Check("general.difference").Range;
@@ -180,11 +159,11 @@ internal static class FixedText
         [
             $"lse2(a, b) = max(a, b) + G_q(|a - b|, d_E) approximates log(e^a + e^b) for a, b in {p.Fixed.EnergyFormat}; " +
             $"d_E = E - e = {p.Fixed.LseTableShift.ToString(Inv)}.",
-            $"Scaling and overflow: a, b and the result lie in {Range(tree)}; |a - b| <= {Int(diff.Max)} ({Guard(p, diff)}).",
+            $"Scaling and overflow: a, b and the result lie in {Range(tree)}; |a - b| <= {Int(diff.Max)} ({Guard(diff)}).",
         ];
     }
 
-    public static IReadOnlyList<string> LogSumExpLines(FixedScorerPlan p)
+    private IReadOnlyList<string> LogSumExpParagraphs()
     {
         var z = p.UnitCheckHull("score_term")!.Value;
         var field = p.UnitCheckHull("field")!.Value;
@@ -197,11 +176,11 @@ internal static class FixedText
             "the fields (field_l = change of the score when unit l flips) are updated by additions. Each score is merged " +
             "into partial[] like a binary counter, so lse2 is applied along a balanced tree of depth HIDDEN.",
             $"Scaling and overflow: everything in {p.Fixed.EnergyFormat}; z_k lies in {Range(z)}, the fields in {Range(field)}, " +
-            $"the scores in {Range(score)} and the merged values in {Range(tree)} ({Guard(p, tree)}).",
+            $"the scores in {Range(score)} and the merged values in {Range(tree)} ({Guard(tree)}).",
         ];
     }
 
-    public static IReadOnlyList<string> FreeEnergyLines(FixedScorerPlan p, string boundName, int rowsAtATime)
+    private IReadOnlyList<string> FreeEnergyParagraphs()
     {
         var f = p.Fixed;
         bool general = p.Model.Kind == ModelKind.General;
@@ -209,10 +188,9 @@ internal static class FixedText
                    ", a = c + sum_{i on} W_i. For each set bit (bytes in order, lowest set bit first) the unit's bias joins the energy" +
                    (f.Lateral.IsEmpty ? "" : ", its links to active lower-numbered units join the lateral sum");
         if (p.Hidden > 0)
-            walk += p.GroupRows
-                ? $", and its weight row is added to the hidden accumulators, {(rowsAtATime == 4 ? "four" : "two")} rows at a time " +
-                  $"({(rowsAtATime == 4 ? "acc += r0 + r1 + r2 + r3" : "acc += row1 + row2")}; the weights are {p.WeightBits}-bit, so the sum of " +
-                  $"{(rowsAtATime == 4 ? "four" : "two")} always fits the {p.AccumulatorBits}-bit accumulator)."
+            walk += p.RowsPerAddition == 4
+                ? ", and its weight row is added to the hidden accumulators, four rows at a time (acc += r0 + r1 + r2 + r3; " +
+                  $"the weights are {p.WeightBits}-bit, so the sum of four always fits the {p.AccumulatorBits}-bit accumulator)."
                 : ", and its weight row is added to the hidden accumulators, one row at a time.";
         else walk += ".";
         var lines = new List<string>
@@ -223,52 +201,72 @@ internal static class FixedText
         if (p.Hidden > 0)
         {
             var acc = p.UnitCheckHull("accumulator")!.Value;
-            lines.Add($"  hidden accumulators, {f.AccumulatorFormatSummary}: {Range(acc)} ({Guard(p, acc)})");
+            lines.Add($"  hidden accumulators, {f.AccumulatorFormatSummary}: {Range(acc)} ({Guard(acc)})");
         }
         var linear = p.Check("energy.linear").Range;
         lines.Add($"  energy ({f.EnergyFormat}), starting at K = {f.EnergyOffset.ToString(Inv)} plus the visible biases: {Range(linear)}");
         if (!f.Lateral.IsEmpty)
         {
             var lat = p.Check("lateral.accumulator").Range;
-            lines.Add($"  lateral sum ({new QFormat(p.AccumulatorBits, f.LateralFractionBits)}): {Range(lat)} ({Guard(p, lat)}); " +
+            lines.Add($"  lateral sum ({new QFormat(p.AccumulatorBits, f.LateralFractionBits)}): {Range(lat)} ({Guard(lat)}); " +
                       $"energy after adding it: {Range(p.Check("energy.base").Range)}");
         }
         var sum = p.Check("energy.sum").Range;
-        lines.Add($"  energy after the hidden part: {Range(sum)} ({Guard(p, sum)}); result -energy: {Range(p.ResultRange)}");
-        lines.Add($"No saturation is needed. Accuracy: |result / 2^{p.EnergyFractionBits} - exact F| <= {boundName} nats for every input.");
+        lines.Add($"  energy after the hidden part: {Range(sum)} ({Guard(sum)}); result -energy: {Range(p.ResultRange)}");
+        lines.Add($"No saturation is needed. Accuracy: |result / 2^{p.EnergyFractionBits} - exact F| <= {_bound} nats for every input.");
         return lines;
     }
 
-    /// <summary>Most characters of a comment line's text before it is wrapped.</summary>
-    public const int CommentWidth = 112;
+    /// <summary>The hidden accumulators' formats ("Q15.16 (3 units), Q16.15 (2 units)").</summary>
+    public string HiddenFormats => FormatList(p.Fixed.Units.Select(u => u.AccumulatorFormat));
 
-    /// <summary>
-    /// Paragraphs filled to <see cref="CommentWidth"/> characters, broken at spaces; the continuation lines of a paragraph
-    /// that starts indented keep its indent plus two spaces.
-    /// </summary>
-    public static IEnumerable<string> Wrap(IEnumerable<string> lines)
+    /// <summary>The weight columns' formats.</summary>
+    public string WeightFormats => FormatList(p.Fixed.Units.Select(u => u.WeightFormat));
+
+    /// <summary>The softplus table's segment width ("2^-4").</summary>
+    public string TableStep => "2^" + (-p.TableStepBits).ToString(Inv);
+
+    /// <summary>The end of the softplus table's range.</summary>
+    public string TableRange => p.Fixed.Table.Range.ToString("R", Inv);
+
+    /// <summary>The softplus table in lines of eight entries, each line with its first and last index and node.</summary>
+    public IReadOnlyList<TableChunk> TableChunks
     {
-        foreach (var line in lines)
+        get
         {
-            var rest = line;
-            var indent = new string(' ', line.Length - line.TrimStart(' ').Length);
-            while (rest.Length > CommentWidth)
+            var t = p.Fixed.Table;
+            var chunks = new List<TableChunk>();
+            for (int k = 0; k < t.Entries.Length; k += 8)
             {
-                int cut = rest.LastIndexOf(' ', CommentWidth);
-                if (cut <= indent.Length) break;
-                yield return rest[..cut];
-                rest = (indent.Length > 0 ? indent + "  " : "") + rest[(cut + 1)..];
+                int end = Math.Min(t.Entries.Length, k + 8) - 1;
+                chunks.Add(new TableChunk(t.Entries.Skip(k).Take(end - k + 1).Select(e => (long)e).ToArray(), k, end,
+                    t.Node(k).ToString("R", Inv), t.Node(end).ToString("R", Inv)));
             }
-            yield return rest;
+            return chunks;
         }
     }
 
-    /// <summary>Wraps lines as a C block comment.</summary>
-    public static string CComment(IEnumerable<string> lines) => "/*\n" + string.Concat(Wrap(lines).Select(l => " * " + l + "\n")) + " */";
+    /// <summary>Paragraphs of the "Formats" comment.</summary>
+    public IReadOnlyList<string> Formats => FormatsParagraphs();
 
-    /// <summary>Lines as the body of a C block comment (" * " prefixes, no opening or closing).</summary>
-    public static string CCommentBody(IEnumerable<string> lines) => string.Join("\n", Wrap(lines).Select(l => " * " + l));
+    /// <summary>Paragraphs of the "Threshold" comment.</summary>
+    public IReadOnlyList<string> Threshold => ThresholdParagraphs();
 
-    /// <summary>Wraps lines as C# line comments with an indent.</summary>
-    public static string CsComment(IEnumerable<string> lines, string indent) => string.Join("\n", Wrap(lines).Select(l => indent + "// " + l));
+    /// <summary>Paragraphs of the "ToEnergy" comment.</summary>
+    public IReadOnlyList<string> ToEnergy => ToEnergyParagraphs();
+
+    /// <summary>Paragraphs of the "Lookup" comment.</summary>
+    public IReadOnlyList<string> Lookup => LookupParagraphs();
+
+    /// <summary>Paragraphs of the "Softplus" comment.</summary>
+    public IReadOnlyList<string> Softplus => SoftplusParagraphs();
+
+    /// <summary>Paragraphs of the "Lse2" comment.</summary>
+    public IReadOnlyList<string> Lse2 => Lse2Paragraphs();
+
+    /// <summary>Paragraphs of the "LogSumExp" comment.</summary>
+    public IReadOnlyList<string> LogSumExp => LogSumExpParagraphs();
+
+    /// <summary>Paragraphs of the "FreeEnergy" comment.</summary>
+    public IReadOnlyList<string> FreeEnergy => FreeEnergyParagraphs();
 }

@@ -1,4 +1,4 @@
-namespace Emit.Emission;
+namespace Emit.Quantize;
 
 /// <summary>The arithmetic a generated scorer uses.</summary>
 public enum NumericMode

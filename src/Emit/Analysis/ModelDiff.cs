@@ -1,7 +1,8 @@
 using Emit.Model;
+using Emit.Reference;
 using Emit.Vectors;
 
-namespace Emit.Reference;
+namespace Emit.Analysis;
 
 /// <summary>
 /// How two versions of a model differ in behaviour on the same vectors, by the double-precision reference scorer:
