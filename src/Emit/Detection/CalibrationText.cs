@@ -76,7 +76,7 @@ public static class CalibrationText
 
     private static string G(double x) => x.ToString("0.####", Inv);
 
-    private static string Pct(double x) => (100 * x).ToString(x != 0 && x < 0.001 ? "0.####" : "0.###", Inv) + " %";
+    private static string Pct(double x) => (100 * x).ToString(x >= 0.01 || x == 0 ? "0.##" : "G3", Inv) + " %";
 
     private static string Conf(RateInterval i) => (100 * i.Confidence).ToString("0.#", Inv) + "%";
 }
