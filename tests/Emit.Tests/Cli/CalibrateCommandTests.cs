@@ -158,8 +158,13 @@ public sealed class CalibrateCommandTests
         var s = Make();
         var ep1 = Path.Combine(s.Dir, "episode-1.csv");
         var ep2 = Path.Combine(s.Dir, "episode-2.csv");
-        File.WriteAllLines(ep1, ["1,1,1,1,1,1", "1,1,1,1,1,1", "1,1,1,1,1,1"]);
-        File.WriteAllLines(ep2, ["0,0,0,0,0,0", "1,1,1,1,1,1", "1,1,1,1,1,1", "1,1,1,1,1,1"]);
+        // the most and least unusual of all 64 vectors, by brute force
+        var all = Enumerable.Range(0, 64).Select(b => TestModels.Bits(b, 6)).ToArray();
+        var on = all.MaxBy(v => BruteForce.FreeEnergy(s.M, v))!;
+        var off = all.MinBy(v => BruteForce.FreeEnergy(s.M, v))!;
+        string L(byte[] v) => string.Join(",", v);
+        File.WriteAllLines(ep1, [L(on), L(on), L(on)]);
+        File.WriteAllLines(ep2, [L(off), L(on), L(off), L(on), L(on)]);
         var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.1", "--alarm-filter", "2/3",
             "--sample-period", "5m", "--episodes", ep1, ep2, "--json");
         Assert.Equal(0, r.ExitCode);
@@ -182,8 +187,7 @@ public sealed class CalibrateCommandTests
                 if (Enumerable.Range(Math.Max(0, k - 2), Math.Min(3, k + 1)).Count(i => u[i]) >= 2) return k + 1;
             return null;
         }
-        byte[] on = [1, 1, 1, 1, 1, 1], off = [0, 0, 0, 0, 0, 0];
-        var expectedUntil = new[] { Until([on, on, on]), Until([off, on, on, on]) };
+        var expectedUntil = new[] { Until([on, on, on]), Until([off, on, off, on, on]) };
         Assert.Contains(expectedUntil, x => x is not null); // the case is not vacuous
         for (int k = 0; k < 2; k++)
         {
