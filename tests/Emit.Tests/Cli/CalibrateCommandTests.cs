@@ -163,19 +163,26 @@ public sealed class CalibrateCommandTests
         var on = all.MaxBy(v => BruteForce.FreeEnergy(s.M, v))!;
         var off = all.MinBy(v => BruteForce.FreeEnergy(s.M, v))!;
         string L(byte[] v) => string.Join(",", v);
+        // normal data without the most unusual vector, so that it lies above any threshold set on them
+        var normalRows = File.ReadAllLines(s.Normal).Where(l => l != L(on)).ToArray();
+        var normalF = s.NormalF.Where((_, k) => File.ReadAllLines(s.Normal)[k] != L(on)).ToArray();
+        var normalPath = Path.Combine(s.Dir, "normal-2.csv");
+        File.WriteAllLines(normalPath, normalRows);
         File.WriteAllLines(ep1, [L(on), L(on), L(on)]);
         File.WriteAllLines(ep2, [L(off), L(on), L(off), L(on), L(on)]);
-        var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.1", "--alarm-filter", "2/3",
+        var r = CliRunner.Run("calibrate", s.Model, "--normal", normalPath, "--false-alarm", "0.1", "--alarm-filter", "2/3",
             "--sample-period", "5m", "--episodes", ep1, ep2, "--json");
         Assert.Equal(0, r.ExitCode);
         using var doc = JsonDocument.Parse(r.Out);
         var j = doc.RootElement;
         double t = j.GetProperty("threshold").GetDouble();
         var f = j.GetProperty("alarm_filter");
-        var expected = AlarmFilter.Run(s.NormalF, t, AlarmFilterSpec.Parse("2/3"));
+        var expected = AlarmFilter.Run(normalF, t, AlarmFilterSpec.Parse("2/3"));
+        int n = normalF.Length;
+        Assert.Equal(n, f.GetProperty("rows").GetInt32());
         Assert.Equal(expected.Raised, f.GetProperty("raised").GetInt64());
-        Assert.Equal(expected.Raised * 1000.0 / 300, f.GetProperty("alarms_per_1000_rows").GetDouble(), 9);
-        Assert.Equal(expected.Raised * 288.0 / 300, f.GetProperty("alarms_per_day").GetDouble(), 9); // 288 rows a day at 5 min
+        Assert.Equal(expected.Raised * 1000.0 / n, f.GetProperty("alarms_per_1000_rows").GetDouble(), 9);
+        Assert.Equal(expected.Raised * 288.0 / n, f.GetProperty("alarms_per_day").GetDouble(), 9); // 288 rows a day at 5 min
         Assert.Contains("independent", f.GetProperty("assumption").GetString());
         var e = j.GetProperty("episodes");
         Assert.Equal(2, e.GetProperty("count").GetInt32());
