@@ -18,9 +18,9 @@ public sealed class ExplainCommand : ICliCommand
     public const int DefaultTop = 3;
 
     private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "The model (.json or .npz)" }.AcceptExistingOnly();
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
-    private readonly Option<int> _top = new("--top") { Description = $"Units listed per vector (default {DefaultTop}; at most the model's visible units)", DefaultValueFactory = _ => DefaultTop };
-    private readonly Option<FileInfo?> _output = new("--output", "-o") { Description = "CSV file to write (default: standard output; - also means standard output)" };
+    private readonly Option<string> _input = new("--input", "-i") { HelpName = "DATA", Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<int> _top = new("--top") { HelpName = "K", Description = $"Units listed per vector (default {DefaultTop}; at most the model's visible units)", DefaultValueFactory = _ => DefaultTop };
+    private readonly Option<FileInfo?> _output = new("--output", "-o") { HelpName = "FILE", Description = "CSV file to write (default: standard output; - also means standard output)" };
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)

@@ -1,3 +1,5 @@
+using Emit.Model;
+
 namespace Emit.Detection;
 
 /// <summary>
@@ -21,6 +23,19 @@ public static class Calibrator
 
     /// <summary>Below this many expected false alarms in the calibration set (n·A) the threshold is flagged as resting on few values.</summary>
     public const double FewExpectedAlarms = 10;
+
+    /// <summary>
+    /// Calibrates <paramref name="model"/> (file name <paramref name="modelName"/>) on free energies it gave, and builds
+    /// the calibrated model and the report's sources: the one call a program needs.
+    /// </summary>
+    public static CalibrationOutcome Calibrate(BoltzmannModel model, string modelName, CalibrationRequest request,
+        string normalName, string normalSha256, string? anomaliesName = null)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        var report = Run(request);
+        var calibrated = CalibrationMetadata.Apply(model, report, normalSha256, normalName);
+        return new CalibrationOutcome(report, calibrated, new CalibrationSource(modelName, calibrated.Sha256, normalName, normalSha256, anomaliesName));
+    }
 
     /// <summary>Calibrates and reports.</summary>
     public static CalibrationReport Run(CalibrationRequest request)

@@ -1,10 +1,11 @@
+using System.Security.Cryptography;
 using Emit.Model;
 using Emit.Reference;
 using Emit.Vectors;
 
 namespace Emit.Detection;
 
-/// <summary>Free energies of every vector a reader gives, in order, by the double-precision reference scorer.</summary>
+/// <summary>Free energies of every vector of a file, in order, by the double-precision reference scorer.</summary>
 public static class EnergyLog
 {
     private const int BatchRows = 4096;
@@ -26,4 +27,42 @@ public static class EnergyLog
         }
         return result.ToArray();
     }
+
+    /// <summary>
+    /// Scores the vector file <paramref name="path"/> (<c>-</c> = <paramref name="stdin"/>, or the console's standard
+    /// input when null), checking its header against the model's names.
+    /// </summary>
+    public static double[] ScoreFile(BoltzmannModel model, string path, Stream? stdin = null)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        using var reader = VectorReader.Open(path, model.Visible, stdin);
+        VectorNames.Check(model, reader);
+        return Score(model, reader);
+    }
+
+    /// <summary>As <see cref="ScoreFile"/>, with the lower-case hex SHA-256 of the file's bytes (standard input is read into memory).</summary>
+    public static (double[] Energies, string Sha256) ScoreFileHashed(BoltzmannModel model, string path, Stream? stdin = null)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        if (path == VectorReader.StdinPath)
+        {
+            var ms = new MemoryStream();
+            (stdin ?? Console.OpenStandardInput()).CopyTo(ms);
+            var sha = Convert.ToHexStringLower(SHA256.HashData(ms.GetBuffer().AsSpan(0, (int)ms.Length)));
+            ms.Position = 0;
+            using var reader = new VectorReader(ms, VectorReader.StdinName, model.Visible);
+            VectorNames.Check(model, reader);
+            return (Score(model, reader), sha);
+        }
+        var energies = ScoreFile(model, path);
+        try
+        {
+            using var file = File.OpenRead(path);
+            return (energies, Convert.ToHexStringLower(SHA256.HashData(file)));
+        }
+        catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
+    }
+
+    /// <summary>The name a data path has in reports: the file name, or <c>stdin</c>.</summary>
+    public static string DisplayName(string path) => path == VectorReader.StdinPath ? VectorReader.StdinName : Path.GetFileName(path);
 }
