@@ -1,4 +1,5 @@
 using System.CommandLine;
+using System.Globalization;
 using Emit.Detection;
 using Emit.Model;
 using Emit.Vectors;
@@ -14,7 +15,7 @@ public sealed class CalibrateCommand : ICliCommand
 {
     private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "The model to calibrate (.json or .npz)" }.AcceptExistingOnly();
     private readonly Option<string> _normal = new("--normal") { HelpName = "DATA", Description = "Normal vectors (CSV of 0/1, one per line, in time order for --alarm-filter), or - for standard input", Required = true };
-    private readonly Option<double?> _falseAlarm = new("--false-alarm") { HelpName = "A", Description = "False-alarm rate A the threshold allows, e.g. 0.01 (conformal: the ceil((n+1)(1-A))-th smallest normal free energy)" };
+    private readonly Option<string?> _falseAlarm = new("--false-alarm") { HelpName = "A", Description = "False-alarm rate A the threshold allows, e.g. 0.01 (conformal: the ceil((n+1)(1-A))-th smallest normal free energy)" };
     private readonly Option<string?> _anomalies = new("--anomalies") { HelpName = "DATA", Description = "Known anomalous vectors: detection rate, ROC AUC and the rate table" };
     private readonly Option<string[]> _episodes = new("--episodes")
     {
@@ -23,7 +24,7 @@ public sealed class CalibrateCommand : ICliCommand
     };
     private readonly Option<string?> _alarmFilter = new("--alarm-filter") { HelpName = "K/N", Description = "K/N: alarm when K of the last N reports are unusual (1 <= K <= N <= 32); runs over --normal as one time-ordered log" };
     private readonly Option<string?> _samplePeriod = new("--sample-period") { HelpName = "DURATION", Description = "Time between rows of --normal (250ms, 30s, 5m, 1h, 1d): alarms per day" };
-    private readonly Option<double?> _target = new("--target-alarms-per-day") { HelpName = "X", Description = "Search the threshold so the --alarm-filter raises at most this many alarms per day on --normal (instead of --false-alarm)" };
+    private readonly Option<string?> _target = new("--target-alarms-per-day") { HelpName = "X", Description = "Search the threshold so the --alarm-filter raises at most this many alarms per day on --normal (instead of --false-alarm)" };
     private readonly Option<bool> _json = new("--json") { Description = "Print the report as JSON instead of text" };
     private readonly Option<FileInfo?> _output = new("--output", "-o") { HelpName = "OUT.json", Description = "Write the model with the threshold set and the calibration in its metadata (- for standard output)" };
     private readonly Option<FileInfo?> _report = new("--report") { HelpName = "FILE.json", Description = "Also write the JSON report to this file" };
@@ -51,8 +52,8 @@ public sealed class CalibrateCommand : ICliCommand
             throw new EmitException("--json and --output - both write to standard output", "write the model to a file, or drop --json");
 
         // options first, so that a typo is reported before the data is read
-        var falseAlarm = parse.GetValue(_falseAlarm);
-        var target = parse.GetValue(_target);
+        var falseAlarm = Number("--false-alarm", parse.GetValue(_falseAlarm));
+        var target = Number("--target-alarms-per-day", parse.GetValue(_target));
         var filter = parse.GetValue(_alarmFilter) is { } f ? Named("--alarm-filter", () => AlarmFilterSpec.Parse(f)) : null;
         double? period = parse.GetValue(_samplePeriod) is { } sp ? Named("--sample-period", () => SamplePeriod.ParseSeconds(sp)) : null;
         if (falseAlarm is null && target is null)
@@ -101,6 +102,14 @@ public sealed class CalibrateCommand : ICliCommand
         if (parse.GetValue(_json)) JsonOut.Write(ctx.Out, outcome.WriteJson);
         else outcome.WriteText(ctx.Out);
         return CliApp.Ok;
+    }
+
+    /// <summary>A number option read in the invariant culture (0.01 means one hundredth whatever the system's locale), or null.</summary>
+    private static double? Number(string option, string? text)
+    {
+        if (text is null) return null;
+        if (double.TryParse(text.Trim(), NumberStyles.Float, CultureInfo.InvariantCulture, out double x) && double.IsFinite(x)) return x;
+        throw new EmitException($"{option}: \"{text}\" is not a number", "write it with a decimal point, like 0.01");
     }
 
     /// <summary>Runs <paramref name="body"/>, naming <paramref name="option"/> in an error it raises.</summary>
