@@ -3,6 +3,7 @@ using System.Text.Json;
 using Emit.Detection;
 using Emit.Model;
 using Emit.Tests.Reference;
+using Json.Schema;
 
 namespace Emit.Tests.Cli;
 
@@ -33,13 +34,40 @@ public sealed class CalibrateCommandTests
             Write("faulty.csv", anomalies), anomalies.Select(v => BruteForce.FreeEnergy(m, v)).ToArray());
     }
 
+    // the JSON schema (docs/calibrate-report.schema.json), checked with an outside validator (JsonSchema.Net)
+    private static readonly Lazy<JsonSchema> Schema = new(() =>
+    {
+        var dir = AppContext.BaseDirectory;
+        while (!File.Exists(Path.Combine(dir, "docs", "calibrate-report.schema.json"))) dir = Path.GetDirectoryName(dir)!;
+        return JsonSchema.FromText(File.ReadAllText(Path.Combine(dir, "docs", "calibrate-report.schema.json")));
+    });
+
+    private static JsonDocument Parse(string json)
+    {
+        var doc = JsonDocument.Parse(json);
+        var result = Schema.Value.Evaluate(doc.RootElement, new EvaluationOptions { OutputFormat = OutputFormat.List });
+        Assert.True(result.IsValid, "report does not match docs/calibrate-report.schema.json: " +
+            string.Join("; ", (result.Details ?? []).Where(d => d.Errors is not null).SelectMany(d => d.Errors!.Select(e => $"{d.InstanceLocation}: {e.Value}"))));
+        return doc;
+    }
+
+    [Fact]
+    public void Schema_rejects_a_report_missing_the_threshold()
+    {
+        var s = Make();
+        var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.05", "--json");
+        var broken = r.Out.Replace("\"threshold\":", "\"threshold_x\":");
+        var result = Schema.Value.Evaluate(JsonDocument.Parse(broken).RootElement);
+        Assert.False(result.IsValid);
+    }
+
     [Fact]
     public void Json_report_has_the_kth_smallest_free_energy_and_its_counts()
     {
         var s = Make();
         var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.05", "--anomalies", s.Anomalies, "--json");
         Assert.Equal(0, r.ExitCode);
-        using var doc = JsonDocument.Parse(r.Out);
+        using var doc = Parse(r.Out);
         var j = doc.RootElement;
         // k = ceil(301 * 0.95) = 286
         var sorted = s.NormalF.Order().ToArray();
@@ -103,7 +131,7 @@ public sealed class CalibrateCommandTests
         Assert.Equal(0.1, c.GetProperty("false_alarm").GetDouble());
         Assert.Equal(300, c.GetProperty("normal_vectors").GetInt32());
         Assert.Equal(2, c.GetProperty("false_alarm_interval").GetArrayLength());
-        using var rep = JsonDocument.Parse(File.ReadAllText(report));
+        using var rep = Parse(File.ReadAllText(report));
         Assert.Equal(m.Sha256, rep.RootElement.GetProperty("calibrated_sha256").GetString());
         Assert.Contains("sha256 " + m.Sha256, r.Out);
         // emit wrote it: a rerun may replace it; a file emit did not write is refused without --force
@@ -173,7 +201,7 @@ public sealed class CalibrateCommandTests
         var r = CliRunner.Run("calibrate", s.Model, "--normal", normalPath, "--false-alarm", "0.1", "--alarm-filter", "2/3",
             "--sample-period", "5m", "--episodes", ep1, ep2, "--json");
         Assert.Equal(0, r.ExitCode);
-        using var doc = JsonDocument.Parse(r.Out);
+        using var doc = Parse(r.Out);
         var j = doc.RootElement;
         double t = j.GetProperty("threshold").GetDouble();
         var f = j.GetProperty("alarm_filter");
@@ -210,7 +238,7 @@ public sealed class CalibrateCommandTests
         var s = Make();
         var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--alarm-filter", "1/1", "--sample-period", "1h", "--target-alarms-per-day", "1", "--json");
         Assert.Equal(0, r.ExitCode);
-        using var doc = JsonDocument.Parse(r.Out);
+        using var doc = Parse(r.Out);
         var f = doc.RootElement.GetProperty("alarm_filter");
         Assert.True(f.GetProperty("alarms_per_day").GetDouble() <= 1);
         Assert.Equal("target_alarms_per_day", doc.RootElement.GetProperty("method").GetString());
