@@ -145,6 +145,17 @@ public sealed class CalibrateCommandTests
     }
 
     [Fact]
+    public void Output_dash_writes_the_model_to_standard_output_and_refuses_json_beside_it()
+    {
+        var s = Make();
+        var r = CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.1", "-o", "-");
+        Assert.Equal(0, r.ExitCode);
+        var m = ModelJson.Parse(System.Text.Encoding.UTF8.GetBytes(r.Out), "stdout");
+        Assert.Equal(s.NormalF.Order().ElementAt(271 - 1), m.Threshold!.Value, 10);
+        Assert.Equal(2, CliRunner.Run("calibrate", s.Model, "--normal", s.Normal, "--false-alarm", "0.1", "-o", "-", "--json").ExitCode);
+    }
+
+    [Fact]
     public void Standard_input_is_hashed_like_the_file()
     {
         var s = Make();
