@@ -3,6 +3,7 @@ using System.Globalization;
 using Emit.Analysis;
 using Emit.Quantize;
 using Emit.Demo;
+using Emit.Detection;
 using Emit.Emission;
 using Emit.Harness;
 using Emit.Model;
@@ -125,15 +126,15 @@ public sealed class DemoCommand : ICliCommand
     }
 
     /// <summary>
-    /// Step 6: what an integrator checks before shipping a recalibration: the same model with its threshold at the 99th
-    /// percentile of the normal logs, compared with the shipped one by <c>emit diff</c> on both logs.
+    /// Step 6: what an integrator checks before shipping a recalibration: the same model with its threshold recalibrated
+    /// at a false-alarm rate of 0.01 on the normal logs (as <c>emit calibrate</c> does), compared with the shipped one
+    /// by <c>emit diff</c> on both logs.
     /// </summary>
     private static void Recalibrate(TextWriter o, BoltzmannModel model, List<double> normal, string normalPath, string faultyPath)
     {
-        var sorted = normal.Order().ToArray();
-        double t99 = sorted[(int)Math.Ceiling(0.99 * sorted.Length) - 1];
+        double t99 = ConformalThreshold.Threshold(normal, 0.01);
         var candidate = model.With(t99, model.LogPartition);
-        o.WriteLine($"6. diff      a recalibration with the threshold at the 99th percentile of {Path.GetFileName(normalPath)} ({t99.ToString("F3", CultureInfo.InvariantCulture)}), " +
+        o.WriteLine($"6. diff      a recalibration at false-alarm rate 0.01 on {Path.GetFileName(normalPath)} (threshold {t99.ToString("F3", CultureInfo.InvariantCulture)}, emit calibrate), " +
                     "against the shipped model (emit diff OLD NEW --input DATA):");
         foreach (var path in new[] { normalPath, faultyPath })
         {

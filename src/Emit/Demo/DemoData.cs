@@ -2,6 +2,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
+using Emit.Detection;
 using Emit.Model;
 using Emit.Reference;
 
@@ -94,16 +95,15 @@ public static class DemoData
     }
 
     /// <summary>
-    /// The threshold: the ⌈q·n⌉-th smallest calibration free energy, rounded up to a multiple of 0.001 so that a
-    /// last-bit difference in a platform's exp/log cannot change the written value (except at an exact multiple).
-    /// At most (1 - q)·n calibration rows lie above it.
+    /// The threshold: the conformal threshold at false-alarm rate 1 − q (<see cref="ConformalThreshold"/>: the
+    /// ⌈(n + 1)·q⌉-th smallest calibration free energy), rounded up to a multiple of 0.001 so that a last-bit
+    /// difference in a platform's exp/log cannot change the written value (except at an exact multiple).
     /// </summary>
     internal static double Calibrate(BoltzmannModel model, IReadOnlyList<ReeferRow> calibration)
     {
         var scorer = new ReferenceScorer(model);
-        var energies = calibration.Select(r => scorer.FreeEnergy(r.Flags.AsSpan())).Order().ToArray();
-        int rank = (int)Math.Ceiling(ThresholdQuantile * energies.Length);
-        double q = energies[Math.Clamp(rank, 1, energies.Length) - 1];
+        var energies = calibration.Select(r => scorer.FreeEnergy(r.Flags.AsSpan())).ToArray();
+        double q = ConformalThreshold.Threshold(energies, 1 - ThresholdQuantile);
         return Math.Ceiling(q * 1000) / 1000;
     }
 
@@ -175,7 +175,7 @@ public static class DemoData
             w.WriteEndObject();
             w.WriteNumber("training_rows", TrainingRows);
             w.WriteStartObject("threshold");
-            w.WriteString("method", "quantile of the free energy of held-out normal rows, rounded up to 0.001");
+            w.WriteString("method", "conformal threshold at false-alarm rate 1 - quantile over held-out normal rows (docs/calibrate.md), rounded up to 0.001");
             Num("quantile", ThresholdQuantile);
             w.WriteNumber("calibration_rows", CalibrationRows);
             w.WriteEndObject();

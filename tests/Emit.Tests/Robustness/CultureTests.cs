@@ -43,4 +43,28 @@ public sealed class CultureTests
         Assert.Equal(invariant, german);
         Assert.Contains("1.25", invariant[0]);
     }
+
+    [Fact]
+    public void Calibrate_and_explain_read_and_write_the_same_numbers_in_a_comma_decimal_culture()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 5, 3, 4);
+        var dir = CliRunner.TempDir();
+        var model = Path.Combine(dir, "m.json");
+        ModelJson.WriteFile(m, model, force: true);
+        var data = Path.Combine(dir, "v.csv");
+        File.WriteAllLines(data, Enumerable.Range(0, 32).Select(b => string.Join(",", TestModels.Bits(b, 5))));
+        string[] Run() =>
+        [
+            CliRunner.Run("calibrate", model, "--normal", data, "--false-alarm", "0.25", "--anomalies", data, "--alarm-filter", "2/3",
+                "--sample-period", "1.5h", "--json").Out,
+            CliRunner.Run("calibrate", model, "--normal", data, "--false-alarm", "0.25", "--anomalies", data).Out,
+            CliRunner.Run("calibrate", model, "--normal", data, "--alarm-filter", "1/1", "--sample-period", "1h", "--target-alarms-per-day", "2.5").Out,
+            CliRunner.Run("explain", model, "--input", data).Out,
+        ];
+        var invariant = InCulture("en-US", Run);
+        var german = InCulture("de-DE", Run);
+        Assert.Equal(invariant, german);
+        Assert.Contains("\"false_alarm\": 0.25", invariant[0]);
+        Assert.Contains("at most 2.5 alarms per day", invariant[2]);
+    }
 }
