@@ -99,6 +99,9 @@ public static class AtomicFile
         return targets.Select(t => t.Path).ToArray();
     }
 
+    /// <summary>Throws the error a write to <paramref name="path"/> would throw, writing nothing (for commands that work long before they write).</summary>
+    public static void CheckWritable(string path, bool force) => Check(path, force);
+
     /// <summary>True when <paramref name="path"/> is a regular file whose content emit wrote there last.</summary>
     public static bool IsEmitsOwn(string path) => WrittenLedger.Matches(path);
 
