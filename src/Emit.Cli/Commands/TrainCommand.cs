@@ -26,14 +26,14 @@ public sealed class TrainCommand : ICliCommand
     {
         Description = "Couplings: rbm (visible-hidden only), lateral (plus visible-visible), general (plus hidden-hidden; at most 16 hidden)",
         DefaultValueFactory = _ => ModelKind.Rbm,
-        CustomParser = r => ModelKindNames.Parse(r.Tokens[^1].Value) ?? ModelKind.Rbm,
+        CustomParser = r => Choice(r, ModelKindNames.Parse(r.Tokens[^1].Value), "--kind", "rbm, lateral or general"),
         HelpName = "rbm|lateral|general",
     };
     private readonly Option<TrainingMethod> _method = new("--method")
     {
         Description = "Negative phase: cd (chains start at the batch's rows) or pcd (persistent chains)",
         DefaultValueFactory = _ => Defaults.Method,
-        CustomParser = r => r.Tokens[^1].Value == "cd" ? TrainingMethod.Cd : TrainingMethod.Pcd,
+        CustomParser = r => Choice(r, r.Tokens[^1].Value switch { "cd" => TrainingMethod.Cd, "pcd" => TrainingMethod.Pcd, _ => (TrainingMethod?)null }, "--method", "cd or pcd"),
         HelpName = "cd|pcd",
     };
     private readonly Option<int> _gibbs = new("--gibbs-steps") { Description = "Gibbs steps per update (the k of CD-k)", DefaultValueFactory = _ => Defaults.GibbsSteps };
@@ -51,8 +51,6 @@ public sealed class TrainCommand : ICliCommand
 
     public Command Build(CliContext ctx)
     {
-        _kind.AcceptOnlyFromAmong("rbm", "lateral", "general");
-        _method.AcceptOnlyFromAmong("cd", "pcd");
         var cmd = new Command("train", "Train a model on logs of normal operation (binary vectors) and write it as a model file")
         {
             _data, _hidden, _kind, _method, _gibbs, _epochs, _batch, _rate, _momentum, _decay, _validation, _patience, _seed, _threads, _output, _force,
@@ -131,12 +129,20 @@ public sealed class TrainCommand : ICliCommand
         if (toStdout) ctx.Out.Write(ModelJson.ToText(model));
         else ModelJson.WriteFile(model, output, force);
         var kept = result.Kept;
-        log.WriteLine($"emit train: {result.Epochs.Length} epoch(s) in {sw.Elapsed.TotalSeconds:F1} s" +
+        log.WriteLine($"emit train: {result.Epochs.Length} epoch(s) in {sw.Elapsed.TotalSeconds.ToString("F3", CultureInfo.InvariantCulture)} s" +
                       (result.StoppedEarly ? " (stopped early)" : "") +
                       (validation is not null ? $", kept epoch {result.EpochKept}" : "") +
                       (kept?.ValidationLogLikelihood is { } ll ? $" (validation log-likelihood {F(ll)} nats per row)" : "") +
                       $"; wrote {(toStdout ? "standard output" : output)}");
         return CliApp.Ok;
+    }
+
+    /// <summary>A typed choice, or a one-line parse error naming the option and its allowed values.</summary>
+    private static T Choice<T>(System.CommandLine.Parsing.ArgumentResult r, T? value, string option, string allowed) where T : struct
+    {
+        if (value is { } v) return v;
+        r.AddError($"{option}: \"{r.Tokens[^1].Value}\" is not one of {allowed}");
+        return default;
     }
 
     private static string F(double x) => x.ToString("F4", CultureInfo.InvariantCulture);

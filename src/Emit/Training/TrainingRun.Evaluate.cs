@@ -9,6 +9,9 @@ internal sealed partial class TrainingRun
     /// <summary>Rows of each set used for the per-epoch figures (the first ones, in file order).</summary>
     internal const int MonitorRows = 2000;
 
+    /// <summary>Training rows the reconstruction error is measured on (the first ones; a dense pass, so kept small).</summary>
+    internal const int ReconstructionRows = 256;
+
     /// <summary>Exact log Z is computed each epoch when it enumerates at most 2^this states.</summary>
     internal const int ExactBits = 20;
 
@@ -74,7 +77,7 @@ internal sealed partial class TrainingRun
     /// <summary>Mean squared difference between training rows and p(v_i | mean-field h, other visible units), over the first rows.</summary>
     private double ReconstructionError()
     {
-        int rows = Math.Min(_data.Rows, MonitorRows);
+        int rows = Math.Min(_data.Rows, ReconstructionRows);
         var a = new double[_nh];
         double sum = 0;
         for (int r = 0; r < rows; r++)
