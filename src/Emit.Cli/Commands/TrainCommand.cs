@@ -22,17 +22,15 @@ public sealed class TrainCommand : ICliCommand
 
     private readonly Option<string> _data = new("--data") { Description = "Training rows: a vector file of 0/1 (CSV, unit names in an optional header row), or - for standard input", Required = true };
     private readonly Option<int> _hidden = new("--hidden") { Description = "Hidden units", Required = true };
-    private readonly Option<ModelKind> _kind = new("--kind")
+    private readonly Option<ModelKind?> _kind = new("--kind")
     {
-        Description = "Couplings: rbm (visible-hidden only), lateral (plus visible-visible), general (plus hidden-hidden; at most 16 hidden)",
-        DefaultValueFactory = _ => ModelKind.Rbm,
+        Description = "Couplings: rbm (visible-hidden only), lateral (plus visible-visible), general (plus hidden-hidden; at most 16 hidden) [default: rbm]",
         CustomParser = r => Choice(r, ModelKindNames.Parse(r.Tokens[^1].Value), "--kind", "rbm, lateral or general"),
         HelpName = "rbm|lateral|general",
     };
-    private readonly Option<TrainingMethod> _method = new("--method")
+    private readonly Option<TrainingMethod?> _method = new("--method")
     {
-        Description = "Negative phase: cd (chains start at the batch's rows) or pcd (persistent chains)",
-        DefaultValueFactory = _ => Defaults.Method,
+        Description = "Negative phase: cd (chains start at the batch's rows) or pcd (persistent chains) [default: pcd]",
         CustomParser = r => Choice(r, r.Tokens[^1].Value switch { "cd" => TrainingMethod.Cd, "pcd" => TrainingMethod.Pcd, _ => (TrainingMethod?)null }, "--method", "cd or pcd"),
         HelpName = "cd|pcd",
     };
@@ -63,9 +61,9 @@ public sealed class TrainCommand : ICliCommand
     {
         var settings = new TrainerSettings
         {
-            Kind = parse.GetValue(_kind),
+            Kind = parse.GetValue(_kind) ?? Defaults.Kind,
             Hidden = parse.GetValue(_hidden),
-            Method = parse.GetValue(_method),
+            Method = parse.GetValue(_method) ?? Defaults.Method,
             GibbsSteps = parse.GetValue(_gibbs),
             Epochs = parse.GetValue(_epochs),
             BatchSize = parse.GetValue(_batch),
@@ -138,11 +136,11 @@ public sealed class TrainCommand : ICliCommand
     }
 
     /// <summary>A typed choice, or a one-line parse error naming the option and its allowed values.</summary>
-    private static T Choice<T>(System.CommandLine.Parsing.ArgumentResult r, T? value, string option, string allowed) where T : struct
+    private static T? Choice<T>(System.CommandLine.Parsing.ArgumentResult r, T? value, string option, string allowed) where T : struct
     {
         if (value is { } v) return v;
         r.AddError($"{option}: \"{r.Tokens[^1].Value}\" is not one of {allowed}");
-        return default;
+        return null;
     }
 
     private static string F(double x) => x.ToString("F4", CultureInfo.InvariantCulture);

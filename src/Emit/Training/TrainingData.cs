@@ -77,7 +77,6 @@ public sealed class TrainingData
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
 
         using var reader = new VectorReader(new MemoryStream(bytes, writable: false), source, width);
-        var units = new List<byte[]>();
         var row = new byte[reader.Width];
         var all = new MemoryStream();
         int rows = 0;
