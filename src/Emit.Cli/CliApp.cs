@@ -36,7 +36,7 @@ public static class CliApp
         root.Options.Add(Verbose);
         foreach (var command in new ICliCommand[]
                  {
-                     new InspectCommand(), new CompileCommand(), new BuildCommand(), new VerifyCommand(), new DiffCommand(), new CalibrateCommand(), new ExplainCommand(), new ClassifyCommand(), new ScoreCommand(), new LogzCommand(), new VectorsCommand(), new ImportCommand(), new DemoCommand(),
+                     new InspectCommand(), new CompileCommand(), new BuildCommand(), new VerifyCommand(), new DiffCommand(), new CalibrateCommand(), new ExplainCommand(), new TrainCommand(), new ClassifyCommand(), new ScoreCommand(), new LogzCommand(), new VectorsCommand(), new ImportCommand(), new DemoCommand(),
                  })
             root.Subcommands.Add(command.Build(ctx));
         return root;

@@ -5,6 +5,7 @@ using System.Text.Json;
 using Emit.Detection;
 using Emit.Model;
 using Emit.Reference;
+using Emit.Training;
 
 namespace Emit.Demo;
 
@@ -39,25 +40,39 @@ public static class DemoData
     public const string FaultyFileName = "faulty.csv";
     public const string FaultsFileName = "faults.csv";
 
-    /// <summary>The trainer settings used for the demo model (its seed comes from <see cref="Seed"/>).</summary>
-    public static RbmTrainerSettings TrainerSettings => new() { Seed = Seeds().Trainer };
+    /// <summary>
+    /// The trainer settings used for the demo model: emit train's defaults with 16 hidden units and the seed from
+    /// <see cref="Seed"/>, i.e. <c>emit train --data training.csv --hidden 16 --seed TrainerSeed</c>.
+    /// </summary>
+    public static TrainerSettings TrainerSettings => new() { Hidden = 16, Seed = TrainerSeed };
+
+    /// <summary>The trainer's seed (the fifth output of the master generator).</summary>
+    public static ulong TrainerSeed => Seeds().Trainer;
+
+    /// <summary>File name the training rows have in the model's metadata (they are not shipped; <see cref="TrainingData"/> makes them).</summary>
+    public const string TrainingFileName = "training.csv";
+
+    /// <summary>The training rows, as <c>emit train</c> reads them from <see cref="TrainingFileName"/> (header of flag names, then 0/1 rows).</summary>
+    public static TrainingData TrainingData() =>
+        Training.TrainingData.FromRows(Draw(new ReeferFleetGenerator(Seeds().Training), TrainingRows, faulty: false).Select(r => r.Flags).ToList(),
+            ReeferFlags.Names, TrainingFileName);
 
     /// <summary>Draws the reports, trains and calibrates the model (a second or two, single-threaded).</summary>
     public static DemoDataSet Build()
     {
         var seeds = Seeds();
-        var training = Draw(new ReeferFleetGenerator(seeds.Training), TrainingRows, faulty: false);
         var calibration = Draw(new ReeferFleetGenerator(seeds.Calibration), CalibrationRows, faulty: false);
         var normal = Draw(new ReeferFleetGenerator(seeds.Normal), NormalRows, faulty: false);
         var faulty = Draw(new ReeferFleetGenerator(seeds.Faulty), FaultyRows, faulty: true);
 
         var settings = TrainerSettings;
-        var trained = RbmTrainer.Train(training.Select(r => r.Flags).ToList(), ReeferFlags.Names, settings);
+        var training = TrainingData();
+        var trained = Trainer.Train(training, settings);
         double threshold = Calibrate(trained.Model, calibration);
         var m = trained.Model;
         var model = new BoltzmannModel(m.Kind, m.Visible, m.Hidden, m.VisibleBias, m.HiddenBias, m.Weights,
-            names: m.Names, threshold: threshold, metadataJson: Metadata(settings, trained.ReconstructionError));
-        return new DemoDataSet(model, normal, faulty, trained.ReconstructionError);
+            names: m.Names, threshold: threshold, metadataJson: Metadata(training, settings, trained));
+        return new DemoDataSet(model, normal, faulty, trained.Epochs.Select(e => e.ReconstructionError).ToImmutableArray());
     }
 
     /// <summary>The text of each file (name → content, "\n" line ends).</summary>
@@ -136,7 +151,7 @@ public static class DemoData
         return (s.Next(), s.Next(), s.Next(), s.Next(), s.Next());
     }
 
-    private static string Metadata(RbmTrainerSettings t, ImmutableArray<double> error)
+    private static string Metadata(TrainingData training, TrainerSettings t, TrainingResult trained)
     {
         using var stream = new MemoryStream();
         using (var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true, NewLine = "\n" }))
@@ -146,7 +161,7 @@ public static class DemoData
             w.WriteString("name", "reefer-fleet");
             w.WriteString("description", "Invented demo scenario: 56 status flags of a refrigerated container fleet. Not real data.");
             w.WriteString("caution", "A monitoring aid, not a safety function.");
-            w.WriteString("regenerate", "dotnet run demo-data/regenerate.cs (Emit.Demo.DemoData.WriteAll); see demo-data/README.md");
+            w.WriteString("regenerate", "dotnet run demo-data/regenerate.cs (Emit.Demo.DemoData.WriteAll; the model is what emit train makes of the training rows with the options in metadata.training); see demo-data/README.md");
             w.WriteStartObject("generator");
             w.WriteString("name", "Emit.Demo.ReeferFleetGenerator");
             w.WriteNumber("version", ReeferFleetGenerator.Version);
@@ -158,21 +173,7 @@ public static class DemoData
             foreach (var f in ReeferFaults.All) w.WriteStringValue(f.Name);
             w.WriteEndArray();
             w.WriteEndObject();
-            w.WriteStartObject("trainer");
-            w.WriteString("name", "Emit.Demo.RbmTrainer");
-            w.WriteString("method", "contrastive divergence");
-            w.WriteNumber("cd_steps", t.CdSteps);
-            w.WriteNumber("epochs", t.Epochs);
-            w.WriteNumber("batch_size", t.BatchSize);
-            Num("learning_rate", t.LearningRate);
-            Num("initial_momentum", t.InitialMomentum);
-            Num("final_momentum", t.FinalMomentum);
-            w.WriteNumber("momentum_switch_epoch", t.MomentumSwitchEpoch);
-            Num("weight_decay", t.WeightDecay);
-            Num("initial_weight_scale", t.InitialWeightScale);
-            w.WriteNumber("seed", t.Seed);
-            Num("final_reconstruction_error", error.IsEmpty ? 0 : error[^1]);
-            w.WriteEndObject();
+            TrainingMetadata.WriteTraining(w, training, null, t, trained);
             w.WriteNumber("training_rows", TrainingRows);
             w.WriteStartObject("threshold");
             w.WriteString("method", "conformal threshold at false-alarm rate 1 - quantile over held-out normal rows (docs/calibrate.md), rounded up to 0.001");

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using Emit.Training;
 
 namespace Emit.Demo;
 

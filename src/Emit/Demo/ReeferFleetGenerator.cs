@@ -1,3 +1,4 @@
+using Emit.Training;
 using static Emit.Demo.ReeferFlag;
 
 namespace Emit.Demo;

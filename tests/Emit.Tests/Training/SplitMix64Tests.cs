@@ -1,6 +1,6 @@
-using Emit.Demo;
+using Emit.Training;
 
-namespace Emit.Tests.Demo;
+namespace Emit.Tests.Training;
 
 public sealed class SplitMix64Tests
 {

@@ -1,12 +1,12 @@
-namespace Emit.Demo;
+namespace Emit.Training;
 
 /// <summary>
 /// Exponential, logarithm and logistic function from additions, multiplications, divisions and exact
 /// power-of-two scaling only. <see cref="Math.Exp"/> and <see cref="Math.Log(double)"/> call the platform's C library,
-/// whose last bit may differ between operating systems; the demo trainer uses these instead so the committed
-/// demo model is the same bits everywhere. Accurate to a few units in the last place, which is all training needs.
+/// whose last bit may differ between operating systems; the trainer uses these instead so a committed
+/// model is the same bits everywhere. Accurate to a few units in the last place, which is all training needs.
 /// </summary>
-internal static class DemoMath
+public static class TrainingMath
 {
     // ln 2 split so that n * Ln2Hi is exact for |n| < 2^11 (the split used by fdlibm's exp and log).
     private const double Ln2Hi = 6.93147180369123816490e-01;

@@ -1,9 +1,9 @@
-namespace Emit.Demo;
+namespace Emit.Training;
 
 /// <summary>
 /// SplitMix64 pseudo-random generator (Steele, Lea and Flood, "Fast splittable pseudorandom number generators",
 /// OOPSLA 2014; the 64-bit finaliser constants of Vigna's public-domain splitmix64.c). Our own implementation so
-/// the demo data never depends on <see cref="System.Random"/>, whose sequence may change between .NET versions.
+/// the demo data and the trainer never depend on <see cref="System.Random"/>, whose sequence may change between .NET versions.
 /// Integer arithmetic only: the same seed gives the same sequence on every platform.
 /// </summary>
 public sealed class SplitMix64

@@ -1,0 +1,257 @@
+using System.Numerics;
+using System.Numerics.Tensors;
+using Emit.Model;
+
+namespace Emit.Training;
+
+/// <summary>Positive and negative phase of one batch slot, and the parameter update.</summary>
+internal sealed partial class TrainingRun
+{
+    /// <summary>Slot k: the positive statistics of the batch's k-th row (when it has one), then its chain's negative phase.</summary>
+    private void SlotWork(int k)
+    {
+        var slot = _slot[k];
+        if (k < _rowsInBatch)
+        {
+            var v0 = _data.Row(_order[_batchStart + k]);
+            var ph = _phPos.AsSpan(k * _nh, _nh);
+            HiddenInput(v0, slot.A);
+            if (_kind == ModelKind.General)
+                Posterior(slot, _hhPos.AsSpan(k * _nh * _nh, _nh * _nh), ph);
+            else
+                for (int j = 0; j < _nh; j++) ph[j] = TrainingMath.Sigmoid(slot.A[j]);
+            if (_s.Method == TrainingMethod.Cd)
+            {
+                // CD-k: the chain starts at the data row with hidden units drawn from their posterior.
+                v0.CopyTo(slot.V);
+                if (_kind == ModelKind.General) DrawFromPosterior(slot);
+                else for (int j = 0; j < _nh; j++) slot.H[j] = slot.Rng.NextDouble() < ph[j] ? (byte)1 : (byte)0;
+            }
+        }
+        var hNeg = _hNeg.AsSpan(k * _nh, _nh);
+        for (int step = 0; step < _s.GibbsSteps; step++)
+        {
+            VisibleSweep(slot);
+            HiddenSweep(slot, hNeg, last: step == _s.GibbsSteps - 1);
+        }
+        slot.V.CopyTo(_vNeg.AsSpan(k * _nv, _nv));
+    }
+
+    /// <summary>a = c + Σ_{i: v_i = 1} W_i (rows of W added in unit order).</summary>
+    private void HiddenInput(ReadOnlySpan<byte> v, double[] a)
+    {
+        _p.C.CopyTo(a, 0);
+        var w = _p.W;
+        for (int i = 0; i < _nv; i++)
+            if (v[i] != 0) TensorPrimitives.Add(a, w.AsSpan(i * _nh, _nh), a);
+    }
+
+    /// <summary>
+    /// Visible units given the hidden ones: in one block for kind rbm (they are independent), else one at a time
+    /// in unit order, each from its energy gap b_i + Σ_j W_ij h_j + Σ_k L_ik v_k given the current values of the others.
+    /// </summary>
+    private void VisibleSweep(Slot slot)
+    {
+        var field = slot.Field;
+        _p.B.CopyTo(field, 0);
+        var wt = _p.WT;
+        for (int j = 0; j < _nh; j++)
+            if (slot.H[j] != 0) TensorPrimitives.Add(field, wt.AsSpan(j * _nv, _nv), field);
+        var v = slot.V;
+        if (_p.L is not { } l)
+        {
+            for (int i = 0; i < _nv; i++) v[i] = slot.Rng.NextDouble() < TrainingMath.Sigmoid(field[i]) ? (byte)1 : (byte)0;
+            return;
+        }
+        for (int i = 0; i < _nv; i++)
+        {
+            double x = field[i];
+            var row = l.AsSpan(i * _nv, _nv);
+            for (int k = 0; k < _nv; k++)
+                if (v[k] != 0) x += row[k];
+            v[i] = slot.Rng.NextDouble() < TrainingMath.Sigmoid(x) ? (byte)1 : (byte)0;
+        }
+    }
+
+    /// <summary>
+    /// Hidden units given the visible ones: in one block (kinds rbm and lateral; the negative statistic is then
+    /// p(h | v), which has less noise than a sample: practical guide, section 3), or one at a time (general; the
+    /// statistic is the sample). The chain keeps a sample.
+    /// </summary>
+    private void HiddenSweep(Slot slot, Span<double> stat, bool last)
+    {
+        HiddenInput(slot.V, slot.A);
+        var h = slot.H;
+        if (_p.M is not { } m)
+        {
+            for (int j = 0; j < _nh; j++)
+            {
+                double p = TrainingMath.Sigmoid(slot.A[j]);
+                if (last) stat[j] = p;
+                h[j] = slot.Rng.NextDouble() < p ? (byte)1 : (byte)0;
+            }
+            return;
+        }
+        for (int j = 0; j < _nh; j++)
+        {
+            double x = slot.A[j];
+            var row = m.AsSpan(j * _nh, _nh);
+            for (int k = 0; k < _nh; k++)
+                if (h[k] != 0) x += row[k];
+            h[j] = slot.Rng.NextDouble() < TrainingMath.Sigmoid(x) ? (byte)1 : (byte)0;
+        }
+        if (last) for (int j = 0; j < _nh; j++) stat[j] = h[j];
+    }
+
+    /// <summary>
+    /// Exact posterior over hidden states given the hidden inputs in slot.A (kind general): every state h of the
+    /// 2^hidden is visited in Gray-code order with its score a·h + Σ_{k&lt;l} M_kl h_k h_l updated by one flip;
+    /// then E[h_k] and E[h_k h_l] under weights exp(score - max).
+    /// </summary>
+    private void Posterior(Slot slot, Span<double> hh, Span<double> ph)
+    {
+        var table = slot.Table!;
+        var m = _p.M!;
+        int nh = _nh;
+        var field = slot.HiddenField;
+        slot.A.CopyTo(field, 0);
+        uint state = 0;
+        double score = 0, max = 0;
+        table[0] = 0;
+        for (uint t = 1; t < (1u << nh); t++)
+        {
+            int k = BitOperations.TrailingZeroCount(t);
+            double sign;
+            if ((state & (1u << k)) == 0) { score += field[k]; sign = 1; }
+            else { score -= field[k]; sign = -1; }
+            state ^= 1u << k;
+            for (int l = 0; l < nh; l++) field[l] += sign * m[l * nh + k];
+            table[state] = score;
+            if (score > max) max = score;
+        }
+        double total = 0;
+        for (int g = 0; g < table.Length; g++) total += table[g] = TrainingMath.Exp(table[g] - max);
+        ph.Clear();
+        hh.Clear();
+        for (int g = 1; g < table.Length; g++)
+        {
+            double w = table[g];
+            for (uint bits = (uint)g; bits != 0; bits &= bits - 1)
+            {
+                int k = BitOperations.TrailingZeroCount(bits);
+                ph[k] += w;
+                for (uint rest = bits & (bits - 1); rest != 0; rest &= rest - 1)
+                    hh[k * nh + BitOperations.TrailingZeroCount(rest)] += w;
+            }
+        }
+        for (int k = 0; k < nh; k++)
+        {
+            ph[k] /= total;
+            for (int l = k + 1; l < nh; l++) hh[l * nh + k] = hh[k * nh + l] /= total;
+        }
+        slot.Total = total;
+    }
+
+    /// <summary>Draws the slot's hidden state from the posterior table <see cref="Posterior"/> left (inverse CDF in state order).</summary>
+    private void DrawFromPosterior(Slot slot)
+    {
+        var table = slot.Table!;
+        double u = slot.Rng.NextDouble() * slot.Total, acc = 0;
+        int g = 0;
+        for (; g < table.Length - 1; g++)
+        {
+            acc += table[g];
+            if (u < acc) break;
+        }
+        for (int j = 0; j < _nh; j++) slot.H[j] = (byte)((g >> j) & 1);
+    }
+
+    /// <summary>
+    /// One momentum step on every parameter (practical guide, section 9): Δθ ← μΔθ + ε(∂ - λθ) with λ only on
+    /// couplings, ∂ = positive minus negative statistics, each averaged over its rows in row order.
+    /// Parallel over visible units; each unit's row of W (and L) is computed by one thread in a fixed order.
+    /// </summary>
+    private void Update(double lr, double momentum)
+    {
+        int n = _rowsInBatch, nNeg = _negRows, nv = _nv, nh = _nh;
+        double wd = _s.WeightDecay;
+        For(nv, (long)(n + nNeg) * nh, i =>
+        {
+            var scratch = _rowScratch.Value!;
+            var pos = scratch.AsSpan(0, Math.Max(nh, nv));
+            var neg = scratch.AsSpan(Math.Max(nh, nv), Math.Max(nh, nv));
+            pos.Clear();
+            neg.Clear();
+            var hPos = pos[..nh];
+            var hNeg = neg[..nh];
+            int onPos = 0, onNeg = 0;
+            for (int r = 0; r < n; r++)
+                if (_data.Units[_order[_batchStart + r] * nv + i] != 0) { TensorPrimitives.Add(hPos, _phPos.AsSpan(r * nh, nh), hPos); onPos++; }
+            for (int r = 0; r < nNeg; r++)
+                if (_vNeg[r * nv + i] != 0) { TensorPrimitives.Add(hNeg, _hNeg.AsSpan(r * nh, nh), hNeg); onNeg++; }
+            var w = _p.W.AsSpan(i * nh, nh);
+            var dw = _velocity!.W.AsSpan(i * nh, nh);
+            for (int j = 0; j < nh; j++)
+            {
+                double g = hPos[j] / n - hNeg[j] / nNeg;
+                dw[j] = momentum * dw[j] + lr * (g - wd * w[j]);
+                w[j] += dw[j];
+            }
+            double gb = (double)onPos / n - (double)onNeg / nNeg;
+            _velocity.B[i] = momentum * _velocity.B[i] + lr * gb;
+            _p.B[i] += _velocity.B[i];
+            if (_p.L is { } l)
+            {
+                var cPos = pos[..nv];
+                var cNeg = neg[..nv];
+                cPos.Clear();
+                cNeg.Clear();
+                for (int r = 0; r < n; r++)
+                {
+                    var row = _data.Row(_order[_batchStart + r]);
+                    if (row[i] != 0) for (int k = 0; k < nv; k++) cPos[k] += row[k];
+                }
+                for (int r = 0; r < nNeg; r++)
+                {
+                    var row = _vNeg.AsSpan(r * nv, nv);
+                    if (row[i] != 0) for (int k = 0; k < nv; k++) cNeg[k] += row[k];
+                }
+                var li = l.AsSpan(i * nv, nv);
+                var dl = _velocity.L!.AsSpan(i * nv, nv);
+                for (int k = 0; k < nv; k++)
+                {
+                    if (k == i) continue;
+                    // Counts are symmetric in (i, k), so L stays exactly symmetric.
+                    double g = cPos[k] / n - cNeg[k] / nNeg;
+                    dl[k] = momentum * dl[k] + lr * (g - wd * li[k]);
+                    li[k] += dl[k];
+                }
+            }
+        });
+        for (int j = 0; j < nh; j++)
+        {
+            double pos = 0, neg = 0;
+            for (int r = 0; r < n; r++) pos += _phPos[r * nh + j];
+            for (int r = 0; r < nNeg; r++) neg += _hNeg[r * nh + j];
+            _velocity!.C[j] = momentum * _velocity.C[j] + lr * (pos / n - neg / nNeg);
+            _p.C[j] += _velocity.C[j];
+        }
+        if (_p.M is { } mm)
+        {
+            for (int k = 0; k < nh; k++)
+                for (int l = k + 1; l < nh; l++)
+                {
+                    double pos = 0, neg = 0;
+                    for (int r = 0; r < n; r++) pos += _hhPos![r * nh * nh + k * nh + l];
+                    for (int r = 0; r < nNeg; r++) neg += _hNeg[r * nh + k] * _hNeg[r * nh + l];
+                    double g = pos / n - neg / nNeg;
+                    var dm = _velocity!.M!;
+                    dm[k * nh + l] = momentum * dm[k * nh + l] + lr * (g - wd * mm[k * nh + l]);
+                    dm[l * nh + k] = dm[k * nh + l];
+                    mm[k * nh + l] += dm[k * nh + l];
+                    mm[l * nh + k] = mm[k * nh + l];
+                }
+        }
+        _p.Transpose();
+    }
+}
