@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Scale figures for docs/benchmarks.md (issue 6 §5): peak memory while scoring 10^7 streamed vectors, and a
+# Scale figures for docs/benchmarks.md: peak memory while scoring 10^7 streamed vectors, and a
 # 4096×2048 model through load and inspect (compile and verify join as those commands land).
 # Usage: bash bench/scale.sh [ROWS]   (needs /usr/bin/time and python3; writes to /tmp/emit-scale)
 set -euo pipefail

@@ -132,6 +132,27 @@ public static class CliOptions
     }
 
     /// <summary>
+    /// A real-number option read in the invariant culture (<c>0.05</c> everywhere, never <c>0,05</c>); range checks are
+    /// left to the library, which names the setting.
+    /// </summary>
+    public static Option<double> Real(string name, string description, double defaultValue)
+    {
+        return new Option<double>(name)
+        {
+            Description = description,
+            HelpName = "X",
+            DefaultValueFactory = _ => defaultValue,
+            CustomParser = r =>
+            {
+                var text = r.Tokens.Count > 0 ? r.Tokens[^1].Value : "";
+                if (double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var v)) return v;
+                r.AddError($"{name}: '{text}' is not a number (write it as 0.05 or 5e-2)");
+                return default;
+            },
+        };
+    }
+
+    /// <summary>
     /// The output file of a command that writes one (<c>-o/--output FILE</c>, <c>-</c> for standard output), with the
     /// hidden former spelling <c>--out FILE</c> kept for one release (docs/cli.md, "Former spellings").
     /// </summary>

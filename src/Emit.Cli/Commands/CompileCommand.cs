@@ -53,8 +53,7 @@ public sealed class CompileCommand : ICliCommand
     {
         HelpName = "speed|size",
         Description = "Code layout: speed (rows added four at a time, vectorizable blocks) or size (plain loops, for " +
-                      "flash-limited parts such as Cortex-M0); the results are bit-identical",
-        DefaultValueFactory = _ => OptimizeFor.Speed,
+                      "flash-limited parts such as Cortex-M0); the results are bit-identical [default: speed]",
     };
 
     private readonly Option<bool> _force = CliOptions.Force();

@@ -19,8 +19,7 @@ public sealed class InspectCommand : ICliCommand
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
     {
         HelpName = "speed|size",
-        Description = "Layout the footprint is predicted for: speed or size (as for compile)",
-        DefaultValueFactory = _ => OptimizeFor.Speed,
+        Description = "Layout the footprint is predicted for: speed or size (as for compile) [default: speed]",
     };
     private readonly FixedPointOptionSet _fixed = new();
 

@@ -20,8 +20,8 @@ public sealed class TrainCommand : ICliCommand
 
     private static readonly TrainerSettings Defaults = new();
 
-    private readonly Option<string> _data = new("--data") { Description = "Training rows: a vector file of 0/1 (CSV, unit names in an optional header row), or - for standard input", Required = true };
-    private readonly Option<int> _hidden = new("--hidden") { Description = "Hidden units", Required = true };
+    private readonly Option<string> _data = new("--data") { HelpName = "DATA", Description = "Training rows: a vector file of 0/1 (CSV, unit names in an optional header row), or - for standard input", Required = true };
+    private readonly Option<int> _hidden = new("--hidden") { HelpName = "N", Description = "Hidden units", Required = true };
     private readonly Option<ModelKind?> _kind = new("--kind")
     {
         Description = "Couplings: rbm (visible-hidden only), lateral (plus visible-visible), general (plus hidden-hidden; at most 16 hidden) [default: rbm]",
@@ -34,17 +34,17 @@ public sealed class TrainCommand : ICliCommand
         CustomParser = r => Choice(r, r.Tokens[^1].Value switch { "cd" => TrainingMethod.Cd, "pcd" => TrainingMethod.Pcd, _ => (TrainingMethod?)null }, "--method", "cd or pcd"),
         HelpName = "cd|pcd",
     };
-    private readonly Option<int> _gibbs = new("--gibbs-steps") { Description = "Gibbs steps per update (the k of CD-k)", DefaultValueFactory = _ => Defaults.GibbsSteps };
-    private readonly Option<int> _epochs = new("--epochs") { Description = "Passes over the training rows (at most, with early stopping)", DefaultValueFactory = _ => Defaults.Epochs };
-    private readonly Option<int> _batch = new("--batch") { Description = "Rows per update (also the number of persistent chains)", DefaultValueFactory = _ => Defaults.BatchSize };
-    private readonly Option<double> _rate = new("--learning-rate") { Description = "Initial learning rate; it decays linearly to zero over the second half of the epochs", DefaultValueFactory = _ => Defaults.LearningRate };
-    private readonly Option<double> _momentum = new("--momentum") { Description = "Momentum (after the first 5 epochs, which use 0.5)", DefaultValueFactory = _ => Defaults.Momentum };
-    private readonly Option<double> _decay = new("--weight-decay") { Description = "L2 weight decay on the couplings", DefaultValueFactory = _ => Defaults.WeightDecay };
-    private readonly Option<string?> _validation = new("--validation") { Description = "Held-out rows of normal operation: scored each epoch; the best epoch's model is written" };
-    private readonly Option<int> _patience = new("--patience") { Description = "With --validation: stop after this many epochs without improvement (0: never)", DefaultValueFactory = _ => Defaults.Patience };
-    private readonly Option<ulong> _seed = new("--seed") { Description = "Random seed (same data, options and seed give the same model bytes)", DefaultValueFactory = _ => Defaults.Seed };
-    private readonly Option<int> _threads = new("--threads") { Description = "Worker threads (the model does not depend on it)", DefaultValueFactory = _ => Environment.ProcessorCount };
-    private readonly Option<string> _output = new("--output", "-o") { Description = "Model file to write (JSON), or - for standard output", Required = true };
+    private readonly Option<int> _gibbs = new("--gibbs-steps") { HelpName = "K", Description = "Gibbs steps per update (the k of CD-k)", DefaultValueFactory = _ => Defaults.GibbsSteps };
+    private readonly Option<int> _epochs = new("--epochs") { HelpName = "E", Description = "Passes over the training rows (at most, with early stopping)", DefaultValueFactory = _ => Defaults.Epochs };
+    private readonly Option<int> _batch = new("--batch") { HelpName = "B", Description = "Rows per update (also the number of persistent chains)", DefaultValueFactory = _ => Defaults.BatchSize };
+    private readonly Option<double> _rate = CliOptions.Real("--learning-rate", "Initial learning rate; it decays linearly to zero over the second half of the epochs", Defaults.LearningRate);
+    private readonly Option<double> _momentum = CliOptions.Real("--momentum", "Momentum (after the first 5 epochs, which use 0.5)", Defaults.Momentum);
+    private readonly Option<double> _decay = CliOptions.Real("--weight-decay", "L2 weight decay on the couplings", Defaults.WeightDecay);
+    private readonly Option<string?> _validation = new("--validation") { HelpName = "DATA", Description = "Held-out rows of normal operation: scored each epoch; the best epoch's model is written" };
+    private readonly Option<int> _patience = new("--patience") { HelpName = "P", Description = "With --validation: stop after this many epochs without improvement (0: never)", DefaultValueFactory = _ => Defaults.Patience };
+    private readonly Option<ulong> _seed = new("--seed") { HelpName = "S", Description = "Random seed (same data, options and seed give the same model bytes)", DefaultValueFactory = _ => Defaults.Seed };
+    private readonly Option<int> _threads = new("--threads") { Description = "Worker threads (the model does not depend on it) [default: the number of cores]", HelpName = "N" };
+    private readonly Option<string> _output = new("--output", "-o") { HelpName = "FILE", Description = "Model file to write (JSON), or - for standard output", Required = true };
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
@@ -72,7 +72,7 @@ public sealed class TrainCommand : ICliCommand
             WeightDecay = parse.GetValue(_decay),
             Patience = parse.GetValue(_patience),
             Seed = parse.GetValue(_seed),
-            Threads = parse.GetValue(_threads),
+            Threads = parse.GetResult(_threads) is null ? Environment.ProcessorCount : parse.GetValue(_threads),
         };
         foreach (var (setting, problem) in settings.Problems())
             throw new EmitException($"--{setting} {problem}");

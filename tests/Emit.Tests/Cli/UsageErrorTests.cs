@@ -46,7 +46,7 @@ public sealed class UsageErrorTests
     [InlineData(new[] { "compile", "MODEL", "--numeric", "fixed", "--accumulator", "int16" }, "--accumulator: 'int16' is not one of auto, int32, int64")]
     [InlineData(new[] { "compile", "MODEL", "--target", "c,java" }, "--target: 'java' is not one of c, csharp")]
     [InlineData(new[] { "logz", "MODEL", "--method", "guess" }, "--method: 'guess' is not one of exact, ais (see emit logz --help)")]
-    [InlineData(new[] { "inspect", "MODEL", "--numeric", "f32" }, "--numeric: 'f32' is not one of fixed")]
+    [InlineData(new[] { "inspect", "MODEL", "--numeric", "f16" }, "--numeric: 'f16' is not one of f32, f64, fixed")]
     public void Fixed_choices_name_the_allowed_values(string[] args, string expected)
     {
         var model = Model();

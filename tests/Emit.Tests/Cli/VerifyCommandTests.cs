@@ -13,7 +13,7 @@ using Json.Schema;
 
 namespace Emit.Tests.Cli;
 
-/// <summary><c>emit verify</c> end to end: exit codes, the reports, existing sources, missing tools (issue 5 §1, §4, §6).</summary>
+/// <summary><c>emit verify</c> end to end: exit codes, the reports, existing sources, missing tools (§4, §6).</summary>
 public sealed class VerifyCommandTests
 {
     private static readonly CodegenCases.Case Lateral = CodegenCases.All.Single(x => x.Id == "lat_a");

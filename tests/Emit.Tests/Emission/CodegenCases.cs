@@ -8,7 +8,7 @@ namespace Emit.Tests.Emission;
 /// <summary>Models of every kind for compile-and-run tests (invented data from fixed seeds) and their input vectors.</summary>
 internal static class CodegenCases
 {
-    /// <summary>Unit names that try to escape comments, continue lines, start directives or break strings (issue 3 §7).</summary>
+    /// <summary>Unit names that try to escape comments, continue lines, start directives or break strings.</summary>
     public static readonly string[] HostileNames =
     [
         "*/ int injected = 1; /*", "quote \" inside", "back\\slash", "line\nbreak", "tab\there", "??= trigraph ??/",

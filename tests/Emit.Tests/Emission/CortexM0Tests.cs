@@ -9,7 +9,7 @@ using Xunit.Abstractions;
 namespace Emit.Tests.Emission;
 
 /// <summary>
-/// Proof that the fixed-point C is integer-only on a core without FPU or divider (issue 4 §6), judged by the Arm
+/// Proof that the fixed-point C is integer-only on a core without FPU or divider, judged by the Arm
 /// toolchain (Debian gcc-arm-none-eabi): the generated C compiles for Cortex-M0 with float and double poisoned, and the
 /// object file needs no floating-point, division or libm symbol from any library. The same builds measure flash
 /// (<c>arm-none-eabi-size</c>) and worst-case stack (<c>-fstack-usage</c> frames along the <c>-fcallgraph-info=su</c>
@@ -18,7 +18,7 @@ namespace Emit.Tests.Emission;
 /// </summary>
 public sealed partial class CortexM0Tests(ITestOutputHelper output)
 {
-    /// <summary>Flags of issue 4 §6 plus the strict warnings of every C build in the tests.</summary>
+    /// <summary>Flags for a core without FPU plus the strict warnings of every C build in the tests.</summary>
     private const string M0Flags = "-mcpu=cortex-m0 -mthumb -mfloat-abi=soft -Os -Werror " + Toolchain.StrictC + " -Wdouble-promotion -Wfloat-conversion";
 
     /// <summary>The only library symbols the generated code may need: memory copy and fill, 64-bit shifts and multiplication (libgcc).</summary>
@@ -136,9 +136,9 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
         foreach (var c in FixedCodegenCases.All)
         {
             builds.Add(Compile(dir, c.Name, c.Case.Model, c.Options, gcc, poison));
-            builds.Add(Compile(dir, c.Name + "_size", c.Case.Model, c.Options, gcc, poison, OptimizeFor.Size));
+            builds.Add(Compile(dir, c.Name + "z", c.Case.Model, c.Options, gcc, poison, OptimizeFor.Size));
         }
-        builds.Add(Compile(dir, "reefer_int16_size", demo, new FixedPointOptions(), gcc, poison, OptimizeFor.Size));
+        builds.Add(Compile(dir, "reefer_int16_s", demo, new FixedPointOptions(), gcc, poison, OptimizeFor.Size));
 
         output.WriteLine("build | undefined symbols | flash measured / predicted | stack measured / predicted (bytes)");
         foreach (var b in builds)

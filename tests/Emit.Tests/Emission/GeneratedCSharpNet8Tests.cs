@@ -5,7 +5,7 @@ using Emit.Harness;
 namespace Emit.Tests.Emission;
 
 /// <summary>
-/// Issue 3 §5: the generated C# compiles warning-free on net8.0 (the oldest supported target, C# 12) with nullable
+/// the generated C# compiles warning-free on net8.0 (the oldest supported target, C# 12) with nullable
 /// enabled. The reference assemblies come from NuGet's Microsoft.NETCore.App.Ref 8.0 package.
 /// </summary>
 public sealed class GeneratedCSharpNet8Tests

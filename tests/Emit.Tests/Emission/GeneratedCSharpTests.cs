@@ -137,7 +137,7 @@ public sealed class GeneratedCSharpTests(CSharpBuildFixture fixture) : IClassFix
         var c = CodegenCases.All.Single(x => x.Id == id);
         var name = c.Id + "_" + mode.ToText();
         Assert.Equal(0, fixture.SelfTest[name]);
-        Assert.Equal(0, fixture.Allocated[name]);   // no allocation per call (issue 3 §5)
+        Assert.Equal(0, fixture.Allocated[name]);   // no allocation per call
         var vectors = CodegenCases.Vectors(c);
         var rows = fixture.Rows[name];
         Assert.Equal(vectors.Count, rows.Count);

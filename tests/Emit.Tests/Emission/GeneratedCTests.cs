@@ -12,7 +12,7 @@ namespace Emit.Tests.Emission;
 /// </summary>
 public sealed class GeneratedCTests
 {
-    /// <summary>Relative tolerances per float mode (issue 3 §8), stated once.</summary>
+    /// <summary>Relative tolerances per float mode, stated once.</summary>
     public static double RelativeTolerance(NumericMode mode) => mode == NumericMode.F64 ? 1e-9 : 1e-4;
 
     public static TheoryData<string, NumericMode> Cases()
@@ -76,7 +76,7 @@ public sealed class GeneratedCTests
             Assert.True(Math.Abs(result.Rows[k].Energy - expected[k]) <= rel * Math.Abs(expected[k]), $"F[{k}] = {result.Rows[k].Energy:R}, expected {expected[k]:R}");
     }
 
-    /// <summary>AddressSanitizer and UndefinedBehaviorSanitizer over every kind and mode (issue 6 §3).</summary>
+    /// <summary>AddressSanitizer and UndefinedBehaviorSanitizer over every kind and mode.</summary>
     [SkippableFact]
     public void Generated_c_runs_clean_under_address_and_undefined_behaviour_sanitizers()
     {

@@ -5,7 +5,7 @@ using Emit.Quantize;
 namespace Emit.Tests.Emission;
 
 /// <summary>
-/// Issue 6 §3: cppcheck's MISRA C:2012 addon (Debian cppcheck) over the generated C of every case and numeric mode;
+/// cppcheck's MISRA C:2012 addon (Debian cppcheck) over the generated C of every case and numeric mode;
 /// the guidelines it reports must be exactly those docs/misra.md lists as deviations, so the document stays true.
 /// </summary>
 public sealed class MisraTests

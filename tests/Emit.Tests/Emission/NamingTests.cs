@@ -5,7 +5,7 @@ namespace Emit.Tests.Emission;
 public sealed class NamingTests
 {
     [Theory]
-    [InlineData("rbm_a", "RbmA")]                // issue 3 §5's example
+    [InlineData("rbm_a", "RbmA")]                // a naming example
     [InlineData("pump_station_2", "PumpStation2")]
     [InlineData("x", "X")]
     [InlineData("_", "Model")]

@@ -160,7 +160,7 @@ public sealed class SourceManifestTests
         var templates = Toolchain.TempDir("manifest-templates");
         Directory.CreateDirectory(Path.Combine(templates, "c"));
         var custom = Path.Combine(templates, "c", CEmitter.HeaderTemplate);
-        File.WriteAllText(custom, "/* custom header for {{ m.UName }} */\n");
+        File.WriteAllText(custom, "/* custom header for {{ d.UName }} */\n");
         var gen = CompileTo("manifest-custom", "--target", "c", "--templates", templates);
         var text = File.ReadAllText(Path.Combine(gen, "plant.emit.json"));
         AssertValid(text);

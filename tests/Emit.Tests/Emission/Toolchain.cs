@@ -9,7 +9,7 @@ namespace Emit.Tests.Emission;
 /// </summary>
 internal static class Toolchain
 {
-    /// <summary>The strict flags every C compile in the tests uses (issue 3 §3).</summary>
+    /// <summary>The strict flags every C compile in the tests uses.</summary>
     public const string StrictC = CFlags.Strict;
 
     /// <summary>The same for a C++17 compile of the generated C.</summary>

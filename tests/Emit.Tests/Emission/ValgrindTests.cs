@@ -3,7 +3,7 @@ using Emit.Quantize;
 
 namespace Emit.Tests.Emission;
 
-/// <summary>Issue 6 §3: valgrind memcheck over the generated C of every case and numeric mode, on the test vectors.</summary>
+/// <summary>valgrind memcheck over the generated C of every case and numeric mode, on the test vectors.</summary>
 public sealed class ValgrindTests
 {
     [SkippableFact]

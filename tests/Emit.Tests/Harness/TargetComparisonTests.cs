@@ -8,7 +8,7 @@ using Emit.Reference;
 namespace Emit.Tests.Harness;
 
 /// <summary>
-/// The verdict rules (issue 5 §3) on hand-made results. Worked example (common practice, derived by hand): with no hidden
+/// The verdict rules on hand-made results. Worked example (common practice, derived by hand): with no hidden
 /// units F(v) = −b·v, so with b = (1, 0.5) F(1,0) = −1 and F(1,1) = −1.5 exactly; threshold −1.
 /// </summary>
 public sealed class TargetComparisonTests

@@ -53,7 +53,7 @@ public sealed class VerifierTests
 
         // scikit-learn's own free energies, read from the fixture: by the triangle inequality every generated result is
         // within (reported max error + the reference's distance from scikit-learn) of scikit-learn's, and that is within
-        // the mode's tolerance (1e-9 relative for f64, 1e-4 for f32, issue 3 §8)
+        // the mode's tolerance (1e-9 relative for f64, 1e-4 for f32)
         var sklearn = NpzFixtures.FreeEnergies("sklearn_digits_free_energy.csv");
         var scorer = new ReferenceScorer(model);
         using var reader = Emit.Vectors.VectorReader.Open(NpzFixtures.Path("sklearn_digits_vectors.csv"), model.Visible);

@@ -11,7 +11,7 @@ namespace Emit.Tests.Model;
 /// </summary>
 public sealed class SklearnFreeEnergyTests
 {
-    /// <summary>Relative agreement required with the outside library (issue 2 §8).</summary>
+    /// <summary>Relative agreement required with the outside library.</summary>
     private const double RelativeTolerance = 1e-10;
 
     [Theory]

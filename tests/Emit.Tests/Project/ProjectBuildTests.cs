@@ -2,7 +2,7 @@ using Emit.Tests.Cli;
 
 namespace Emit.Tests.Project;
 
-/// <summary><c>emit build</c>: the same files as <c>emit compile</c> with the same options, and nothing written on failure (issue 6 §2).</summary>
+/// <summary><c>emit build</c>: the same files as <c>emit compile</c> with the same options, and nothing written on failure.</summary>
 public sealed class ProjectBuildTests
 {
     private static string Project(string dir, string scorers)

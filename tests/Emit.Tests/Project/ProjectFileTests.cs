@@ -7,7 +7,7 @@ using Emit.Tests.Emission;
 
 namespace Emit.Tests.Project;
 
-/// <summary>The project file reader (docs/project-file.md) and issue 6 §1: every bad input is one located error.</summary>
+/// <summary>The project file reader (docs/project-file.md) and every bad input is one located error.</summary>
 public sealed class ProjectFileTests
 {
     /// <summary>A folder holding a small model file <c>m.json</c>, for paths in the projects below.</summary>

@@ -9,7 +9,7 @@ using Xunit.Abstractions;
 namespace Emit.Tests.Quantize;
 
 /// <summary>
-/// Figures of issue 4 §7 (docs/benchmarks.md, "Fixed-point accuracy"): measured error against the stated bound on
+/// Figures (docs/benchmarks.md, "Fixed-point accuracy"): measured error against the stated bound on
 /// the demo model and on random 50×20 models with weights ~ N(0, 0.6), and decisions. The fixed-point scores come
 /// from <see cref="FixedPointSimulator"/>, which the generated C and C# match bit for bit (GeneratedFixedCTests,
 /// GeneratedFixedCSharpTests); the exact scores from the double reference scorer (checked against brute-force
@@ -145,7 +145,7 @@ public sealed class FixedDecisionTests(ITestOutputHelper output)
             Assert.True(measured <= plan.ErrorBound, $"{name}: measured {measured} above the bound {plan.ErrorBound}");
             if (weights == WeightType.Int16 && name.StartsWith("random", StringComparison.Ordinal))
             {
-                // issue 4 §7 goals for int16 on 50×20, N(0, 0.6)
+                // goals for int16 on 50×20, N(0, 0.6)
                 Assert.True(plan.ErrorBound <= 0.05, $"{name}: bound {plan.ErrorBound}");
                 Assert.True(measured <= 0.01, $"{name}: measured {measured}");
             }

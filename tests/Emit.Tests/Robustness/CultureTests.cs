@@ -4,7 +4,7 @@ using Emit.Tests.Cli;
 
 namespace Emit.Tests.Robustness;
 
-/// <summary>Issue 6 §4: output bytes do not depend on the culture (de-DE writes 1,5 for 1.5).</summary>
+/// <summary>output bytes do not depend on the culture (de-DE writes 1,5 for 1.5).</summary>
 public sealed class CultureTests
 {
     private static T InCulture<T>(string name, Func<T> f)

@@ -46,7 +46,7 @@ public static class MutationArbitraries
 }
 
 /// <summary>
-/// Issue 6 §1: mutated model, project and vector files (truncation, bit flips, replaced bytes, inserted tokens, deleted runs,
+/// mutated model, project and vector files (truncation, bit flips, replaced bytes, inserted tokens, deleted runs,
 /// edited counts). The only outcomes allowed are a valid result or the tool's own error type with the file named.
 /// </summary>
 [Properties(Arbitrary = [typeof(MutationArbitraries)], MaxTest = 2000)]
