@@ -49,24 +49,59 @@ public static class DemoData
     /// <summary>The trainer's seed (the fifth output of the master generator).</summary>
     public static ulong TrainerSeed => Seeds().Trainer;
 
-    /// <summary>File name the training rows have in the model's metadata (they are not shipped; <see cref="TrainingData"/> makes them).</summary>
+    /// <summary>File name the training rows have in the model's metadata (they are not shipped; <see cref="TrainingData()"/> makes them).</summary>
     public const string TrainingFileName = "training.csv";
 
     /// <summary>The training rows, as <c>emit train</c> reads them from <see cref="TrainingFileName"/> (header of flag names, then 0/1 rows).</summary>
-    public static TrainingData TrainingData() =>
-        Training.TrainingData.FromRows(Draw(new ReeferFleetGenerator(Seeds().Training), TrainingRows, faulty: false).Select(r => r.Flags).ToList(),
-            ReeferFlags.Names, TrainingFileName);
+    public static TrainingData TrainingData() => TrainingData(Draw(new ReeferFleetGenerator(Seeds().Training), TrainingRows, faulty: false));
+
+    /// <summary>The training rows <paramref name="rows"/> as <c>emit train</c> reads them from <see cref="TrainingFileName"/>.</summary>
+    public static TrainingData TrainingData(ImmutableArray<ReeferRow> rows) =>
+        Training.TrainingData.FromRows(rows.Select(r => r.Flags).ToList(), ReeferFlags.Names, TrainingFileName);
+
+    /// <summary>Draws the four logs of the scenario (training, calibration, normal, faulty); same rows every run.</summary>
+    public static DemoLogs Logs()
+    {
+        var seeds = Seeds();
+        return new DemoLogs(
+            Draw(new ReeferFleetGenerator(seeds.Training), TrainingRows, faulty: false),
+            Draw(new ReeferFleetGenerator(seeds.Calibration), CalibrationRows, faulty: false),
+            Draw(new ReeferFleetGenerator(seeds.Normal), NormalRows, faulty: false),
+            Draw(new ReeferFleetGenerator(seeds.Faulty), FaultyRows, faulty: true));
+    }
+
+    /// <summary>
+    /// A calibrated threshold rounded up to a multiple of 0.001, as the shipped model's is, so that a last-bit difference
+    /// in a platform's exp/log cannot change the written value (except at an exact multiple).
+    /// </summary>
+    public static double RoundThreshold(double threshold) => Math.Ceiling(threshold * 1000) / 1000;
+
+    /// <summary>Rows as a CSV file: a header of flag names, then one 0/1 row per report ("\n" line ends).</summary>
+    public static string Csv(IReadOnlyList<ReeferRow> rows)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        var sb = new StringBuilder(rows.Count * ReeferFlags.Count * 2 + 1024);
+        sb.AppendJoin(',', ReeferFlags.Names).Append('\n');
+        foreach (var r in rows)
+        {
+            for (int i = 0; i < r.Flags.Length; i++)
+            {
+                if (i > 0) sb.Append(',');
+                sb.Append(r.Flags[i] != 0 ? '1' : '0');
+            }
+            sb.Append('\n');
+        }
+        return sb.ToString();
+    }
 
     /// <summary>Draws the reports, trains and calibrates the model (a second or two, single-threaded).</summary>
     public static DemoDataSet Build()
     {
-        var seeds = Seeds();
-        var calibration = Draw(new ReeferFleetGenerator(seeds.Calibration), CalibrationRows, faulty: false);
-        var normal = Draw(new ReeferFleetGenerator(seeds.Normal), NormalRows, faulty: false);
-        var faulty = Draw(new ReeferFleetGenerator(seeds.Faulty), FaultyRows, faulty: true);
+        var logs = Logs();
+        var (calibration, normal, faulty) = (logs.Calibration, logs.Normal, logs.Faulty);
 
         var settings = TrainerSettings;
-        var training = TrainingData();
+        var training = TrainingData(logs.Training);
         var trained = Trainer.Train(training, settings);
         double threshold = Calibrate(trained.Model, calibration);
         var m = trained.Model;
@@ -119,7 +154,7 @@ public static class DemoData
         var scorer = new ReferenceScorer(model);
         var energies = calibration.Select(r => scorer.FreeEnergy(r.Flags.AsSpan())).ToArray();
         double q = ConformalThreshold.Threshold(energies, 1 - ThresholdQuantile);
-        return Math.Ceiling(q * 1000) / 1000;
+        return RoundThreshold(q);
     }
 
     private static ImmutableArray<ReeferRow> Draw(ReeferFleetGenerator g, int count, bool faulty)
@@ -127,22 +162,6 @@ public static class DemoData
         var b = ImmutableArray.CreateBuilder<ReeferRow>(count);
         for (int k = 0; k < count; k++) b.Add(faulty ? g.NextFaulty() : g.NextNormal());
         return b.MoveToImmutable();
-    }
-
-    private static string Csv(ImmutableArray<ReeferRow> rows)
-    {
-        var sb = new StringBuilder(rows.Length * ReeferFlags.Count * 2 + 1024);
-        sb.AppendJoin(',', ReeferFlags.Names).Append('\n');
-        foreach (var r in rows)
-        {
-            for (int i = 0; i < r.Flags.Length; i++)
-            {
-                if (i > 0) sb.Append(',');
-                sb.Append(r.Flags[i] != 0 ? '1' : '0');
-            }
-            sb.Append('\n');
-        }
-        return sb.ToString();
     }
 
     private static (ulong Training, ulong Calibration, ulong Normal, ulong Faulty, ulong Trainer) Seeds()
