@@ -55,28 +55,28 @@ public sealed class TrainingData
     /// <param name="stdin">Standard input for <c>-</c>; the console's when null.</param>
     public static TrainingData Load(string path, int? width = null, Stream? stdin = null)
     {
-        byte[] bytes;
         string source = path;
+        Stream input;
         try
         {
             if (path == VectorReader.StdinPath)
             {
-                using var copy = new MemoryStream();
-                (stdin ?? Console.OpenStandardInput()).CopyTo(copy);
-                bytes = copy.ToArray();
+                input = stdin ?? Console.OpenStandardInput();
                 source = VectorReader.StdinName;
             }
             else
             {
                 if (Directory.Exists(path)) throw new EmitException("is a folder, not a vector file", null, path);
                 if (!File.Exists(path)) throw new EmitException("file not found", "check the path", path);
-                bytes = File.ReadAllBytes(path);
+                input = File.OpenRead(path);
             }
         }
         catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
 
-        using var reader = new VectorReader(new MemoryStream(bytes, writable: false), source, width);
+        // Streamed through the reader (which refuses endless lines, so /dev/zero fails at once) and hashed on the way.
+        using var hashing = new HashingReadStream(input, leaveOpen: path == VectorReader.StdinPath && stdin is not null);
+        using var reader = new VectorReader(hashing, source, width, leaveOpen: true);
         var row = new byte[reader.Width];
         var all = new MemoryStream();
         int rows = 0;
@@ -87,7 +87,7 @@ public sealed class TrainingData
         }
         if (rows == 0)
             throw new EmitException("file has a header but no vectors", "write one vector of 0/1 values per line after the header", source);
-        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source, Convert.ToHexStringLower(SHA256.HashData(bytes)));
+        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source, Convert.ToHexStringLower(hashing.Finish()));
     }
 
     /// <summary>Rows given as arrays (tests, the demo), with the SHA-256 of their CSV text as <see cref="Sha256"/>.</summary>

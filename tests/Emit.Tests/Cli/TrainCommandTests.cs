@@ -133,6 +133,35 @@ public sealed class TrainCommandTests
         Assert.Empty(Directory.GetFiles(dir).Where(f => f != data));
     }
 
+    [Fact]
+    public void An_endless_device_as_training_data_is_one_line_exit_2_not_an_internal_error()
+    {
+        if (OperatingSystem.IsWindows()) return;
+        // Reading /dev/zero whole ran out of array space (exit 3); the streamed reader stops at its line-length limit.
+        var dir = CliRunner.TempDir();
+        var r = CliRunner.Run("train", "--data", "/dev/zero", "--hidden", "2", "-o", Path.Combine(dir, "m.json"));
+        Assert.Equal(2, r.ExitCode);
+        Assert.Contains("/dev/zero", r.Error);
+        Assert.Single(r.Error.TrimEnd('\n').Split('\n'));
+    }
+
+    [Fact]
+    public void Real_options_are_read_in_the_invariant_culture()
+    {
+        var (dir, data) = Setup("0,1,0\n1,1,0\n");
+        var saved = System.Globalization.CultureInfo.CurrentCulture;
+        try
+        {
+            System.Globalization.CultureInfo.CurrentCulture = new System.Globalization.CultureInfo("de-DE");
+            var ok = CliRunner.Run("train", "--data", data, "--hidden", "2", "--batch", "2", "--epochs", "1", "--learning-rate", "0.05", "-o", Path.Combine(dir, "a.json"));
+            Assert.True(ok.ExitCode == 0, ok.Error);
+            var comma = CliRunner.Run("train", "--data", data, "--hidden", "2", "--batch", "2", "--epochs", "1", "--learning-rate", "0,05", "-o", Path.Combine(dir, "b.json"));
+            Assert.Equal(2, comma.ExitCode);
+            Assert.Contains("--learning-rate", comma.Error);
+        }
+        finally { System.Globalization.CultureInfo.CurrentCulture = saved; }
+    }
+
     /// <summary>SIGINT to a real emit process (as Ctrl-C sends): it stops, says so, writes nothing and exits 130 (128 + SIGINT, common practice).</summary>
     [Fact]
     public void Ctrl_C_stops_training_writes_nothing_and_exits_130()
