@@ -1,4 +1,4 @@
-#:project ../src/Emit/Emit.csproj
+#:project ../src/Emit.Demo/Emit.Demo.csproj
 #:property PublishAot=false
 // Rewrites the demo data in this folder from the deterministic generator and trainer (Emit.Demo.DemoData).
 // Run from the repository root:  dotnet run demo-data/regenerate.cs
