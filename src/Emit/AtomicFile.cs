@@ -32,18 +32,19 @@ public static class AtomicFile
         {
             try { Directory.CreateDirectory(Path.GetDirectoryName(tmp)!); }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException) { throw CannotWrite(e, path); }
-            using var hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+            using var sha = SHA256.Create();
             try
             {
                 BeforeTempWrite?.Invoke(target.Path);
                 using (var file = new FileStream(tmp, FileMode.CreateNew, FileAccess.Write, FileShare.None))
-                using (var hashing = new HashingStream(file, hash))
+                // A hash transform passes the bytes through unchanged; closing the CryptoStream completes the hash.
+                using (var hashing = new CryptoStream(file, sha, CryptoStreamMode.Write, leaveOpen: true))
                     write(hashing);
                 File.Move(tmp, target.Path, overwrite: true);
             }
             catch (IOException e) { throw CannotWrite(e, path); }
             catch (UnauthorizedAccessException e) { throw CannotWrite(e, path); }
-            WrittenLedger.Record(target.Path, hash.GetHashAndReset());
+            WrittenLedger.Record(target.Path, sha.Hash!);
         }
         finally
         {
@@ -234,29 +235,4 @@ public static class AtomicFile
 
     /// <summary>Tests only: called before each temporary file is created, so a test can make a write fail midway.</summary>
     internal static Action<string>? BeforeTempWrite;
-
-    /// <summary>A write-through stream that hashes what passes; disposing it closes <paramref name="inner"/>, not the hash.</summary>
-    private sealed class HashingStream(Stream inner, IncrementalHash hash) : Stream
-    {
-        public override bool CanRead => false;
-        public override bool CanSeek => false;
-        public override bool CanWrite => true;
-        public override long Length => throw new NotSupportedException();
-        public override long Position { get => throw new NotSupportedException(); set => throw new NotSupportedException(); }
-        public override void Flush() => inner.Flush();
-        public override int Read(byte[] buffer, int offset, int count) => throw new NotSupportedException();
-        public override long Seek(long offset, SeekOrigin origin) => throw new NotSupportedException();
-        public override void SetLength(long value) => throw new NotSupportedException();
-        public override void Write(byte[] buffer, int offset, int count) => Write(buffer.AsSpan(offset, count));
-        public override void Write(ReadOnlySpan<byte> buffer)
-        {
-            hash.AppendData(buffer);
-            inner.Write(buffer);
-        }
-        protected override void Dispose(bool disposing)
-        {
-            if (disposing) inner.Dispose();
-            base.Dispose(disposing);
-        }
-    }
 }

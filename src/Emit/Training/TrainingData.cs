@@ -75,7 +75,8 @@ public sealed class TrainingData
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
 
         // Streamed through the reader (which refuses endless lines, so /dev/zero fails at once) and hashed on the way.
-        using var hashing = new HashingReadStream(input, leaveOpen: path == VectorReader.StdinPath && stdin is not null);
+        using var sha = SHA256.Create();
+        using var hashing = new CryptoStream(input, sha, CryptoStreamMode.Read, leaveOpen: path == VectorReader.StdinPath && stdin is not null);
         using var reader = new VectorReader(hashing, source, width, leaveOpen: true);
         var row = new byte[reader.Width];
         var all = new MemoryStream();
@@ -87,7 +88,14 @@ public sealed class TrainingData
         }
         if (rows == 0)
             throw new EmitException("file has a header but no vectors", "write one vector of 0/1 values per line after the header", source);
-        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source, Convert.ToHexStringLower(hashing.Finish()));
+        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source, Convert.ToHexStringLower(HashToEnd(hashing, sha)));
+    }
+
+    /// <summary>Reads what is left of <paramref name="hashing"/> (the hash covers the whole file) and returns the hash.</summary>
+    private static byte[] HashToEnd(CryptoStream hashing, HashAlgorithm sha)
+    {
+        hashing.CopyTo(Stream.Null);
+        return sha.Hash!;
     }
 
     /// <summary>Rows given as arrays (tests, the demo), with the SHA-256 of their CSV text as <see cref="Sha256"/>.</summary>
