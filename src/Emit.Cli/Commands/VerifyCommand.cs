@@ -29,6 +29,8 @@ public sealed class VerifyCommand : ICliCommand
     private readonly Option<bool> _allowModelChange = new("--allow-model-change") { Description = "With --generated: compare the numbers even when the sources were generated from another model (otherwise exit 1 without running them)" };
     private readonly Option<bool> _failOnDecision = new("--fail-on-decision-mismatch") { Description = "Fail a target on any decision that differs from the reference, even one within the error bound" };
     private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates") { Description = "With --generated: the templates folder the sources were compiled with, when they used custom templates", HelpName = "DIR" }.MustExist();
+    private readonly Option<bool> _stream = new("--stream") { Description = "Without --generated: also emit streamed scoring and check walks of flips from each vector (with --generated the manifest says)" };
+    private readonly Option<bool> _explain = new("--explain") { Description = "Without --generated: also emit explanations and check them against the reference explainer" };
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report") { Description = "Also write the JSON report to this file (see docs/verify-report.md)", HelpName = "FILE" };
     private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Also write a JUnit XML report to this file, one testcase per target", HelpName = "FILE" };
@@ -42,7 +44,7 @@ public sealed class VerifyCommand : ICliCommand
     {
         var cmd = new Command("verify", "Run the generated scorer on host C, .NET and an emulated Cortex-M3 and compare it with the reference scorer");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange, _failOnDecision, _templates, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
+        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange, _failOnDecision, _templates, _stream, _explain, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.SetAction(parse => Run(ctx, parse));
@@ -80,6 +82,8 @@ public sealed class VerifyCommand : ICliCommand
             Name = parse.GetValue(_name),
             AllowModelChange = parse.GetValue(_allowModelChange),
             FailOnDecisionMismatch = parse.GetValue(_failOnDecision),
+            Stream = parse.GetValue(_stream),
+            Explain = parse.GetValue(_explain),
             TemplatesDirectory = parse.GetValue(_templates)?.FullName,
             Settings = new RunnerSettings(parse.GetValue(_cc), parse.GetValue(_cflags) ?? "", TimeSpan.FromSeconds(timeout)),
             WorkDirectory = parse.GetValue(_work)?.FullName,

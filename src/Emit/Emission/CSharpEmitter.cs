@@ -9,11 +9,13 @@ public sealed class CSharpEmitter : ITargetEmitter
     public const string FixedTemplate = "scorer-fixed.cs.sbn";
     public const string CommonTemplate = "common.cs.sbn";
     public const string LicenceTemplate = "licence.sbn";
+    public const string StreamTemplate = "stream.cs.sbn";
 
     public string Name => "csharp";
     public string Description => "C# static class (NAME.cs), BCL only";
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = 
+        [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate, StreamTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {

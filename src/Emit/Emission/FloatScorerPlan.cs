@@ -43,6 +43,17 @@ public sealed class FloatScorerPlan : ScorerPlan
     /// </summary>
     public override int StreamResyncFlips => HasStream ? Math.Max(64, Visible) : 0;
 
+    /// <summary>
+    /// Explanations in a float mode: |ΔF computed − exact ΔF| &lt;= this. ΔF = F(flipped) − F(v), with F(v) read from a
+    /// freshly accumulated state and F(flipped) one flip later (each within <see cref="FloatErrorBound.StreamWorst"/>
+    /// of one flip), then one subtraction, whose rounding is at most u·|ΔF| &lt;= u·(|exact ΔF| + 2·bound).
+    /// </summary>
+    public static double ExplainBound(BoltzmannModel model, NumericMode mode)
+    {
+        double one = FloatErrorBound.StreamWorst(model, mode, 1), u = FloatErrorBound.UnitRoundoff(mode);
+        return 2 * one * (1 + u) + u * LargestFlipChange(model);
+    }
+
     /// <summary>max_i |b_i| + Σ_k |L_ik| + Σ_j |W_ij|: no flip changes the exact free energy by more.</summary>
     private static double LargestFlipChange(BoltzmannModel model)
     {
@@ -109,8 +120,7 @@ public sealed class FloatScorerPlan : ScorerPlan
             // ΔF = F(flipped) − F(v): F from a fresh state, F(flipped) one flip later, then one subtraction, whose
             // rounding is at most u·|ΔF| <= u·(|exact ΔF| + 2·bound); |exact ΔF| <= |b_i| + Σ_k |L_ik| + Σ_j |W_ij|
             // (softplus is 1-Lipschitz).
-            double one = FloatErrorBound.StreamWorst(model, mode, 1), u = FloatErrorBound.UnitRoundoff(mode);
-            plan.ExplainErrorBound = 2 * one * (1 + u) + u * LargestFlipChange(model);
+            plan.ExplainErrorBound = ExplainBound(model, mode);
         }
 
         return plan;

@@ -10,4 +10,20 @@ public sealed class CSharpHarnessModel
     public required string Class { get; init; }
 
     public required bool HasThreshold { get; init; }
+
+    /// <summary>True: the harness runs a walk of flips through streamed scoring per input (<see cref="StreamWalk"/>).
+    /// </summary>
+    public bool Stream { get; init; }
+
+    /// <summary>True: the harness asks for an explanation of each input.</summary>
+    public bool Explain { get; init; }
+
+    /// <summary>The C# type of the scorer's result (float, double, int, long).</summary>
+    public string EnergyType { get; init; } = "float";
+
+    public int StreamSteps { get; init; }
+
+    public int StreamFirstRead { get; init; }
+
+    public int ExplainUnits => StreamWalk.ExplainUnits;
 }

@@ -21,4 +21,17 @@ public sealed class HarnessMainModel
 
     /// <summary>Embedded: the inputs as rows of the C table, one per line.</summary>
     public string VectorRows { get; init; } = "";
+
+    /// <summary>True: the harness runs a walk of flips through streamed scoring per input (<see cref="StreamWalk"/>).
+    /// </summary>
+    public bool Stream { get; init; }
+
+    /// <summary>True: the harness asks for an explanation of each input.</summary>
+    public bool Explain { get; init; }
+
+    public int StreamSteps { get; init; }
+
+    public int StreamFirstRead { get; init; }
+
+    public int ExplainUnits => StreamWalk.ExplainUnits;
 }
