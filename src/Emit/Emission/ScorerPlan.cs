@@ -53,6 +53,8 @@ public abstract class ScorerPlan
                 $"{(options.Explain ? Setting.Explain : Setting.Stream).Ref()} supports kinds rbm and lateral, not general " +
                 "(a flip changes the sum over all hidden states as a whole)",
                 $"leave {(options.Explain ? Setting.Explain : Setting.Stream).Ref()} out, or use emit explain on the host");
+        // NAME_stream_reset/_flip/_free_energy and NAME_explain differ within 10 characters after the name, inside the
+        // 31 significant characters of C99 5.2.4.1 for every name Naming.CheckScorerName accepts.
     }
 
     /// <summary>True when the streamed-scoring code is emitted (docs/generated-code.md).</summary>

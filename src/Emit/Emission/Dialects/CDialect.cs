@@ -155,6 +155,15 @@ public sealed class CDialect : TargetDialect
         }
     }
 
+    /// <summary>Predicted extra flash of the stream code on the reference core.</summary>
+    public long StreamFlashBytes => FeatureFootprint.StreamFlash(Plan);
+
+    /// <summary>Predicted extra flash of the explanation code on the reference core.</summary>
+    public long ExplainFlashBytes => FeatureFootprint.ExplainFlash(Plan);
+
+    /// <summary>Predicted worst-case stack of NAME_explain on the reference core.</summary>
+    public int ExplainStackBytes => FeatureFootprint.ExplainStack(Plan, StreamBytes);
+
     /// <summary>Predicted footprint on the reference core of this mode (stated in the header).</summary>
     public ScorerFootprint Footprint => FootprintModel.Predict(Plan);
 
