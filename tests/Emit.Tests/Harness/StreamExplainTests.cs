@@ -128,6 +128,14 @@ public sealed class StreamExplainTests
         Assert.Contains(on.Files, f => f.Text.Contains("m_stream_flip", StringComparison.Ordinal));
         Assert.True(on.Manifest.Explain);
         Assert.True(on.Manifest.HasStream);
+
+        // the manifest round-trips the options, and they rebuild the same sources (what verify --generated does)
+        var read = SourceManifestJson.Read(SourceManifestJson.Write(on.Manifest), "m.emit.json");
+        Assert.True(read.Explain);
+        Assert.False(read.Stream);
+        var again = ScorerCompiler.Compile(model, "m.json", read.ToCompileOptions(["c", "csharp"], null));
+        Assert.Equal(on.Files.Select(f => f.Text), again.Select(f => f.Text));
+        Assert.DoesNotContain("stream", SourceManifestJson.Write(plain.Manifest), StringComparison.Ordinal);
     }
 
     /// <summary>The walk's generator: xorshift32 (13, 17, 5) from Marsaglia's paper, whose first output from seed 1 is 270369 (from memory; 1 → 1^(1&lt;&lt;13) = 8193, ^ (8193 &gt;&gt; 17) = 8193, ^ (8193 &lt;&lt; 5) = 270369 by hand).</summary>
