@@ -2,7 +2,9 @@ using Emit.Emission.Dialects;
 
 namespace Emit.Emission;
 
-/// <summary>C99 target: <c>NAME.h</c> (API, configuration macros) and <c>NAME.c</c> (tables, scoring, self-test).</summary>
+/// <summary>
+/// C99 target: <c>NAME.h</c> (API, configuration macros) and <c>NAME.c</c> (tables, scoring, self-test).
+/// </summary>
 public sealed class CEmitter : ITargetEmitter
 {
     public const string HeaderTemplate = "scorer.h.sbn";
@@ -27,7 +29,9 @@ public sealed class CEmitter : ITargetEmitter
             {
                 d.Register(globals);
                 globals.SetValue("file", fileName, readOnly: true);
-                globals.SetValue("x", plan is FixedScorerPlan f ? new FixedComments(f, d, d.UName + "_ERROR_BOUND") : null, readOnly: true);
+                globals.SetValue("x",
+                    plan is FixedScorerPlan f ? new FixedComments(f, d, d.UName + "_ERROR_BOUND") : null,
+                    readOnly: true);
             });
             return new GeneratedFile(fileName, text, used);
         }

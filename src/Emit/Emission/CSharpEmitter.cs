@@ -13,7 +13,8 @@ public sealed class CSharpEmitter : ITargetEmitter
     public string Name => "csharp";
     public string Description => "C# static class (NAME.cs), BCL only";
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate,
+        LicenceTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {
@@ -23,7 +24,8 @@ public sealed class CSharpEmitter : ITargetEmitter
         {
             d.Register(globals);
             globals.SetValue("file", d.FileName, readOnly: true);
-            globals.SetValue("x", plan is FixedScorerPlan f ? new FixedComments(f, d, "ErrorBound") : null, readOnly: true);
+            globals.SetValue("x", plan is FixedScorerPlan f ? new FixedComments(f, d, "ErrorBound") : null,
+                readOnly: true);
         });
         return [new GeneratedFile(d.FileName, text, used)];
     }

@@ -36,7 +36,8 @@ public sealed record CompileOptions(
         if (Numeric == NumericMode.Fixed)
         {
             var f = FixedOptions;
-            text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+            text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} " +
+                $"--softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
         }
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
