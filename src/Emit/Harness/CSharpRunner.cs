@@ -13,7 +13,8 @@ public sealed class CSharpRunner : ITargetRunner
 
     public void CheckTools(RunnerSettings settings) => CSharpProject.RequireDotnet(Name);
 
-    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings, string workDirectory, out string failure)
+    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
+        string workDirectory, out string failure)
     {
         var files = new Dictionary<string, string>
         {
@@ -22,6 +23,7 @@ public sealed class CSharpRunner : ITargetRunner
         };
         var dll = CSharpProject.Build(workDirectory, files, new CSharpProject.Settings(), settings.Limit, out failure);
         if (dll is null) return null;
-        return ProcessSession.Start(CSharpProject.RequireDotnet(Name), [dll], workDirectory, layout, settings.Limit, "the C# harness", out failure);
+        return ProcessSession.Start(CSharpProject.RequireDotnet(Name), [dll], workDirectory, layout, settings.Limit,
+            "the C# harness", out failure);
     }
 }

@@ -5,9 +5,9 @@ using System.Xml;
 namespace Emit.Harness;
 
 /// <summary>
-/// The JUnit XML report CI servers read: one <c>testsuites</c> holding one <c>testsuite</c> with one <c>testcase</c> per
-/// target; a failed target has a <c>failure</c> element whose message is the first reason and whose text lists them all.
-/// The model and its SHA-256 go into the suite's <c>properties</c>.
+/// The JUnit XML report CI servers read: one <c>testsuites</c> holding one <c>testsuite</c> with one <c>testcase</c>
+/// per target; a failed target has a <c>failure</c> element whose message is the first reason and whose text lists them
+/// all. The model and its SHA-256 go into the suite's <c>properties</c>.
 /// </summary>
 public static class ReportJUnit
 {
@@ -70,9 +70,12 @@ public static class ReportJUnit
     {
         var inv = CultureInfo.InvariantCulture;
         string G(double? x) => x is { } v ? v.ToString("G4", inv) : "-";
-        return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound {G(t.ErrorBound)} nats, " +
-               $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches {t.DecisionMismatches} " +
-               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash {(t.ModelHashMatches ? "matches" : "DIFFERS")}" +
+        return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound " +
+            $"{G(t.ErrorBound)} nats, " +
+               $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches " +
+               $"{t.DecisionMismatches} " +
+               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash " +
+               $"{(t.ModelHashMatches ? "matches" : "DIFFERS")}" +
                (t.SourcesMatch is { } match ? $", sources {(match ? "as generated" : "NOT as generated")}" : "") +
                (t.Compared ? "" : ", numbers not compared");
     }
@@ -91,7 +94,8 @@ public static class ReportJUnit
         var sb = new StringBuilder(text.Length);
         for (int i = 0; i < text.Length; i++)
         {
-            if (i + 1 < text.Length && XmlConvert.IsXmlSurrogatePair(text[i + 1], text[i])) sb.Append(text[i]).Append(text[++i]);
+            if (i + 1 < text.Length && XmlConvert.IsXmlSurrogatePair(text[i + 1], text[i]))
+                sb.Append(text[i]).Append(text[++i]);
             else if (XmlConvert.IsXmlChar(text[i]) && (text[i] >= ' ' || text[i] is '\n' or '\t')) sb.Append(text[i]);
         }
         return sb.ToString();

@@ -3,7 +3,8 @@ namespace Emit.Harness;
 /// <summary>The one table of verification targets; the command line lists and validates targets from it.</summary>
 public static class Runners
 {
-    public static readonly IReadOnlyList<ITargetRunner> All = [new HostCRunner(), new CSharpRunner(), new CortexM3Runner()];
+    public static readonly IReadOnlyList<ITargetRunner> All = [new HostCRunner(), new CSharpRunner(),
+        new CortexM3Runner()];
 
     /// <summary>The runner named <paramref name="name"/>, or null.</summary>
     public static ITargetRunner? Find(string name) => All.FirstOrDefault(t => t.Name == name);

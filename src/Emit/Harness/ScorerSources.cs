@@ -80,7 +80,8 @@ public sealed class ScorerSources
                 throw System.IO.Directory.GetFiles(directory, "*" + ext).Length > 0
                     ? NoManifest(directory, language, null)
                     : new EmitException($"no generated scorer here (no {SourceManifest.FileNameFor("NAME")} manifest)",
-                        $"run emit compile --target {language} --out {directory}, or pass {Setting.Name.Ref()}", directory);
+                        $"run emit compile --target {language} --out {directory}, or pass {Setting.Name.Ref()}",
+                        directory);
             }
             name = candidates.Count == 1 ? candidates[0]
                 : candidates.Contains(defaultName) ? defaultName

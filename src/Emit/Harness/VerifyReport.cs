@@ -35,6 +35,7 @@ public sealed record VerifyReport
     public bool Passed => Targets.Count > 0 && Targets.All(t => t.Passed);
 
     public const string Caution =
-        "A monitoring aid, not a safety function: this report compares generated code with the reference scorer; it does not " +
+        "A monitoring aid, not a safety function: this report compares generated code with the reference scorer; it " +
+        "does not " +
         "show that the model detects what matters for the plant. Defer to local codes and licensed practice.";
 }

@@ -29,7 +29,10 @@ public sealed record VerifyRequest
     /// <summary>Folder of existing generated sources to check; null: generate into the work folder.</summary>
     public string? GeneratedDirectory { get; init; }
 
-    /// <summary>Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an identifier.</summary>
+    /// <summary>
+    /// Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an
+    /// identifier.
+    /// </summary>
     public string? Name { get; init; }
 
     /// <summary>
@@ -38,10 +41,14 @@ public sealed record VerifyRequest
     /// </summary>
     public bool AllowModelChange { get; init; }
 
-    /// <summary>Fail a target on any decision that differs from the reference, even one the error bound explains.</summary>
+    /// <summary>
+    /// Fail a target on any decision that differs from the reference, even one the error bound explains.
+    /// </summary>
     public bool FailOnDecisionMismatch { get; init; }
 
-    /// <summary>The templates folder of sources generated with custom templates (needed to regenerate and compare them).</summary>
+    /// <summary>
+    /// The templates folder of sources generated with custom templates (needed to regenerate and compare them).
+    /// </summary>
     public string? TemplatesDirectory { get; init; }
 
     public RunnerSettings Settings { get; init; } = new();
