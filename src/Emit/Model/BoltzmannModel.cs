@@ -81,7 +81,8 @@ public sealed class BoltzmannModel
 
     /// <summary>A copy with other threshold / log partition values.</summary>
     public BoltzmannModel With(double? threshold, LogPartition? logPartition) =>
-        new(Kind, Visible, Hidden, VisibleBias, HiddenBias, Weights, VisibleLinks, HiddenLinks, Names, threshold, logPartition, MetadataJson);
+        new(Kind, Visible, Hidden, VisibleBias, HiddenBias, Weights, VisibleLinks, HiddenLinks, Names, threshold,
+            logPartition, MetadataJson);
 
     private void Validate()
     {
@@ -90,7 +91,9 @@ public sealed class BoltzmannModel
         if (Hidden < 0 || Hidden > ModelLimits.MaxUnits)
             throw new EmitException($"hidden = {Hidden} is out of range", $"use 0 to {ModelLimits.MaxUnits}");
         if ((long)Visible * Hidden > ModelLimits.MaxWeights)
-            throw new EmitException($"visible × hidden = {(long)Visible * Hidden} weights is more than the {ModelLimits.MaxWeights} allowed");
+            throw new EmitException(
+                $"visible × hidden = {(long)Visible * Hidden} weights is more than the {ModelLimits.MaxWeights} " +
+                "allowed");
         CheckLength("visible_bias", VisibleBias.Length, Visible);
         CheckLength("hidden_bias", HiddenBias.Length, Hidden);
         CheckLength("weights", Weights.Length, Visible * Hidden);

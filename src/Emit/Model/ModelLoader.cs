@@ -1,6 +1,8 @@
 namespace Emit.Model;
 
-/// <summary>Loads a model from a <c>.json</c> model file or an <c>.npz</c> array archive, chosen by extension.</summary>
+/// <summary>
+/// Loads a model from a <c>.json</c> model file or an <c>.npz</c> array archive, chosen by extension.
+/// </summary>
 public static class ModelLoader
 {
     public static BoltzmannModel Load(string path)
