@@ -4,6 +4,8 @@ namespace Emit.Detection;
 public static class DetectionCaution
 {
     public const string Text =
-        "a monitoring aid, not a safety function or protective interlock: a threshold calibrated on past data says how " +
-        "often normal operation crossed it then, not that a fault will be caught; defer to local codes and licensed practice.";
+        "a monitoring aid, not a safety function or protective interlock: a threshold calibrated on past data says " +
+        "how " +
+        "often normal operation crossed it then, not that a fault will be caught; defer to local codes and licensed " +
+        "practice.";
 }
