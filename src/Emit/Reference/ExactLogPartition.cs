@@ -32,7 +32,8 @@ public static class ExactLogPartition
         return perBlock * sum.Blocks / Math.Max(1, Environment.ProcessorCount);
     }
 
-    public static LogPartitionResult Compute(BoltzmannModel model, IProgress<long>? progress = null, CancellationToken cancel = default)
+    public static LogPartitionResult Compute(BoltzmannModel model, IProgress<long>? progress = null,
+        CancellationToken cancel = default)
     {
         var plan = Plan(model);
         var sw = Stopwatch.StartNew();
@@ -41,7 +42,8 @@ public static class ExactLogPartition
         return new LogPartitionResult(logZ, sum.States, sw.Elapsed.TotalSeconds, plan.Description);
     }
 
-    private sealed record EnumerationPlan(int EnumeratedUnits, string Description, Func<GrayCodeSum> Build, double Offset = 0);
+    private sealed record EnumerationPlan(int EnumeratedUnits, string Description, Func<GrayCodeSum> Build,
+        double Offset = 0);
 
     private static EmitException TooLarge(string what, int units, int limit) =>
         new($"exact log Z would enumerate 2^{units} {what} states, more than the 2^{limit} allowed",

@@ -75,9 +75,12 @@ public sealed class ReferenceScorer
 
     /// <summary>log p(v) = −F(v) − log Z; needs the model's stored log partition.</summary>
     public double LogProbability(double freeEnergy) =>
-        -freeEnergy - (_model.LogPartition?.Value ?? throw new EmitException("the model has no log_partition", "run emit logz and store it"));
+        -freeEnergy - (_model.LogPartition?.Value
+            ?? throw new EmitException("the model has no log_partition", "run emit logz and store it"));
 
-    /// <summary>Scores <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>, in parallel.</summary>
+    /// <summary>
+    /// Scores <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>, in parallel.
+    /// </summary>
     public void FreeEnergies(ReadOnlySpan<byte> units, int rows, Span<double> result)
     {
         int v = _model.Visible;

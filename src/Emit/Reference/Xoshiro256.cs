@@ -18,7 +18,9 @@ public sealed class Xoshiro256
         _s3 = SplitMix64(ref x);
     }
 
-    /// <summary>One SplitMix64 step (Steele, Lea and Flood 2014): advances <paramref name="x"/> and returns the output.</summary>
+    /// <summary>
+    /// One SplitMix64 step (Steele, Lea and Flood 2014): advances <paramref name="x"/> and returns the output.
+    /// </summary>
     public static ulong SplitMix64(ref ulong x)
     {
         ulong z = x += 0x9E3779B97F4A7C15UL;
