@@ -7,7 +7,8 @@ namespace Emit;
 /// </summary>
 public sealed class EmitException : Exception
 {
-    public EmitException(string problem, string? hint = null, string? file = null, long? line = null, long? column = null, Exception? inner = null)
+    public EmitException(string problem, string? hint = null, string? file = null, long? line = null,
+        long? column = null, Exception? inner = null)
         : base(problem, inner)
     {
         _problem = problem;
@@ -34,7 +35,10 @@ public sealed class EmitException : Exception
     public EmitException InFile(string file) =>
         File is null ? new EmitException(_problem, _hint, file, Line, Column, InnerException) : this;
 
-    /// <summary>A copy of this error placed at <paramref name="line"/> and <paramref name="column"/> of <paramref name="file"/> when it had no place yet.</summary>
+    /// <summary>
+    /// A copy of this error placed at <paramref name="line"/> and <paramref name="column"/> of <paramref name="file"/>
+    /// when it had no place yet.
+    /// </summary>
     public EmitException At(string file, long line, long? column) =>
         Line is null ? new EmitException(_problem, _hint, File ?? file, line, column, InnerException) : this;
 

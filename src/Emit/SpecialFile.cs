@@ -2,7 +2,9 @@ using Mono.Unix;
 
 namespace Emit;
 
-/// <summary>What kind of file system entry a path names; .NET's <see cref="FileInfo"/> calls a FIFO or a device a normal file.</summary>
+/// <summary>
+/// What kind of file system entry a path names; .NET's <see cref="FileInfo"/> calls a FIFO or a device a normal file.
+/// </summary>
 public enum SpecialFileKind
 {
     Missing,
@@ -23,7 +25,8 @@ public static class SpecialFile
         {
             var info = new FileInfo(path);
             if (Directory.Exists(path)) return SpecialFileKind.Directory;
-            if (info.LinkTarget is not null) return followLinks && File.Exists(path) ? SpecialFileKind.RegularFile : SpecialFileKind.Link;
+            if (info.LinkTarget is not null)
+                return followLinks && File.Exists(path) ? SpecialFileKind.RegularFile : SpecialFileKind.Link;
             return info.Exists ? SpecialFileKind.RegularFile : SpecialFileKind.Missing;
         }
         UnixFileSystemInfo entry = followLinks ? new UnixFileInfo(path) : new UnixSymbolicLinkInfo(path);

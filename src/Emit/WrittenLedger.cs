@@ -13,7 +13,9 @@ public static class WrittenLedger
 {
     public const string FileName = ".emit-written";
 
-    /// <summary>True when <paramref name="path"/> is recorded in its folder's ledger with its current content's hash.</summary>
+    /// <summary>
+    /// True when <paramref name="path"/> is recorded in its folder's ledger with its current content's hash.
+    /// </summary>
     public static bool Matches(string path)
     {
         var full = Path.GetFullPath(path);
