@@ -8,16 +8,16 @@ namespace Emit.Cli;
 /// </summary>
 public sealed class FixedPointOptionSet
 {
-    public readonly Option<Chosen<WeightType>> Weights = CliOptions.Choice(
+    public Option<Chosen<WeightType>> Weights { get; } = CliOptions.Choice(
         "--weights", "Fixed point: weight width",
         [("int8", WeightType.Int8), ("int16", WeightType.Int16), ("int32", WeightType.Int32)], "int16");
 
-    public readonly Option<Chosen<AccumulatorType?>> Accumulator = CliOptions.Choice<AccumulatorType?>(
+    public Option<Chosen<AccumulatorType?>> Accumulator { get; } = CliOptions.Choice<AccumulatorType?>(
         "--accumulator",
         "Fixed point: accumulator width (auto picks int32 whenever it is proved not to overflow and loses nothing)",
         [("auto", null), ("int32", AccumulatorType.Int32), ("int64", AccumulatorType.Int64)], "auto");
 
-    public readonly Option<int> SoftplusTable = CliOptions.Number(
+    public Option<int> SoftplusTable { get; } = CliOptions.Number(
         "--softplus-table",
         $"Fixed point: segments of the interpolated softplus table (a power of two, {FixedPointOptions.MinTableSize} " +
         $"to {FixedPointOptions.MaxTableSize})",

@@ -169,7 +169,7 @@ public sealed class TrainCommand : ICliCommand
         try
         {
             result = bar
-                ? WithBar(log, data, validation, settings, cts.Token, e => lastEpoch = e)
+                ? WithBar(log, data, validation, settings, e => lastEpoch = e, cts.Token)
                 : Trainer.Train(data, settings, validation, r => { lastEpoch = r.Epoch; log.WriteLine(Line(r)); },
                     cts.Token);
         }
@@ -232,7 +232,7 @@ public sealed class TrainCommand : ICliCommand
     }
 
     private static TrainingResult WithBar(TextWriter log, TrainingData data, TrainingData? validation,
-        TrainerSettings settings, CancellationToken cancel, Action<int> epochDone)
+        TrainerSettings settings, Action<int> epochDone, CancellationToken cancel)
     {
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(log) });
         TrainingResult? result = null;

@@ -1,3 +1,5 @@
+using System.Diagnostics.CodeAnalysis;
+
 namespace Emit.Detection;
 
 /// <summary>
@@ -57,5 +59,6 @@ public sealed class CalibrationReport
     public IReadOnlyList<double>? AnomalyEnergies { get; init; }
 
     /// <summary>The caution that goes with every calibration.</summary>
+    [SuppressMessage("Performance", "CA1822", Justification = "part of the report, read beside its other facts")]
     public string Caution => DetectionCaution.Text;
 }

@@ -51,7 +51,8 @@ public static class ReportJUnit
             if (!t.Passed)
             {
                 w.WriteStartElement("failure");
-                w.WriteAttributeString("message", Clean(t.Failures.FirstOrDefault() ?? "failed").Split('\n')[0]);
+                var first = t.Failures.Count > 0 ? t.Failures[0] : "failed";
+                w.WriteAttributeString("message", Clean(first).Split('\n')[0]);
                 w.WriteAttributeString("type", "emit.verify.mismatch");
                 w.WriteString(Clean(string.Join("\n", t.Failures)));
                 w.WriteEndElement();

@@ -1,3 +1,4 @@
+using System.Diagnostics.CodeAnalysis;
 using System.Text.Json;
 
 namespace Emit.Model;
@@ -14,6 +15,7 @@ public ref struct JsonCursor
     private readonly string _whole;
 
     /// <summary>The underlying reader, for token values the helpers below do not cover.</summary>
+    [SuppressMessage("Design", "CA1051", Justification = "a mutable struct: a property would hand out copies")]
     public Utf8JsonReader R;
 
     /// <param name="utf8">The file's bytes (a leading byte-order mark must already be removed).</param>

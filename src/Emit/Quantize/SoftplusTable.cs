@@ -127,7 +127,7 @@ public sealed class SoftplusTable
     public ErrorInterval GError(Int128 mMin, Int128 mMax, int inputFractionBits)
     {
         if (mMin > mMax) return ErrorInterval.Empty;
-        if (mMin < 0) throw new ArgumentOutOfRangeException(nameof(mMin));
+        ArgumentOutOfRangeException.ThrowIfNegative(mMin);
         int f = inputFractionBits, d = IndexShift(f);
         if (d < 0) throw new InvalidOperationException("input format coarser than the table step");
         Int128 p = Limit(f);
@@ -161,7 +161,7 @@ public sealed class SoftplusTable
     /// </summary>
     public long LookupG(long m, int inputFractionBits)
     {
-        if (m < 0) throw new ArgumentOutOfRangeException(nameof(m));
+        ArgumentOutOfRangeException.ThrowIfNegative(m);
         int d = IndexShift(inputFractionBits);
         if (m >= Limit(inputFractionBits)) return 0;
         int k = (int)(m >> d);

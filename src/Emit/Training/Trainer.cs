@@ -40,6 +40,7 @@ public static class Trainer
         if (validation is not null && validation.Width != data.Width)
             throw new EmitException($"validation rows have {validation.Width} values, the training rows {data.Width}",
                 null, validation.Source);
-        return new TrainingRun(data, validation, settings).Execute(progress, cancel);
+        using var run = new TrainingRun(data, validation, settings);
+        return run.Execute(progress, cancel);
     }
 }

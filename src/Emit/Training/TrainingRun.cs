@@ -5,7 +5,7 @@ using Emit.Model;
 namespace Emit.Training;
 
 /// <summary>The state of one <see cref="Trainer.Train"/> call (split by concern into partial files).</summary>
-internal sealed partial class TrainingRun
+internal sealed partial class TrainingRun : IDisposable
 {
     /// <summary>Visible biases start at log(p / (1 - p)) with p clipped to this distance from 0 and 1.</summary>
     internal const double MarginalClip = 0.001;
@@ -76,6 +76,9 @@ internal sealed partial class TrainingRun
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
         PrepareEvaluation();
     }
+
+    /// <summary>Releases the per-thread scratch rows.</summary>
+    public void Dispose() => _rowScratch.Dispose();
 
     public ImmutableArray<int> ConstantUnits { get; }
 

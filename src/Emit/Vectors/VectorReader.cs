@@ -1,3 +1,4 @@
+using System.Buffers;
 using System.Collections.Immutable;
 using System.Text;
 
@@ -27,6 +28,11 @@ namespace Emit.Vectors;
 /// </summary>
 public sealed class VectorReader : IDisposable
 {
+    /// <summary>The bytes of a decimal number: digits, point, exponent and signs.</summary>
+    private static readonly SearchValues<byte> NumberBytes = SearchValues.Create("0123456789.eE+-"u8);
+    private static readonly SearchValues<char> NumberChars = SearchValues.Create("0123456789.eE+-");
+    private static readonly SearchValues<char> DigitChars = SearchValues.Create("0123456789");
+
     /// <summary>The path that means standard input.</summary>
     public const string StdinPath = "-";
 
@@ -114,7 +120,7 @@ public sealed class VectorReader : IDisposable
             {
                 var token = first[s..e];
                 allBinary &= token.Length == 1 && token[0] is (byte)'0' or (byte)'1';
-                allNumeric &= token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0;
+                allNumeric &= token.IndexOfAnyExcept(NumberBytes) < 0;
                 fromZero &= IsInteger(token, count);
                 fromOne &= IsInteger(token, count + 1);
                 anyValueLike |= LooksLikeValue(token);
@@ -359,7 +365,7 @@ public sealed class VectorReader : IDisposable
             hint = "values in this file are separated by spaces (set by its first line); use one separator throughout";
         else if (token.Length > 1 && token.IndexOfAnyExcept("01"u8) < 0)
             hint = "values must be separated by commas or spaces";
-        else if (token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0)
+        else if (token.IndexOfAnyExcept(NumberBytes) < 0)
             hint = "write each value as the integer 0 or 1 (e.g. np.savetxt(f, X, fmt='%d', delimiter=','))";
         else
             hint = "each value must be 0 or 1";
@@ -384,7 +390,7 @@ public sealed class VectorReader : IDisposable
         while (b > a && Blank(text[b - 1])) b--;
         var core = text[a..b];
         if (core.IsEmpty) return false;
-        if (core.IndexOfAnyExcept("0123456789.eE+-") < 0 && core.IndexOfAny("0123456789") >= 0) return true;
+        if (core.IndexOfAnyExcept(NumberChars) < 0 && core.IndexOfAny(DigitChars) >= 0) return true;
         foreach (var word in (ReadOnlySpan<string>)["true", "false", "yes", "no"])
             if (core.Equals(word, StringComparison.OrdinalIgnoreCase)) return true;
         return false;
