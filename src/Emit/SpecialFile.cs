@@ -7,10 +7,15 @@ namespace Emit;
 /// </summary>
 public enum SpecialFileKind
 {
+    /// <summary>Nothing at the path.</summary>
     Missing,
+    /// <summary>A regular file.</summary>
     RegularFile,
+    /// <summary>A directory.</summary>
     Directory,
+    /// <summary>A symbolic link (not followed).</summary>
     Link,
+    /// <summary>A character device such as /dev/zero.</summary>
     CharacterDevice,
     /// <summary>A FIFO, socket or block device.</summary>
     Other,
@@ -19,6 +24,9 @@ public enum SpecialFileKind
 /// <summary>Tells regular files from devices, FIFOs and links (lstat through Mono.Unix on Unix).</summary>
 public static class SpecialFile
 {
+    /// <summary>
+    /// What <paramref name="path"/> names; <paramref name="followLinks"/> looks through a symbolic link.
+    /// </summary>
     public static SpecialFileKind KindOf(string path, bool followLinks)
     {
         if (OperatingSystem.IsWindows())

@@ -11,6 +11,7 @@ namespace Emit;
 /// </summary>
 public static class WrittenLedger
 {
+    /// <summary>Name of the ledger file in each folder emit writes to.</summary>
     public const string FileName = ".emit-written";
 
     /// <summary>

@@ -35,6 +35,7 @@ public sealed record ModelDiffReport(
     public sealed record DecisionCounts(long BothUsual, long BothUnusual, long NewlyUnusual, long NoLongerUnusual,
         IReadOnlyList<long> FirstChanged)
     {
+        /// <summary>Vectors whose decision changed, either way.</summary>
         public long Changed => NewlyUnusual + NoLongerUnusual;
     }
 }

@@ -16,6 +16,9 @@ public sealed record AlarmFilterSpec
     /// <summary>No filtering: every unusual report raises the alarm.</summary>
     public static AlarmFilterSpec None { get; } = new(1, 1);
 
+    /// <summary>
+    /// A filter raising an alarm when <paramref name="k"/> of the last <paramref name="n"/> reports are unusual.
+    /// </summary>
     public AlarmFilterSpec(int k, int n)
     {
         if (n < 1 || n > MaxN || k < 1 || k > n)
@@ -43,5 +46,6 @@ public sealed record AlarmFilterSpec
             $"write it like 3/5 (K of the last N reports unusual), 1 <= K <= N <= {MaxN}");
     }
 
+    /// <summary>The spec as written on the command line, "K/N".</summary>
     public override string ToString() => $"{K}/{N}";
 }

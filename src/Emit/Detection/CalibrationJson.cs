@@ -5,6 +5,9 @@ namespace Emit.Detection;
 /// <summary>The calibration as one JSON object (field list in docs/calibrate.md).</summary>
 public static class CalibrationJson
 {
+    /// <summary>
+    /// Writes the calibration report <paramref name="r"/> of the data named in <paramref name="s"/> as JSON.
+    /// </summary>
     public static void Write(Utf8JsonWriter w, CalibrationReport r, CalibrationSource s)
     {
         ArgumentNullException.ThrowIfNull(w);

@@ -13,6 +13,9 @@ public static class CalibrationText
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
+    /// <summary>
+    /// Writes the calibration report <paramref name="r"/> of the data named in <paramref name="s"/> as text.
+    /// </summary>
     public static void Write(TextWriter o, CalibrationReport r, CalibrationSource s)
     {
         ArgumentNullException.ThrowIfNull(o);

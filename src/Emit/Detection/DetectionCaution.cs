@@ -3,6 +3,7 @@ namespace Emit.Detection;
 /// <summary>The caution every calibration output carries (text, JSON, plot), worded as elsewhere in emit.</summary>
 public static class DetectionCaution
 {
+    /// <summary>The caution printed with every threshold and detection result.</summary>
     public const string Text =
         "a monitoring aid, not a safety function or protective interlock: a threshold calibrated on past data says " +
         "how " +

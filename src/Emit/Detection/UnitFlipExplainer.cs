@@ -23,6 +23,7 @@ public sealed class UnitFlipExplainer
     private readonly (int Other, double W)[][] _neighbours;
     private readonly double[]? _hiddenPairs;
 
+    /// <summary>An explainer for <paramref name="model"/> (its hidden layer summed out once per call).</summary>
     public UnitFlipExplainer(BoltzmannModel model)
     {
         ArgumentNullException.ThrowIfNull(model);
@@ -50,6 +51,7 @@ public sealed class UnitFlipExplainer
         }
     }
 
+    /// <summary>The model explained.</summary>
     public BoltzmannModel Model => _model;
 
     /// <summary>ΔF_i for every visible unit of <paramref name="units"/> (one byte per unit, nonzero = on).</summary>

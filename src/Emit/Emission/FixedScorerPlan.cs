@@ -23,9 +23,13 @@ public sealed class FixedScorerPlan : ScorerPlan
     /// <summary>The quantization plan the scorer executes.</summary>
     public FixedPointPlan Fixed { get; }
 
+    /// <summary>Width of the integer accumulator.</summary>
     public AccumulatorType Accumulator => Fixed.Accumulator;
+    /// <summary>Width of the stored weights.</summary>
     public WeightType WeightType => Fixed.WeightType;
+    /// <summary>Bits of the accumulator (32 or 64).</summary>
     public int AccumulatorBits => Fixed.Accumulator.Bits();
+    /// <summary>Bits of a stored weight (8, 16 or 32).</summary>
     public int WeightBits => Fixed.WeightType.Bits();
 
     /// <summary>E: fraction bits of the energy; real free energy = value / 2^E.</summary>

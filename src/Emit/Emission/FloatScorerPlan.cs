@@ -24,7 +24,9 @@ public sealed class FloatScorerPlan : ScorerPlan
     /// <inheritdoc/>
     public override int RowsPerAddition => 2;
 
+    /// <summary>Visible biases b, rounded to the mode.</summary>
     public ImmutableArray<double> VisibleBias { get; private set; }
+    /// <summary>Hidden biases c, rounded to the mode.</summary>
     public ImmutableArray<double> HiddenBias { get; private set; }
 
     /// <summary>
@@ -38,6 +40,7 @@ public sealed class FloatScorerPlan : ScorerPlan
     /// <summary>general: M as a full symmetric H×H matrix with zero diagonal.</summary>
     public ImmutableArray<double> HiddenPairs { get; private set; }
 
+    /// <summary>The decision threshold on F(v), rounded to the mode, or null when the model has none.</summary>
     public double? Threshold { get; private set; }
 
     /// <summary>

@@ -62,15 +62,21 @@ public abstract class ScorerPlan
                 $"generated code allows hidden <= {MaxHidden} (128 KiB of accumulators); see docs/generated-code.md");
     }
 
+    /// <summary>The model the scorer is planned for.</summary>
     public BoltzmannModel Model { get; }
+    /// <summary>The compile options the plan follows.</summary>
     public CompileOptions Options { get; }
+    /// <summary>The numeric mode (f32, f64 or fixed).</summary>
     public NumericMode Mode => Options.Numeric;
 
     /// <summary>The model's file name (not path), as given; sanitise before printing.</summary>
     public string ModelLabel { get; }
 
+    /// <summary>Visible units: the length of an input vector.</summary>
     public int Visible => Model.Visible;
+    /// <summary>Hidden units.</summary>
     public int Hidden => Model.Hidden;
+    /// <summary>Bytes of a packed input (eight units per byte, unit 0 in the low bit of byte 0).</summary>
     public int PackedBytes => (Model.Visible + 7) / 8;
 
     /// <summary>Mask of the used bits of the last packed byte; 0xFF when all eight are units.</summary>
@@ -81,7 +87,9 @@ public abstract class ScorerPlan
     /// LinkStart[i] .. LinkStart[i+1]−1 of <see cref="LinkOther"/> (and of the mode's link weights).
     /// </summary>
     public ImmutableArray<int> LinkStart { get; }
+    /// <summary>The lower unit of each lateral link, grouped as <see cref="LinkStart"/> says.</summary>
     public ImmutableArray<int> LinkOther { get; }
+    /// <summary>Number of lateral links.</summary>
     public int LinkCount => LinkOther.Length;
 
     /// <summary>The higher unit of each link, in the order of <see cref="LinkOther"/>.</summary>
@@ -93,6 +101,7 @@ public abstract class ScorerPlan
     /// <summary>|F_generated(v) − F_exact(v)| &lt;= this for every input (nats).</summary>
     public double ErrorBound { get; private protected set; }
 
+    /// <summary>Inputs and expected results of the boot self-test compiled into the scorer.</summary>
     public IReadOnlyList<SelfTestCase> SelfTest { get; private protected set; } = [];
 
     /// <summary>general: log2 of the Gray-code block size (scores are recomputed at every block start).</summary>
@@ -155,6 +164,7 @@ public abstract class ScorerPlan
     /// </summary>
     public abstract int RowsPerAddition { get; }
 
+    /// <summary>Version of emit written into every generated file (major.minor.patch).</summary>
     public static string ToolVersion
     {
         get

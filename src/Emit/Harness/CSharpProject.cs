@@ -19,6 +19,7 @@ public static class CSharpProject
     public sealed record Settings(string? TargetFramework = null, string? LangVersion = null,
         bool WarningsAsErrors = false, bool Library = false);
 
+    /// <summary>Assembly name of the temporary harness project.</summary>
     public const string AssemblyName = "EmitHarness";
 
     private static readonly Tool Dotnet = new("dotnet", "dotnet-sdk-10.0", ".NET SDK");

@@ -7,12 +7,17 @@ namespace Emit.Harness;
 /// </summary>
 public sealed class CSharpRunner : ITargetRunner
 {
+    /// <inheritdoc/>
     public string Name => "csharp";
+    /// <inheritdoc/>
     public string Description => "generated C# built with dotnet build in a temporary project";
+    /// <inheritdoc/>
     public string Language => "csharp";
 
+    /// <inheritdoc/>
     public void CheckTools(RunnerSettings settings) => CSharpProject.RequireDotnet(Name);
 
+    /// <inheritdoc/>
     public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
         string workDirectory, out string failure)
     {

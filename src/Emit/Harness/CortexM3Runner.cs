@@ -16,15 +16,19 @@ public sealed class CortexM3Runner : ITargetRunner
     /// <summary>Most inputs in one image.</summary>
     public const int MaxImageInputs = 4096;
 
+    /// <inheritdoc/>
     public string Name => "cortex-m3";
+    /// <inheritdoc/>
     public string Description =>
         "generated C99 cross-compiled for Cortex-M3 and run on qemu-system-arm (mps2-an385) with semihosting";
+    /// <inheritdoc/>
     public string Language => "c";
 
     internal static readonly Tool Gcc = new("arm-none-eabi-gcc", "gcc-arm-none-eabi", "cross compiler");
     internal static readonly Tool Qemu = new("qemu-system-arm", "qemu-system-arm", "emulator");
     internal const string NewlibPackage = "libnewlib-arm-none-eabi";
 
+    /// <inheritdoc/>
     public void CheckTools(RunnerSettings settings)
     {
         var gcc = Gcc.Require(Name);
@@ -40,6 +44,7 @@ public sealed class CortexM3Runner : ITargetRunner
     public static int ImageInputs(int packedBytes) =>
         Math.Clamp(MaxImageInputBytes / Math.Max(1, packedBytes), 1, MaxImageInputs);
 
+    /// <inheritdoc/>
     public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
         string workDirectory, out string failure)
     {

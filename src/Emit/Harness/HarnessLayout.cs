@@ -7,6 +7,7 @@ namespace Emit.Harness;
 /// <param name="EnergyBytes">Bytes of the scorer's energy type: 4 (float, int32) or 8 (double, int64).</param>
 public sealed record HarnessLayout(int Visible, int EnergyBytes)
 {
+    /// <summary>Bytes of a packed input vector (eight units per byte).</summary>
     public int PackedBytes => (Visible + 7) / 8;
 
     /// <summary>The first line every harness writes.</summary>

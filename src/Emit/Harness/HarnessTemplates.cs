@@ -7,10 +7,15 @@ namespace Emit.Harness;
 /// <summary>Lays out the harness sources from the shipped templates in <c>templates/harness/</c>.</summary>
 public static class HarnessTemplates
 {
+    /// <summary>The folder under templates/ holding the harness templates.</summary>
     public const string Folder = "harness";
+    /// <summary>Template of the C harness main.</summary>
     public const string MainTemplate = "main.c.sbn";
+    /// <summary>Template of the C# harness program.</summary>
     public const string ProgramTemplate = "Program.cs.sbn";
+    /// <summary>Template of the Cortex-M3 start-up code.</summary>
     public const string StartupTemplate = "startup-cortex-m3.c.sbn";
+    /// <summary>Template of the Cortex-M3 linker script.</summary>
     public const string LinkerTemplate = "cortex-m3.ld.sbn";
 
     /// <summary>qemu's exit status when the Cortex-M3 image takes a fault.</summary>
@@ -72,12 +77,14 @@ public static class HarnessTemplates
             HasThreshold = sources.HasThreshold,
         });
 
+    /// <summary>The Cortex-M3 start-up source, written as <paramref name="fileName"/>.</summary>
     public static string Startup(string fileName) => Renderer.Render(Folder, StartupTemplate, new StartupModel
     {
         FileName = fileName,
         FaultStatus = FaultStatus,
     });
 
+    /// <summary>The Cortex-M3 linker script, written as <paramref name="fileName"/>.</summary>
     public static string LinkerScript(string fileName) => Renderer.Render(Folder, LinkerTemplate, new StartupModel
     {
         FileName = fileName,

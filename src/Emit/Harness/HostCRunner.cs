@@ -7,12 +7,16 @@ namespace Emit.Harness;
 /// </summary>
 public sealed class HostCRunner : ITargetRunner
 {
+    /// <inheritdoc/>
     public string Name => "c";
+    /// <inheritdoc/>
     public string Description => "generated C99 built with the host C compiler and the strict flags";
+    /// <inheritdoc/>
     public string Language => "c";
 
     private static Tool Compiler(RunnerSettings settings) => new(settings.HostCompiler().Program, "gcc", "C compiler");
 
+    /// <inheritdoc/>
     public void CheckTools(RunnerSettings settings) =>
         Compiler(settings).Require(Name, $"pass {Setting.CCompiler.Ref()} PATH");
 
@@ -47,6 +51,7 @@ public sealed class HostCRunner : ITargetRunner
         return exe;
     }
 
+    /// <inheritdoc/>
     public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
         string workDirectory, out string failure)
     {

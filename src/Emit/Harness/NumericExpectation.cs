@@ -26,6 +26,7 @@ public sealed class NumericExpectation
         ThresholdAllowance = thresholdAllowance;
     }
 
+    /// <summary>The numeric mode of the generated code.</summary>
     public NumericMode Mode { get; }
 
     /// <summary>How coefficients are stored: f32 or f64 in the float modes, int8/int16/int32 in fixed mode.</summary>
@@ -57,6 +58,7 @@ public sealed class NumericExpectation
     /// <summary>How far the threshold in generated code may lie from the model's (its rounding to the mode).</summary>
     public double ThresholdAllowance { get; }
 
+    /// <summary>True in fixed mode, where results must also match the bit-exact simulator.</summary>
     public bool IsFixed => Simulator is not null;
 
     /// <summary>

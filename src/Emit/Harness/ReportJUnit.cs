@@ -11,6 +11,7 @@ namespace Emit.Harness;
 /// </summary>
 public static class ReportJUnit
 {
+    /// <summary>Writes <paramref name="report"/> as JUnit XML, one test case per target.</summary>
     public static void Write(VerifyReport report, Stream output)
     {
         var inv = CultureInfo.InvariantCulture;

@@ -8,6 +8,7 @@ public static class ReportJson
     /// <summary>Format version of the JSON report.</summary>
     public const int Format = 1;
 
+    /// <summary>Writes <paramref name="report"/> as JSON (docs/verify-report.md).</summary>
     public static void Write(VerifyReport report, Utf8JsonWriter w)
     {
         w.WriteStartObject();

@@ -5,6 +5,7 @@ namespace Emit.Harness;
 /// <summary>The human-readable report: a table with one row per target, then the reasons for each failure.</summary>
 public static class ReportText
 {
+    /// <summary>Writes <paramref name="report"/> as text for a terminal.</summary>
     public static void Write(VerifyReport report, TextWriter o)
     {
         var inv = CultureInfo.InvariantCulture;

@@ -14,6 +14,7 @@ public sealed record RunnerSettings(string? CCompiler = null, string CFlags = ""
     /// <summary>Default outer time limit.</summary>
     public static readonly TimeSpan DefaultTimeout = TimeSpan.FromMinutes(5);
 
+    /// <summary>The time limit in force: <see cref="Timeout"/> or the default.</summary>
     public TimeSpan Limit => Timeout ?? DefaultTimeout;
 
     /// <summary>The host C compiler command split into program and leading arguments.</summary>

@@ -3,6 +3,7 @@ namespace Emit.Harness;
 /// <summary>The one table of verification targets; the command line lists and validates targets from it.</summary>
 public static class Runners
 {
+    /// <summary>Every verify target, in the order the CLI lists them.</summary>
     public static readonly IReadOnlyList<ITargetRunner> All = [new HostCRunner(), new CSharpRunner(),
         new CortexM3Runner()];
 

@@ -45,6 +45,7 @@ public sealed class ScorerSources
     /// <summary>C#: the namespace and class name of the generated class.</summary>
     public string? Namespace => Language == "csharp" ? Manifest.Namespace : null;
 
+    /// <summary>The generated C# class name, or null for C sources.</summary>
     public string? ClassName => Language == "csharp" ? Manifest.CSharpClass : null;
 
     /// <summary>C#: the class as a fully qualified expression.</summary>

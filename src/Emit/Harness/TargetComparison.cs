@@ -21,8 +21,10 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
     private long _count, _bitMismatches, _decisionMismatches, _unexplained, _entryMismatches, _worst = -1;
     private double _sum, _max;
 
+    /// <summary>What the results are compared against.</summary>
     public NumericExpectation Expectation => expectation;
 
+    /// <summary>Results compared so far.</summary>
     public long Count => _count;
 
     /// <summary>

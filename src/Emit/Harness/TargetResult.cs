@@ -18,6 +18,7 @@ public sealed record TargetResult
     /// <summary>Largest and mean |F_generated − F_reference| in nats; null when nothing was compared.</summary>
     public double? MaxAbsError { get; init; }
 
+    /// <summary>Mean |F_generated − F_reference| over the vectors, or null when none was scored.</summary>
     public double? MeanAbsError { get; init; }
 
     /// <summary>Index (from 0) of the input with the largest error.</summary>
@@ -77,6 +78,7 @@ public sealed record TargetResult
     /// <summary>False when the numbers were not compared (sources of another model, no model change allowed).</summary>
     public bool Compared { get; init; } = true;
 
+    /// <summary>True when the target met every check (<see cref="Failures"/> is empty).</summary>
     public required bool Passed { get; init; }
 
     /// <summary>Wall-clock seconds for this target: building plus scoring.</summary>

@@ -7,6 +7,7 @@ namespace Emit.Harness;
 /// <summary>What <c>emit verify</c> was asked to do.</summary>
 public sealed record VerifyRequest
 {
+    /// <summary>The model whose generated code is verified.</summary>
     public required BoltzmannModel Model { get; init; }
 
     /// <summary>The model's file name (not path): names it in reports and gives the default scorer name.</summary>
@@ -15,6 +16,7 @@ public sealed record VerifyRequest
     /// <summary>Vector file, or <c>-</c> for <see cref="Stdin"/>.</summary>
     public required string InputPath { get; init; }
 
+    /// <summary>Standard input, read when <see cref="InputPath"/> is <c>-</c>.</summary>
     public Stream? Stdin { get; init; }
 
     /// <summary>Target names from <see cref="Runners"/>.</summary>
@@ -51,6 +53,7 @@ public sealed record VerifyRequest
     /// </summary>
     public string? TemplatesDirectory { get; init; }
 
+    /// <summary>Tool paths and time limits for the runners.</summary>
     public RunnerSettings Settings { get; init; } = new();
 
     /// <summary>Where to build; null: a temporary folder deleted afterwards.</summary>

@@ -40,8 +40,11 @@ public sealed class BoltzmannModel
         Validate();
     }
 
+    /// <summary>Which couplings the model has.</summary>
     public ModelKind Kind { get; }
+    /// <summary>Visible units.</summary>
     public int Visible { get; }
+    /// <summary>Hidden units.</summary>
     public int Hidden { get; }
 
     /// <summary>b, one per visible unit.</summary>
@@ -65,6 +68,7 @@ public sealed class BoltzmannModel
     /// <summary>A vector is unusual when F(v) &gt; Threshold.</summary>
     public double? Threshold { get; }
 
+    /// <summary>log Z when known (exact or estimated, with its method), or null.</summary>
     public LogPartition? LogPartition { get; }
 
     /// <summary>The free-form "metadata" object as JSON text, preserved on rewrite; not part of the identity.</summary>

@@ -236,11 +236,16 @@ public ref struct JsonCursor
         return version;
     }
 
+    /// <summary>
+    /// Throws a positioned error unless the current token is <paramref name="type"/>; <paramref name="what"/> names
+    /// what was expected.
+    /// </summary>
     public readonly void Expect(JsonTokenType type, string what)
     {
         if (R.TokenType != type) throw Error($"expected {what}, found {Describe(R.TokenType)}");
     }
 
+    /// <summary>A token type in words, for error messages.</summary>
     public static string Describe(JsonTokenType t) => t switch
     {
         JsonTokenType.StartObject => "an object",

@@ -12,7 +12,9 @@ namespace Emit.Model;
 /// </summary>
 public static class ModelJson
 {
+    /// <summary>The "format" value of a model file.</summary>
     public const string FormatName = "emit.model";
+    /// <summary>The model file format version this reader and writer use.</summary>
     public const int FormatVersion = 1;
 
     /// <summary>Largest model file accepted (bytes).</summary>

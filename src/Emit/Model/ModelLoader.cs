@@ -5,6 +5,7 @@ namespace Emit.Model;
 /// </summary>
 public static class ModelLoader
 {
+    /// <summary>Loads a model file, choosing the reader by extension (.json or .npz).</summary>
     public static BoltzmannModel Load(string path)
     {
         if (path.EndsWith(".npz", StringComparison.OrdinalIgnoreCase))

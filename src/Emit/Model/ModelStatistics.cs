@@ -14,6 +14,7 @@ public sealed record ModelStatistics(
     public static readonly IReadOnlyList<(string Name, int Bytes)> Widths = [("f64", 8), ("f32", 4), ("int16", 2),
         ("int8", 1)];
 
+    /// <summary>Statistics of the parameters of <paramref name="m"/>.</summary>
     public static ModelStatistics Of(BoltzmannModel m)
     {
         var bytes = new Dictionary<string, long>();

@@ -12,7 +12,9 @@ namespace Emit.Project;
 /// </summary>
 public static class ProjectFile
 {
+    /// <summary>The "format" value of a project file.</summary>
     public const string FormatName = "emit.project";
+    /// <summary>The project file format version this reader accepts.</summary>
     public const int FormatVersion = 1;
 
     /// <summary>Largest project file accepted (bytes); refused before reading.</summary>

@@ -21,6 +21,7 @@ public sealed record AisResult(double LogPartition, double Stderr, int Chains, i
 /// </summary>
 public static class AisLogPartition
 {
+    /// <summary>Estimates log Z of <paramref name="model"/> with its standard error.</summary>
     public static AisResult Estimate(BoltzmannModel model, AisOptions? options = null,
         CancellationToken cancel = default)
     {

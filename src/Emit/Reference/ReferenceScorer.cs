@@ -22,6 +22,7 @@ public sealed class ReferenceScorer
     private readonly (int Other, double W)[][] _lateral;  // per visible unit i: links (j, L_ij) with j < i
     private readonly double[]? _hiddenPairs;              // general: H×H symmetric
 
+    /// <summary>A scorer for <paramref name="model"/>.</summary>
     public ReferenceScorer(BoltzmannModel model)
     {
         _model = model;
@@ -45,6 +46,7 @@ public sealed class ReferenceScorer
         }
     }
 
+    /// <summary>The model scored.</summary>
     public BoltzmannModel Model => _model;
 
     /// <summary>F(v) for one vector of <see cref="BoltzmannModel.Visible"/> bytes.</summary>

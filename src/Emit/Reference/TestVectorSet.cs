@@ -3,7 +3,23 @@ using Emit.Model;
 namespace Emit.Reference;
 
 /// <summary>Where a generated test vector came from.</summary>
-public enum VectorOrigin { AllOff, AllOn, UnitMaximiser, UnitMinimiser, NearThreshold, Sample, Data }
+public enum VectorOrigin
+{
+    /// <summary>Every unit 0.</summary>
+    AllOff,
+    /// <summary>Every unit 1.</summary>
+    AllOn,
+    /// <summary>For one hidden unit, the visible units with a positive weight to it on: its largest input.</summary>
+    UnitMaximiser,
+    /// <summary>For one hidden unit, the visible units with a negative weight to it on: its smallest input.</summary>
+    UnitMinimiser,
+    /// <summary>One of a pair of vectors one bit apart on either side of the threshold.</summary>
+    NearThreshold,
+    /// <summary>A sample of the model (Gibbs chain).</summary>
+    Sample,
+    /// <summary>A row of the user's data.</summary>
+    Data,
+}
 
 /// <summary>One generated test vector (one byte per visible unit) and its origin.</summary>
 public sealed record TestVector(byte[] Units, VectorOrigin Origin);
@@ -21,6 +37,10 @@ public sealed record TestVectorOptions(int Count, ulong Seed = 1, int BurnIn = 1
 /// </summary>
 public static class TestVectorSet
 {
+    /// <summary>
+    /// Generates the test vectors of <paramref name="options"/> for <paramref name="model"/>, with rows of user data
+    /// first when given.
+    /// </summary>
     public static IReadOnlyList<TestVector> Generate(BoltzmannModel model, TestVectorOptions options,
         IReadOnlyList<byte[]>? data = null)
     {

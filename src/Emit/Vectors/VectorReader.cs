@@ -212,6 +212,7 @@ public sealed class VectorReader : IDisposable
         return rows;
     }
 
+    /// <summary>Closes the underlying stream unless the reader was told to leave it open.</summary>
     public void Dispose()
     {
         if (!_leaveOpen) _stream.Dispose();
