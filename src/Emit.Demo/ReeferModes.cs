@@ -18,13 +18,19 @@ public static class ReeferModes
         new ReeferMode("steady_chilled", 25,
             "Holding a chilled setpoint on shore or vessel power: compressor cycling and often unloaded, ventilation " +
             "and humidity control as set.",
-            v => { v[SetpointChilled] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldChilled(
-                v); Telemetry(v, 0.85, 0.9); }),
+            v =>
+            {
+                v[SetpointChilled] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldChilled(v);
+                Telemetry(v, 0.85, 0.9);
+            }),
         new ReeferMode("steady_frozen", 25,
             "Holding a frozen setpoint on shore or vessel power: compressor mostly on with the economiser, fans at " +
             "low speed, vents closed.",
-            v => { v[SetpointFrozen] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldFrozen(
-                v); Telemetry(v, 0.85, 0.9); }),
+            v =>
+            {
+                v[SetpointFrozen] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldFrozen(v);
+                Telemetry(v, 0.85, 0.9);
+            }),
         new ReeferMode("defrost_cycle", 8,
             "A timed evaporator defrost: compressor and fans stopped, defrost heater on until the coil reaches its " +
             "termination temperature.",

@@ -13,8 +13,8 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class CalibrateCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "The model to calibrate (.json or .npz)" }.AcceptExistingOnly();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "The model to calibrate (.json or .npz)" }.AcceptExistingOnly();
     private readonly Option<string> _normal = new("--normal")
     {
         HelpName = "DATA",

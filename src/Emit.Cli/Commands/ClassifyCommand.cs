@@ -27,8 +27,10 @@ public sealed class ClassifyCommand : ICliCommand
         Required = true,
         HelpName = "DATA",
     };
-    private readonly Option<string?> _priors = new(
-        "--priors") { Description = "Prior weight of each model, comma-separated, in model order (default: equal)" };
+    private readonly Option<string?> _priors = new("--priors")
+    {
+        Description = "Prior weight of each model, comma-separated, in model order (default: equal)",
+    };
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<string?> _output = new("--output", "-o")
     {

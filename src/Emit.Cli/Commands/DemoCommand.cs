@@ -39,16 +39,18 @@ public sealed class DemoCommand : ICliCommand
             "with manifests, verify reports, explanations); default: a temporary folder deleted at the end",
         HelpName = "DIR",
     };
-    private readonly Option<DirectoryInfo?> _data = new Option<DirectoryInfo?>(
-        "--data") { Description = "Folder with the shipped demo files to compare with (default: demo-data/ in this " +
-        "folder or a parent; without one the comparison is skipped)", HelpName = "DIR" }.MustExist();
+    private readonly Option<DirectoryInfo?> _data = new Option<DirectoryInfo?>("--data")
+    {
+        Description = "Folder with the shipped demo files to compare with (default: demo-data/ in this folder or a " +
+            "parent; without one the comparison is skipped)",
+        HelpName = "DIR",
+    }.MustExist();
 
     public Command Build(CliContext ctx)
     {
         var cmd = new Command("demo",
             "Run the whole loop on an invented fleet of refrigerated containers reporting 56 status flags: " +
-                                      "generate logs, train, calibrate, compile C and C# (f32, fixed int16), verify, " +
-                                      "explain")
+            "generate logs, train, calibrate, compile C and C# (f32, fixed int16), verify, explain")
         {
             _out,
             _data,
@@ -133,8 +135,8 @@ public sealed class DemoCommand : ICliCommand
                 DemoData.Csv(logs.Faulty));
             var faultsText = new StringBuilder("index,fault,mode\n");
             for (int k = 0; k < logs.Faulty.Length; k++)
-                faultsText.Append(k.ToString(Inv)).Append(',').Append(logs.Faulty[k].Fault).Append(',').Append(
-                    logs.Faulty[k].Mode).Append('\n');
+                faultsText.Append(k.ToString(Inv)).Append(',').Append(logs.Faulty[k].Fault).Append(',')
+                    .Append(logs.Faulty[k].Mode).Append('\n');
             Write("fault of each faulty report", Path.Combine("data", DemoData.FaultsFileName), faultsText.ToString());
             if (shipped is not null)
             {

@@ -19,10 +19,10 @@ public sealed class DiffCommand : ICliCommand
         "a monitoring aid, not a safety function: this compares two models' judgements on the given vectors; defer " +
         "to local codes and licensed practice.";
 
-    private readonly Argument<FileInfo> _old = new Argument<FileInfo>(
-        "OLD") { Description = "The model in use (.json or .npz)" }.MustExist();
-    private readonly Argument<FileInfo> _new = new Argument<FileInfo>(
-        "NEW") { Description = "The model to replace it (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _old =
+        new Argument<FileInfo>("OLD") { Description = "The model in use (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _new =
+        new Argument<FileInfo>("NEW") { Description = "The model to replace it (.json or .npz)" }.MustExist();
     private readonly Option<string> _input = new("--input", "-i")
     {
         Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
@@ -30,8 +30,8 @@ public sealed class DiffCommand : ICliCommand
         HelpName = "DATA",
     };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<bool> _json = new(
-        "--json") { Description = "Write the comparison as JSON to standard output instead of text" };
+    private readonly Option<bool> _json =
+        new("--json") { Description = "Write the comparison as JSON to standard output instead of text" };
     private readonly Option<string?> _report = new("--report")
     {
         Description = "Also write the comparison as JSON to this file",

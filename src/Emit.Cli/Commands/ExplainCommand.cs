@@ -18,8 +18,8 @@ public sealed class ExplainCommand : ICliCommand
     /// <summary>Units listed per vector unless --top says otherwise.</summary>
     public const int DefaultTop = 3;
 
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "The model (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "The model (.json or .npz)" }.MustExist();
     private readonly Option<string> _input = new("--input", "-i")
     {
         HelpName = "DATA",

@@ -6,8 +6,8 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit import MODEL.npz -o MODEL.json [--names FILE] [--threshold T]</c>.</summary>
 public sealed class ImportCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model to convert (.npz or .json)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model to convert (.npz or .json)" }.MustExist();
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly (Option<string> Output, Option<string> Former) _output = CliOptions.Output(
         "Model JSON file to write, or - for standard output");

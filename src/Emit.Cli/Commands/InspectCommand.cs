@@ -12,10 +12,10 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class InspectCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
-    private readonly Option<bool> _json = new(
-        "--json") { Description = "Write the report as JSON to standard output instead of text" };
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<bool> _json =
+        new("--json") { Description = "Write the report as JSON to standard output instead of text" };
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
         "--numeric",
         "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
@@ -223,9 +223,13 @@ public sealed class InspectCommand : ICliCommand
             w.WriteString("rounding", "half away from zero");
             w.WriteNumber("error_bound", plan.ErrorBound);
             w.WriteStartObject("error_parts");
-            void Part(string name,
-                ErrorInterval e) { w.WriteStartArray(name); w.WriteNumberValue(e.Lo); w.WriteNumberValue(
-                    e.Hi); w.WriteEndArray(); }
+            void Part(string name, ErrorInterval e)
+            {
+                w.WriteStartArray(name);
+                w.WriteNumberValue(e.Lo);
+                w.WriteNumberValue(e.Hi);
+                w.WriteEndArray();
+            }
             Part("visible_bias", plan.Error.VisibleBias);
             Part("lateral", plan.Error.Lateral);
             Part("hidden_inputs", plan.Error.HiddenInputs);

@@ -9,8 +9,8 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit logz MODEL --method exact [--json] [--store]</c>: the log partition function.</summary>
 public sealed class LogzCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<Chosen<LogZMethod>> _method = CliOptions.Choice(
         "--method",
         "How to compute log Z: exact (enumeration) or ais (annealed importance sampling, for larger models)",
@@ -21,11 +21,12 @@ public sealed class LogzCommand : ICliCommand
         "AIS: annealing steps from the base model to the model", 1, int.MaxValue, new AisOptions().Steps);
     private readonly Option<ulong> _seed = CliOptions.Number("--seed", "AIS: random seed (same seed, same result)",
         ulong.MinValue, ulong.MaxValue, new AisOptions().Seed);
-    private readonly Option<bool> _json = new(
-        "--json") { Description = "Write the result as JSON to standard output instead of text" };
-    private readonly Option<bool> _store = new(
-        "--store") { Description = "Also write the result into MODEL's log_partition, replacing MODEL (JSON models " +
-        "only)" };
+    private readonly Option<bool> _json =
+        new("--json") { Description = "Write the result as JSON to standard output instead of text" };
+    private readonly Option<bool> _store = new("--store")
+    {
+        Description = "Also write the result into MODEL's log_partition, replacing MODEL (JSON models only)",
+    };
 
     /// <summary>Above this many states a progress bar is shown on stderr.</summary>
     public const long ProgressStates = 1L << 20;

@@ -12,8 +12,8 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class ScoreCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<string> _input = new("--input", "-i")
     {
         Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",

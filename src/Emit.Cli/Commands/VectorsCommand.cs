@@ -14,8 +14,8 @@ public sealed class VectorsCommand : ICliCommand
     /// <summary>Most rows of DATA kept in memory to draw from.</summary>
     public const int MaxDataRows = 100_000;
 
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<int> _count = CliOptions.Number("--count", "Number of vectors", 1, MaxCount,
         aliases: ["-n"]);
     private readonly Option<bool> _force = CliOptions.Force();

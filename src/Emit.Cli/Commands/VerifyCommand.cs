@@ -15,8 +15,8 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class VerifyCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>(
-        "MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<string> _input = new("--input", "-i")
     {
         Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
@@ -30,21 +30,30 @@ public sealed class VerifyCommand : ICliCommand
         "--numeric", "Arithmetic of the scorer to check (default: as stamped in --generated sources, else f32)",
         NumericChoices.All);
     private readonly FixedPointOptionSet _fixed = new();
-    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>(
-        "--generated") { Description = "Check the sources emit compile wrote to this folder instead of generating them",
-        HelpName = "DIR" }.MustExist();
-    private readonly Option<string?> _name = new(
-        "--name") { Description = "Scorer name (default: the one scorer in --generated, else from the model file " +
-        "name)" };
-    private readonly Option<bool> _allowModelChange = new(
-        "--allow-model-change") { Description = "With --generated: compare the numbers even when the sources were " +
-        "generated from another model (otherwise exit 1 without running them)" };
-    private readonly Option<bool> _failOnDecision = new(
-        "--fail-on-decision-mismatch") { Description = "Fail a target on any decision that differs from the " +
-        "reference, even one within the error bound" };
-    private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>(
-        "--templates") { Description = "With --generated: the templates folder the sources were compiled with, when " +
-        "they used custom templates", HelpName = "DIR" }.MustExist();
+    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated")
+    {
+        Description = "Check the sources emit compile wrote to this folder instead of generating them",
+        HelpName = "DIR",
+    }.MustExist();
+    private readonly Option<string?> _name = new("--name")
+    {
+        Description = "Scorer name (default: the one scorer in --generated, else from the model file name)",
+    };
+    private readonly Option<bool> _allowModelChange = new("--allow-model-change")
+    {
+        Description = "With --generated: compare the numbers even when the sources were generated from another model " +
+            "(otherwise exit 1 without running them)",
+    };
+    private readonly Option<bool> _failOnDecision = new("--fail-on-decision-mismatch")
+    {
+        Description = "Fail a target on any decision that differs from the reference, even one within the error bound",
+    };
+    private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates")
+    {
+        Description = "With --generated: the templates folder the sources were compiled with, when they used custom " +
+            "templates",
+        HelpName = "DIR",
+    }.MustExist();
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report")
     {
@@ -61,8 +70,8 @@ public sealed class VerifyCommand : ICliCommand
         Description = "Also write a PNG histogram of the errors per target to this file",
         HelpName = "FILE",
     };
-    private readonly Option<string?> _cc = new(
-        "--cc") { Description = "Host C compiler for target c (default: $CC, else cc)" };
+    private readonly Option<string?> _cc =
+        new("--cc") { Description = "Host C compiler for target c (default: $CC, else cc)" };
     private readonly Option<string> _cflags = new("--cflags")
     {
         Description = "Extra flags for the host C compile, after the strict ones",

@@ -95,8 +95,8 @@ public sealed class UnitFlipExplainer
     {
         if (top < 1) throw new EmitException($"top = {top} is less than 1");
         var d = Deltas(units);
-        return Enumerable.Range(0, d.Length).OrderBy(i => d[i]).ThenBy(i => i).Take(top).Select(
-            i => new UnitFlip(i, d[i])).ToList();
+        return Enumerable.Range(0, d.Length).OrderBy(i => d[i]).ThenBy(i => i).Take(top)
+            .Select(i => new UnitFlip(i, d[i])).ToList();
     }
 
     private double HiddenLogSum(double[] fields) =>

@@ -46,8 +46,8 @@ public static class HarnessTemplates
             rows.Append("    {");
             var row = embedded.Slice(r * layout.PackedBytes, layout.PackedBytes);
             for (int b = 0; b < row.Length; b++)
-                rows.Append(b == 0 ? " " : ", ").Append("0x").Append(
-                    row[b].ToString("X2", CultureInfo.InvariantCulture)).Append('u');
+                rows.Append(b == 0 ? " " : ", ").Append("0x")
+                    .Append(row[b].ToString("X2", CultureInfo.InvariantCulture)).Append('u');
             rows.Append(" },\n");
         }
         var model = new HarnessMainModel

@@ -182,10 +182,9 @@ public static class Verifier
             Input = reader.Source,
             Vectors = index,
             Threshold = model.Threshold,
-            Targets = states.Select(
-                s => s.Comparison.Finish(s.Runner.Name, s.Sources, request.GeneratedDirectory is null, model.Sha256,
-                    s.SelfTest,
-                s.Failures, s.BuildSeconds, s.ScoreSeconds, s.Check)).ToArray(),
+            Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources,
+                request.GeneratedDirectory is null, model.Sha256, s.SelfTest, s.Failures, s.BuildSeconds,
+                s.ScoreSeconds, s.Check)).ToArray(),
             Warnings = warnings,
             AllowModelChange = request.AllowModelChange,
             FailOnDecisionMismatch = request.FailOnDecisionMismatch,

@@ -123,8 +123,8 @@ public static class ModelJson
         {
             Key("log_partition");
             sb.Append("{\"value\"").Append(colon).Append(Number(lp.Value)).Append(sep)
-              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value).Append(
-                  '"').Append(sep)
+              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value)
+              .Append('"').Append(sep)
               .Append("\"stderr\"").Append(colon).Append(Number(lp.Stderr)).Append('}');
         }
         if (includeMetadata && m.MetadataJson is { } meta) { Key("metadata"); sb.Append(meta); }

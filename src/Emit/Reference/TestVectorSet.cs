@@ -116,8 +116,8 @@ public static class TestVectorSet
     {
         var scorer = new ReferenceScorer(model);
         double t = model.Threshold!.Value;
-        var candidates = samples.Concat(
-            [new byte[model.Visible], Enumerable.Repeat((byte)1, model.Visible).ToArray()]).ToList();
+        byte[][] extremes = [new byte[model.Visible], Enumerable.Repeat((byte)1, model.Visible).ToArray()];
+        var candidates = samples.Concat(extremes).ToList();
         var normal = candidates.Where(x => scorer.FreeEnergy(x) <= t).ToList();
         var unusual = candidates.Where(x => scorer.FreeEnergy(x) > t).ToList();
         if (normal.Count == 0 || unusual.Count == 0) yield break;
