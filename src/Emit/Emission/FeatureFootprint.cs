@@ -26,13 +26,14 @@ public static class FeatureFootprint
         {
             long links = plan.LinkCount;
             code += 80;
-            code += Table(plan.Visible + 1, 2 * links <= 0xFFFF ? 2 : 4) + Table(2 * links, plan.Visible <= 0x10000 ? 2 : 4)
+            code += Table(plan.Visible + 1, 2 * links <= 0xFFFF ? 2 : 4)
+                    + Table(2 * links, plan.Visible <= 0x10000 ? 2 : 4)
                     + Table(2 * links, links <= 0xFFFF ? 2 : 4);
         }
         return code;
     }
 
-    /// <summary>Predicted extra flash of the explanation code beyond the stream code (bytes), 0 when not emitted.</summary>
+    /// <summary>Predicted extra flash of the explanation code beyond the stream code (bytes), 0 without it.</summary>
     public static long ExplainFlash(ScorerPlan plan)
     {
         if (!plan.HasExplain) return 0;

@@ -63,8 +63,11 @@ public sealed class StreamCheck(BoltzmannModel model, NumericExpectation expecta
             {
                 bad = true;
                 if (_mismatches < Examples)
-                    _failures.Add($"vector {index}, flip {at}: |error| {error.ToString("G4", CultureInfo.InvariantCulture)} " +
-                                  $"above {_bound.ToString("G4", CultureInfo.InvariantCulture)}");
+                {
+                    var inv = CultureInfo.InvariantCulture;
+                    _failures.Add($"vector {index}, flip {at}: |error| {error.ToString("G4", inv)} " +
+                                  $"above {_bound.ToString("G4", inv)}");
+                }
             }
         }
         if (bad) _mismatches++;
