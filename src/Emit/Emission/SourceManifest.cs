@@ -61,6 +61,9 @@ public sealed record SourceManifest
     /// <summary>Self-test vectors compiled in.</summary>
     public required int SelfTestVectors { get; init; }
 
+    /// <summary>The code layout the sources were generated for (manifests without it: speed, the default).</summary>
+    public OptimizeFor Optimize { get; init; } = OptimizeFor.Speed;
+
     /// <summary>True when the sources have streamed scoring (compiled with the stream option).</summary>
     public bool Stream { get; init; }
 
@@ -123,7 +126,8 @@ public sealed record SourceManifest
     /// </summary>
     public CompileOptions ToCompileOptions(IReadOnlyList<string> targets, string? templatesDirectory) =>
         new(targets, Numeric, Name, Namespace, SelfTestVectors, templatesDirectory,
-            Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null, Stream: Stream, Explain: Explain);
+            Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null, Stream: Stream, Explain: Explain,
+            Optimize: Optimize);
 
     /// <summary>The manifest for a compilation.</summary>
     internal static SourceManifest Describe(ScorerPlan plan, IReadOnlyList<string> targets,
@@ -145,6 +149,7 @@ public sealed record SourceManifest
             Name = options.Name,
             Namespace = options.Namespace,
             SelfTestVectors = options.SelfTestVectors,
+            Optimize = options.Optimize,
             Stream = options.Stream,
             Explain = options.Explain,
             CustomTemplates = options.TemplatesDirectory is not null,

@@ -45,6 +45,7 @@ public static class SourceManifestJson
             w.WriteString("name", m.Name);
             w.WriteString("namespace", m.Namespace);
             w.WriteNumber("selftest_vectors", m.SelfTestVectors);
+            w.WriteString("optimize", m.Optimize.ToText());
             w.WriteString("templates", m.CustomTemplates ? "custom" : "shipped");
             // firmware features: written only when on, so a manifest without them is unchanged
             if (m.Stream) w.WriteBoolean("stream", true);
@@ -153,6 +154,10 @@ public static class SourceManifestJson
                 Name = options.Text("name"),
                 Namespace = options.Text("namespace"),
                 SelfTestVectors = options.Int("selftest_vectors"),
+                Optimize = options.Has("optimize")
+                    ? OptimizeForNames.Parse(options.Text("optimize"))
+                      ?? throw r.Bad("options.optimize is not speed or size")
+                    : OptimizeFor.Speed,
                 Stream = options.Has("stream") && options.Bool("stream"),
                 Explain = options.Has("explain") && options.Bool("explain"),
                 CustomTemplates = options.Text("templates") switch

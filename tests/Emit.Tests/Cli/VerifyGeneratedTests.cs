@@ -86,6 +86,16 @@ public sealed class VerifyGeneratedTests
     /// <summary>
     /// Sources from another version of the model (one weight differs): exit 1 naming both hashes, nothing run.
     /// </summary>
+    /// <summary>Regression: the manifest did not record <c>--optimize</c>, so sources compiled for size were
+    /// regenerated for speed and reported as edited after generation.</summary>
+    [SkippableFact]
+    public void Sources_compiled_for_size_verify_as_generated()
+    {
+        var (_, model, vectors, gen) = Compiled("verify-size", "--target", "c", "--numeric", "fixed", "--optimize", "size");
+        var r = CliRunner.Run("verify", model, "--input", vectors, "--generated", gen, "--target", "c");
+        Assert.True(r.ExitCode == 0, r.Out + r.Error);
+    }
+
     [SkippableFact]
     public void Sources_generated_from_another_model_version_fail_with_both_hashes()
     {
