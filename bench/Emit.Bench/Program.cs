@@ -6,7 +6,8 @@ using Emit.Reference;
 
 // Benchmarks for the reference stage. Usage: dotnet run -c Release --project bench/Emit.Bench -- reference OUTDIR
 // Writes OUTDIR/model-784x500.json and OUTDIR/vectors.csv (for bench/numpy_reference.py, which times numpy on the
-// same files) and OUTDIR/reference-free-energy.txt, then prints the figures.
+// same files), OUTDIR/reference-free-energy.txt and OUTDIR/reference-timing.txt (vectors/s, which the numpy script
+// divides by its own figure), then prints the figures. `Emit.Bench profile` times the scorer's parts.
 if (args.Length == 1 && args[0] == "profile") return Profile.Run();
 if (args.Length < 2 || args[0] != "reference")
 {
@@ -46,6 +47,7 @@ for (int rep = 0; rep < 5; rep++)
     best = Math.Min(best, sw.Elapsed.TotalSeconds);
 }
 File.WriteAllLines(Path.Combine(dir, "reference-free-energy.txt"), result.Select(x => x.ToString("R", inv)));
+File.WriteAllText(Path.Combine(dir, "reference-timing.txt"), (Rows / best).ToString("F0", inv) + "\n");
 Console.WriteLine($"reference_scoring  model=784x500 active=13% vectors={Rows} threads={Environment.ProcessorCount} " +
                   $"best_seconds={best.ToString("F4", inv)} vectors_per_second={(Rows / best).ToString("F0", inv)}");
 

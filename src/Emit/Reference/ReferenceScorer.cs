@@ -1,3 +1,4 @@
+using System.Numerics;
 using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
@@ -13,12 +14,11 @@ namespace Emit.Reference;
 /// same bits as serial scoring since each vector is computed alone.
 /// </summary>
 /// <remarks>
-/// rbm and lateral: the pre-activations are c plus the rows of the units that are on, added two rows at a time
-/// (acc += row_a + row_b, rows in index order); the softplus terms go through <see cref="VectorSoftplus.Sum"/>.
-/// Every operation is an IEEE addition, multiplication or division in a fixed order, so the bits do not depend
-/// on the thread count, the vector width or the C runtime. Batches add the rows block by block over the hidden
-/// units (a block of W stays in the core's cache while a chunk of vectors uses it); each element still sees the
-/// same additions in the same order.
+/// rbm and lateral: the pre-activations are c plus the rows of the units that are on, added four rows at a time
+/// (acc += (row_a + row_b) + (row_c + row_d), rows in index order: a quarter of the accumulator loads and stores
+/// of one row at a time); the softplus terms go through <see cref="VectorSoftplus.Sum"/>. Every operation is an
+/// IEEE addition, multiplication or division in a fixed order, so the bits do not depend on the thread count,
+/// the vector width or the C runtime.
 /// </remarks>
 public sealed class ReferenceScorer
 {
@@ -68,7 +68,7 @@ public sealed class ReferenceScorer
         Span<double> acc = h <= 512 ? stackalloc double[h] : new double[h];
         if (_hiddenPairs is null)
         {
-            SumRows(acc, 0, active);
+            SumRows(acc, active);
             return -linear - VectorSoftplus.Sum(acc);
         }
         _c.AsSpan().CopyTo(acc);
@@ -97,64 +97,27 @@ public sealed class ReferenceScorer
     {
         int v = _model.Visible;
         if (units.Length < (long)rows * v || result.Length < rows) throw new ArgumentException("buffers too small");
-        Parallel.For(0, (rows + Chunk - 1) / Chunk, () => (BatchScratch?)null, (c, _, scratch) =>
+        const int chunk = 64;
+        Parallel.For(0, (rows + chunk - 1) / chunk, c =>
         {
-            int start = c * Chunk, end = Math.Min(rows, start + Chunk);
-            if (_hiddenPairs is not null)
-            {
-                for (int r = start; r < end; r++) result[r] = FreeEnergy(units.AsSpan(r * v, v));
-                return scratch;
-            }
-            scratch ??= new BatchScratch(v, _model.Hidden);
-            ScoreChunk(units, start, end, result, scratch);
-            return scratch;
-        }, _ => { });
-    }
-
-    private const int Chunk = 64;
-
-    // Hidden units per block in batch scoring: a block of W (visible × block doubles) should sit in a core's L2
-    // cache, about half a megabyte on common x86 parts, beside the chunk's accumulators.
-    private int BlockWidth => Math.Max(Vector512<double>.Count, 65536 / Math.Max(1, _model.Visible) & ~7);
-
-    private sealed class BatchScratch(int v, int h)
-    {
-        public readonly int[] Active = new int[Chunk * v];
-        public readonly int[] Count = new int[Chunk];
-        public readonly double[] Linear = new double[Chunk];
-        public readonly double[] Acc = new double[Chunk * h];
-    }
-
-    private void ScoreChunk(byte[] units, int start, int end, double[] result, BatchScratch s)
-    {
-        int v = _model.Visible, h = _model.Hidden, n = end - start;
-        for (int k = 0; k < n; k++)
-        {
-            var u = units.AsSpan((start + k) * v, v);
-            var active = s.Active.AsSpan(k * v, v);
-            s.Count[k] = ActiveUnits(u, active);
-            s.Linear[k] = Linear(u, active[..s.Count[k]]);
-        }
-        int width = BlockWidth;
-        for (int j0 = 0; j0 < h; j0 += width)
-        {
-            int len = Math.Min(width, h - j0);
-            for (int k = 0; k < n; k++)
-                SumRows(s.Acc.AsSpan(k * h + j0, len), j0, s.Active.AsSpan(k * v, s.Count[k]));
-        }
-        for (int k = 0; k < n; k++)
-            result[start + k] = -s.Linear[k] - VectorSoftplus.Sum(s.Acc.AsSpan(k * h, h));
+            int end = Math.Min(rows, (c + 1) * chunk);
+            for (int r = c * chunk; r < end; r++) result[r] = FreeEnergy(units.AsSpan(r * v, v));
+        });
     }
 
     /// <summary>Indices of the units that are on, ascending; returns how many.</summary>
     private static int ActiveUnits(ReadOnlySpan<byte> units, Span<int> active)
     {
-        int n = 0;
-        for (int i = 0; i < units.Length; i++)
+        int n = 0, i = 0;
+        ref byte u = ref MemoryMarshal.GetReference(units);
+        for (; i <= units.Length - Vector512<byte>.Count; i += Vector512<byte>.Count)
         {
-            active[n] = i;
-            n += units[i] != 0 ? 1 : 0;
+            ulong on = ~Vector512.Equals(Vector512.LoadUnsafe(ref u, (nuint)i), Vector512<byte>.Zero)
+                .ExtractMostSignificantBits();
+            for (; on != 0; on &= on - 1) active[n++] = i + BitOperations.TrailingZeroCount(on);
         }
+        for (; i < units.Length; i++)
+            if (units[i] != 0) active[n++] = i;
         return n;
     }
 
@@ -172,20 +135,34 @@ public sealed class ReferenceScorer
     }
 
     /// <summary>
-    /// acc = c[j0..] + Σ rows of the active units over hidden units j0 .. j0 + acc.Length, two rows per step
-    /// (acc += row_a + row_b, then a last single row): per element the same additions in the same order for any
-    /// j0 and block length, in vector lanes or in the scalar tail.
+    /// acc = c + Σ rows of the active units, four rows per step (acc += (row_a + row_b) + (row_c + row_d), then a
+    /// pair, then a single row): per element the same additions in the same order in vector lanes or the scalar tail.
     /// </summary>
-    private void SumRows(Span<double> acc, int j0, ReadOnlySpan<int> active)
+    private void SumRows(Span<double> acc, ReadOnlySpan<int> active)
     {
         int h = _model.Hidden, len = acc.Length;
-        _c.AsSpan(j0, len).CopyTo(acc);
+        _c.AsSpan().CopyTo(acc);
         ref double a = ref MemoryMarshal.GetReference(acc);
         ref double w = ref MemoryMarshal.GetArrayDataReference(_w);
         int n = active.Length, p = 0;
+        for (; p + 3 < n; p += 4)
+        {
+            nuint r1 = (nuint)(active[p] * h), r2 = (nuint)(active[p + 1] * h);
+            nuint r3 = (nuint)(active[p + 2] * h), r4 = (nuint)(active[p + 3] * h);
+            int j = 0;
+            for (; j <= len - Vector512<double>.Count; j += Vector512<double>.Count)
+            {
+                var q = (Vector512.LoadUnsafe(ref w, r1 + (nuint)j) + Vector512.LoadUnsafe(ref w, r2 + (nuint)j))
+                    + (Vector512.LoadUnsafe(ref w, r3 + (nuint)j) + Vector512.LoadUnsafe(ref w, r4 + (nuint)j));
+                (Vector512.LoadUnsafe(ref a, (nuint)j) + q).StoreUnsafe(ref a, (nuint)j);
+            }
+            for (; j < len; j++)
+                Unsafe.Add(ref a, j) += (Unsafe.Add(ref w, r1 + (nuint)j) + Unsafe.Add(ref w, r2 + (nuint)j))
+                    + (Unsafe.Add(ref w, r3 + (nuint)j) + Unsafe.Add(ref w, r4 + (nuint)j));
+        }
         for (; p + 1 < n; p += 2)
         {
-            nuint r1 = (nuint)(active[p] * h + j0), r2 = (nuint)(active[p + 1] * h + j0);
+            nuint r1 = (nuint)(active[p] * h), r2 = (nuint)(active[p + 1] * h);
             int j = 0;
             for (; j <= len - Vector512<double>.Count; j += Vector512<double>.Count)
             {
@@ -195,7 +172,7 @@ public sealed class ReferenceScorer
             for (; j < len; j++)
                 Unsafe.Add(ref a, j) += Unsafe.Add(ref w, r1 + (nuint)j) + Unsafe.Add(ref w, r2 + (nuint)j);
         }
-        if (p < n) AddRow(acc, _w.AsSpan(active[p] * h + j0, len));
+        if (p < n) AddRow(acc, _w.AsSpan(active[p] * h, len));
     }
 
     private static void AddRow(Span<double> acc, ReadOnlySpan<double> row)
@@ -204,7 +181,10 @@ public sealed class ReferenceScorer
         ref double r = ref MemoryMarshal.GetReference(row);
         int j = 0, len = acc.Length;
         for (; j <= len - Vector512<double>.Count; j += Vector512<double>.Count)
-            (Vector512.LoadUnsafe(ref a, (nuint)j) + Vector512.LoadUnsafe(ref r, (nuint)j)).StoreUnsafe(ref a, (nuint)j);
+        {
+            var sum = Vector512.LoadUnsafe(ref a, (nuint)j) + Vector512.LoadUnsafe(ref r, (nuint)j);
+            sum.StoreUnsafe(ref a, (nuint)j);
+        }
         for (; j < len; j++) Unsafe.Add(ref a, j) += Unsafe.Add(ref r, j);
     }
 }

@@ -66,7 +66,7 @@ public static class VectorSoftplus
         return Vector512.ConditionalSelect(Vector512.Equals(x, x), r, x);
     }
 
-    /// <summary>softplus of one double through the vector code (the same bits as a lane of <see cref="Of(Vector512{double})"/>).</summary>
+    /// <summary>softplus of one double through the vector code (the bits of a lane of the vector overload).</summary>
     public static double Of(double x) => Of(Vector512.Create(x)).ToScalar();
 
     /// <summary>
