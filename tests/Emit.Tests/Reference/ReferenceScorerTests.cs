@@ -92,11 +92,14 @@ public sealed class ReferenceScorerTests
             Close(Straightforward(m, units.AsSpan(t * visible, visible).ToArray()), batch[t], 1e-12, $"batch {t}");
     }
 
-    /// <summary>Runs <paramref name="work"/> on a scheduler that runs one task at a time: Parallel.For then uses one thread.</summary>
+    /// <summary>
+    /// Runs <paramref name="work"/> on a scheduler that runs one task at a time: Parallel.For then uses one thread.
+    /// </summary>
     private static T OneThread<T>(Func<T> work)
     {
         var one = new ConcurrentExclusiveSchedulerPair(TaskScheduler.Default, 1).ExclusiveScheduler;
-        return Task.Factory.StartNew(work, CancellationToken.None, TaskCreationOptions.None, one).GetAwaiter().GetResult();
+        return Task.Factory.StartNew(work, CancellationToken.None, TaskCreationOptions.None, one)
+            .GetAwaiter().GetResult();
     }
 
     [Theory]
@@ -153,7 +156,8 @@ public sealed class ReferenceScorerTests
             terms[hb] = t;
         }
         double max = terms.Max();
-        Close(max + Math.Log(terms.Sum(x => Math.Exp(x - max))), ExactLogPartition.Compute(m).LogPartition, 1e-12, "log Z");
+        double expected = max + Math.Log(terms.Sum(x => Math.Exp(x - max)));
+        Close(expected, ExactLogPartition.Compute(m).LogPartition, 1e-12, "log Z");
     }
 
     [Fact]

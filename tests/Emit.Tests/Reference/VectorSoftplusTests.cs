@@ -10,7 +10,7 @@ namespace Emit.Tests.Reference;
 /// </summary>
 public sealed class VectorSoftplusTests(ITestOutputHelper output)
 {
-    /// <summary>Distance in units in the last place between two non-negative doubles (bit patterns are ordered).</summary>
+    /// <summary>Distance in ulps between two non-negative doubles (their bit patterns are ordered).</summary>
     private static long Ulps(double a, double b) =>
         Math.Abs(BitConverter.DoubleToInt64Bits(a) - BitConverter.DoubleToInt64Bits(b));
 
@@ -100,7 +100,8 @@ public sealed class VectorSoftplusTests(ITestOutputHelper output)
     public void Matches_high_precision_values(double x, double expected)
     {
         double got = VectorSoftplus.Of(x);
-        Assert.True(Math.Abs(got - expected) <= 4e-16 * Math.Abs(expected), $"softplus({x}) = {got:R}, expected {expected:R}");
+        Assert.True(Math.Abs(got - expected) <= 4e-16 * Math.Abs(expected),
+            $"softplus({x}) = {got:R}, expected {expected:R}");
     }
 
     [Fact]
@@ -124,7 +125,8 @@ public sealed class VectorSoftplusTests(ITestOutputHelper output)
             var lane = new double[8];
             for (int j = 0; j < n; j++) lane[j % 8] += VectorSoftplus.Of(x[j]);
             double expected = ((lane[0] + lane[4]) + (lane[2] + lane[6])) + ((lane[1] + lane[5]) + (lane[3] + lane[7]));
-            Assert.Equal(BitConverter.DoubleToInt64Bits(expected), BitConverter.DoubleToInt64Bits(VectorSoftplus.Sum(x)));
+            Assert.Equal(BitConverter.DoubleToInt64Bits(expected),
+                BitConverter.DoubleToInt64Bits(VectorSoftplus.Sum(x)));
             double plain = x.Sum(Softplus.Of);
             Assert.True(Math.Abs(plain - VectorSoftplus.Sum(x)) <= 1e-14 * Math.Max(1, Math.Abs(plain)), $"n = {n}");
         }
