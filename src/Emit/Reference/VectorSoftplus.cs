@@ -118,7 +118,8 @@ public static class VectorSoftplus
             + rr * (Vector512.Create(P4) + rr * Vector512.Create(P5)))));
         var one = Vector512.Create(1.0);
         var p = one - ((lo - r * c / (Vector512.Create(2.0) - c)) - hi);   // e^r in [0.7, 1.42]
-        var k1 = Vector512.ShiftRightArithmetic(k, 1);
+        // k = k1 + k2 with k1 = round(k/2) by the same rounding trick (no 64-bit arithmetic shift, which AVX2 lacks).
+        var k1 = (kd * Vector512.Create(0.5) + magic).AsInt64() - magic.AsInt64();
         var k2 = k - k1;
         var bias = Vector512.Create(1023L);
         var s1 = Vector512.ShiftLeft(k1 + bias, 52).AsDouble();      // 2^k1 and 2^k2, both normal
