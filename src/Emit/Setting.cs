@@ -27,4 +27,8 @@ public enum Setting
     CCompiler,
     /// <summary>Replace files emit did not write.</summary>
     Force,
+    /// <summary>Generated code: streamed scoring.</summary>
+    Stream,
+    /// <summary>Generated code: explanations.</summary>
+    Explain,
 }

@@ -58,6 +58,18 @@ public sealed class CompileCommand : ICliCommand
                       "flash-limited parts such as Cortex-M0); the results are bit-identical [default: speed]",
     };
 
+    private readonly Option<bool> _stream = new("--stream")
+    {
+        Description = "Also emit streamed scoring (NAME_stream_reset/_flip/_free_energy: O(hidden) per " +
+                      "flipped unit); kinds rbm and lateral",
+    };
+
+    private readonly Option<bool> _explain = new("--explain")
+    {
+        Description = "Also emit explanations (NAME_explain: the units whose flip lowers the free energy most); " +
+                      "implies the streamed-scoring code; kinds rbm and lateral",
+    };
+
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
@@ -65,7 +77,7 @@ public sealed class CompileCommand : ICliCommand
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
         foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest,
-            _optimize })
+            _optimize, _stream, _explain })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -86,7 +98,9 @@ public sealed class CompileCommand : ICliCommand
                 parse.GetValue(_selfTest),
                 mode == NumericMode.Fixed ? _fixed.Read(parse) : null,
                 parse.GetValue(_optimize),
-                parse.GetValue(_force));
+                parse.GetValue(_force),
+                parse.GetValue(_stream),
+                parse.GetValue(_explain));
         });
         return cmd;
     }
@@ -94,10 +108,11 @@ public sealed class CompileCommand : ICliCommand
     private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name,
         string ns,
         string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions,
-        OptimizeFor optimize, bool force)
+        OptimizeFor optimize, bool force, bool stream, bool explain)
     {
         name ??= Naming.ScorerNameFromFile(modelPath);
-        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize);
+        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize, stream,
+            explain);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
         CompiledScorer compiled;

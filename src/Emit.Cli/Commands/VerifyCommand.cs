@@ -54,6 +54,15 @@ public sealed class VerifyCommand : ICliCommand
             "templates",
         HelpName = "DIR",
     }.MustExist();
+    private readonly Option<bool> _stream = new("--stream")
+    {
+        Description = "Without --generated: also emit streamed scoring and check walks of flips from each vector " +
+            "(with --generated the manifest says)",
+    };
+    private readonly Option<bool> _explain = new("--explain")
+    {
+        Description = "Without --generated: also emit explanations and check them against the reference explainer",
+    };
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report")
     {
@@ -93,7 +102,8 @@ public sealed class VerifyCommand : ICliCommand
             "scorer");
         cmd.Arguments.Add(_model);
         foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange,
-            _failOnDecision, _templates, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
+            _failOnDecision, _templates, _stream, _explain, _report, _junit, _plot, _force, _cc, _cflags, _timeout,
+            _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.SetAction(parse => Run(ctx, parse));
@@ -134,6 +144,8 @@ public sealed class VerifyCommand : ICliCommand
             Name = parse.GetValue(_name),
             AllowModelChange = parse.GetValue(_allowModelChange),
             FailOnDecisionMismatch = parse.GetValue(_failOnDecision),
+            Stream = parse.GetValue(_stream),
+            Explain = parse.GetValue(_explain),
             TemplatesDirectory = parse.GetValue(_templates)?.FullName,
             Settings = new RunnerSettings(parse.GetValue(_cc), parse.GetValue(_cflags) ?? "",
                 TimeSpan.FromSeconds(timeout)),

@@ -17,6 +17,10 @@ public sealed class CEmitter : ITargetEmitter
     public const string CommonTemplate = "common.c.sbn";
     /// <summary>The licence hook printed at the top of every file (empty by default).</summary>
     public const string LicenceTemplate = "licence.sbn";
+    /// <summary>Included by the header when streamed scoring or explanations are emitted.</summary>
+    public const string StreamHeaderTemplate = "stream.h.sbn";
+    /// <summary>Included by both sources when streamed scoring or explanations are emitted.</summary>
+    public const string StreamSourceTemplate = "stream.c.sbn";
 
     /// <inheritdoc/>
     public string Name => "c";
@@ -26,7 +30,10 @@ public sealed class CEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".h", ".c"];
     /// <inheritdoc/>
     public IReadOnlyList<string> TemplateFiles { get; } =
-        [HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate];
+        [
+            HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate,
+            StreamHeaderTemplate, StreamSourceTemplate,
+        ];
 
     /// <inheritdoc/>
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)

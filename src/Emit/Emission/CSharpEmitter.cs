@@ -13,6 +13,8 @@ public sealed class CSharpEmitter : ITargetEmitter
     public const string CommonTemplate = "common.cs.sbn";
     /// <summary>The licence hook printed at the top of every file (empty by default).</summary>
     public const string LicenceTemplate = "licence.sbn";
+    /// <summary>Included by the C# templates when streamed scoring or explanations are emitted.</summary>
+    public const string StreamTemplate = "stream.cs.sbn";
 
     /// <inheritdoc/>
     public string Name => "csharp";
@@ -22,7 +24,7 @@ public sealed class CSharpEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
     /// <inheritdoc/>
     public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate,
-        LicenceTemplate];
+        LicenceTemplate, StreamTemplate];
 
     /// <inheritdoc/>
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)

@@ -8,6 +8,9 @@ namespace Emit.Emission;
 /// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file. <see cref="Fixed"/> holds the
 /// fixed-point choices (weights, accumulator, table size) and is used only with <see cref="NumericMode.Fixed"/>
 /// (null there means the defaults). <see cref="Optimize"/> chooses the code layout (never the results).
+/// <see cref="Stream"/> adds streamed scoring (a caller-owned state updated one flipped unit at a time) and
+/// <see cref="Explain"/> adds explanations (the units whose flip lowers the free energy most), which implies the
+/// streamed-scoring code; both are for kinds rbm and lateral (docs/generated-code.md).
 /// </summary>
 public sealed record CompileOptions(
     IReadOnlyList<string> Targets,
@@ -17,8 +20,13 @@ public sealed record CompileOptions(
     int SelfTestVectors = CompileOptions.DefaultSelfTestVectors,
     string? TemplatesDirectory = null,
     FixedPointOptions? Fixed = null,
-    OptimizeFor Optimize = OptimizeFor.Speed)
+    OptimizeFor Optimize = OptimizeFor.Speed,
+    bool Stream = false,
+    bool Explain = false)
 {
+    /// <summary>True when the streamed-scoring code is emitted (asked for, or needed by explanations).</summary>
+    public bool EmitsStream => Stream || Explain;
+
     /// <summary>The fixed-point options in effect (the defaults when none were given).</summary>
     public FixedPointOptions FixedOptions => Fixed ?? new FixedPointOptions();
 
@@ -45,6 +53,8 @@ public sealed record CompileOptions(
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
         text += $" --selftest-vectors {SelfTestVectors} --optimize {Optimize.ToText()}";
+        if (Stream) text += " --stream";
+        if (Explain) text += " --explain";
         if (TemplatesDirectory is not null) text += " --templates (custom)";
         return text;
     }

@@ -122,6 +122,7 @@ public sealed class FixedScorerPlan : ScorerPlan
                 $"use 1 to {CompileOptions.MaxSelfTestVectors}");
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
+        CheckFeatures(model, options);
         plan ??= FixedPointPlanner.Build(model, options.FixedOptions);
         if (!ReferenceEquals(plan.Model, model) && plan.Model.Sha256 != model.Sha256)
             throw new ArgumentException("the plan belongs to another model", nameof(plan));
@@ -173,7 +174,39 @@ public sealed class FixedScorerPlan : ScorerPlan
 
         s.ErrorBound = plan.ErrorBound;
         s.SelfTest = BuildSelfTest(model, plan, options.SelfTestVectors);
+        if (s.HasStream)
+        {
+            // the stream's integers are the scorer's (docs/fixed-point.md §8), and ΔF is the difference of two of them
+            s.StreamErrorBound = plan.ErrorBound;
+            s.ExplainErrorBound = 2 * plan.ErrorBound;
+            s.ExplainChangeMax = ExplainChange(s);
+            if (options.Explain && s.ExplainChangeMax > (Int128)s.AccumulatorMax)
+                throw new EmitException(
+                    $"an explanation's change of free energy may reach {s.ExplainChangeMax} energy units, more " +
+                    "than the " +
+                    $"{s.AccumulatorBits}-bit accumulator holds",
+                    $"use {Setting.Accumulator.Ref()} int64, or leave {Setting.Explain.Ref()} out");
+        }
         return s;
+    }
+
+    /// <summary>
+    /// Explanations: the largest magnitude of any partial sum of a flip's change of the integer free energy, summed
+    /// term by term (docs/fixed-point.md §8): |bq_i|, the change of the rescaled lateral sum (at most twice the
+    /// largest magnitude of the lateral rescaling, which bounds its result), and per hidden unit the change of its
+    /// softplus, within [−max, max] of the unit's softplus range.
+    /// </summary>
+    public Int128 ExplainChangeMax { get; private set; }
+
+    private static Int128 ExplainChange(FixedScorerPlan s)
+    {
+        Int128 bias = 0;
+        foreach (var b in s.Fixed.VisibleBias) bias = Int128.Max(bias, Int128.Abs(b));
+        Int128 total = bias;
+        if (s.HasLinks && s.TryCheck("lateral.to_energy") is { } lat) total += 2 * lat.MaxAbs;
+        for (int j = 0; j < s.Hidden; j++)
+            if (s.TryCheck($"hidden[{j}].softplus") is { } sp) total += sp.MaxAbs;
+        return total;
     }
 
     private static IReadOnlyList<SelfTestCase> BuildSelfTest(BoltzmannModel model, FixedPointPlan plan, int count)

@@ -44,6 +44,41 @@ public sealed class FloatScorerPlan : ScorerPlan
     public double? Threshold { get; private set; }
 
     /// <summary>
+    /// Float streamed scoring accumulates afresh every max(64, VISIBLE) flips: on average at most one extra weight row
+    /// per flip (a fresh accumulation adds at most VISIBLE rows), and the bound grows with it.
+    /// </summary>
+    public override int StreamResyncFlips => HasStream ? Math.Max(64, Visible) : 0;
+
+    /// <summary>
+    /// Explanations in a float mode: |ΔF computed − exact ΔF| &lt;= this. ΔF = F(flipped) − F(v), with F(v) read from a
+    /// freshly accumulated state and F(flipped) one flip later (each within <see cref="FloatErrorBound.StreamWorst"/>
+    /// of one flip), then one subtraction, whose rounding is at most u·|ΔF| &lt;= u·(|exact ΔF| + 2·bound).
+    /// </summary>
+    public static double ExplainBound(BoltzmannModel model, NumericMode mode)
+    {
+        double one = FloatErrorBound.StreamWorst(model, mode, 1), u = FloatErrorBound.UnitRoundoff(mode);
+        return 2 * one * (1 + u) + u * LargestFlipChange(model);
+    }
+
+    /// <summary>max_i |b_i| + Σ_k |L_ik| + Σ_j |W_ij|: no flip changes the exact free energy by more.</summary>
+    private static double LargestFlipChange(BoltzmannModel model)
+    {
+        int v = model.Visible, h = model.Hidden;
+        var change = new double[v];
+        for (int i = 0; i < v; i++)
+        {
+            change[i] = Math.Abs(model.VisibleBias[i]);
+            for (int j = 0; j < h; j++) change[i] += Math.Abs(model.Weight(i, j));
+        }
+        foreach (var l in model.VisibleLinks)
+        {
+            change[l.I] += Math.Abs(l.W);
+            change[l.J] += Math.Abs(l.W);
+        }
+        return v > 0 ? change.Max() : 0;
+    }
+
+    /// <summary>
     /// Plans a scorer; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.
     /// </summary>
     public static FloatScorerPlan Build(BoltzmannModel model, CompileOptions options, string modelLabel)
@@ -52,6 +87,7 @@ public sealed class FloatScorerPlan : ScorerPlan
         if (!mode.IsFloat()) throw new ArgumentException("float modes only", nameof(options));
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
+        CheckFeatures(model, options);
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
             throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range",
                 $"use 1 to {CompileOptions.MaxSelfTestVectors}");
@@ -88,6 +124,14 @@ public sealed class FloatScorerPlan : ScorerPlan
         plan.ErrorBound = FloatErrorBound.Worst(model, mode);
         FloatRangeCheck.Check(model, mode, plan.ErrorBound);
         plan.SelfTest = BuildSelfTest(model, mode, options.SelfTestVectors);
+        if (plan.HasStream)
+        {
+            plan.StreamErrorBound = FloatErrorBound.StreamWorst(model, mode, plan.StreamResyncFlips);
+            // ΔF = F(flipped) − F(v): F from a fresh state, F(flipped) one flip later, then one subtraction, whose
+            // rounding is at most u·|ΔF| <= u·(|exact ΔF| + 2·bound); |exact ΔF| <= |b_i| + Σ_k |L_ik| + Σ_j |W_ij|
+            // (softplus is 1-Lipschitz).
+            plan.ExplainErrorBound = ExplainBound(model, mode);
+        }
 
         return plan;
     }

@@ -26,7 +26,71 @@ public abstract class ScorerPlan
         LinkHigher = [.. byHigher.Select(l => l.J)];
         LinksByHigher = [.. byHigher];
         if (!model.Names.IsEmpty) UnitComments = model.Names.Select(Naming.CommentText).ToArray();
+        // every link of a unit, whichever end it is: streamed scoring and explanations update a unit's field
+        var ends = new List<(int Other, int Link)>[model.Visible];
+        for (int i = 0; i < model.Visible; i++) ends[i] = [];
+        for (int n = 0; n < byHigher.Length; n++)
+        {
+            ends[byHigher[n].J].Add((byHigher[n].I, n));
+            ends[byHigher[n].I].Add((byHigher[n].J, n));
+        }
+        var adjacent = new int[model.Visible + 1];
+        for (int i = 0; i < model.Visible; i++) adjacent[i + 1] = adjacent[i] + ends[i].Count;
+        var sorted = ends.Select(e => e.OrderBy(x => x.Other).ToArray()).ToArray();
+        AdjacentStart = [.. adjacent];
+        AdjacentOther = [.. sorted.SelectMany(e => e.Select(x => x.Other))];
+        AdjacentLink = [.. sorted.SelectMany(e => e.Select(x => x.Link))];
     }
+
+    /// <summary>
+    /// Refuses the streamed-scoring and explanation options for a model they do not support (kind general: a flip
+    /// changes the 2^hidden-state log-sum-exp as a whole, so no per-unit update is cheaper than scoring afresh).
+    /// </summary>
+    private protected static void CheckFeatures(BoltzmannModel model, CompileOptions options)
+    {
+        var setting = (options.Explain ? Setting.Explain : Setting.Stream).Ref();
+        if (options.EmitsStream && model.Kind == ModelKind.General)
+            throw new EmitException(
+                $"{setting} supports kinds rbm and lateral, not general " +
+                "(a flip changes the sum over all hidden states as a whole)",
+                $"leave {setting} out, or use emit explain on the host");
+        // NAME_stream_reset/_flip/_free_energy and NAME_explain differ within 10 characters after the name, inside the
+        // 31 significant characters of C99 5.2.4.1 for every name Naming.CheckScorerName accepts.
+    }
+
+    /// <summary>True when the streamed-scoring code is emitted (docs/generated-code.md).</summary>
+    public bool HasStream => Options.EmitsStream;
+
+    /// <summary>True when the explanation code is emitted.</summary>
+    public bool HasExplain => Options.Explain;
+
+    /// <summary>
+    /// All links of each visible unit (either end), for streamed scoring: those of unit i are entries
+    /// AdjacentStart[i] .. AdjacentStart[i+1]−1 of <see cref="AdjacentOther"/> (the other unit, increasing) and
+    /// <see cref="AdjacentLink"/> (the link's index in <see cref="LinkOther"/> and the link weights).
+    /// </summary>
+    public ImmutableArray<int> AdjacentStart { get; }
+
+    /// <summary>The other unit of each entry of the adjacency lists (see <see cref="AdjacentStart"/>).</summary>
+    public ImmutableArray<int> AdjacentOther { get; }
+
+    /// <summary>The link index of each entry of the adjacency lists (see <see cref="AdjacentStart"/>).</summary>
+    public ImmutableArray<int> AdjacentLink { get; }
+
+    /// <summary>
+    /// Streamed scoring: |stream free energy − exact free energy| &lt;= this (nats) after any sequence of flips; the
+    /// scorer's bound in fixed mode (the stream is bit-identical to it).
+    /// </summary>
+    public double StreamErrorBound { get; private protected set; }
+
+    /// <summary>Explanations: |ΔF computed − exact ΔF| &lt;= this (nats) for every input and unit.</summary>
+    public double ExplainErrorBound { get; private protected set; }
+
+    /// <summary>
+    /// Float streamed scoring: the state is accumulated afresh from the current input every this many flips, which
+    /// keeps rounding drift inside <see cref="StreamErrorBound"/>; 0 in fixed mode (integer updates are exact).
+    /// </summary>
+    public virtual int StreamResyncFlips => 0;
 
     /// <summary>
     /// Refuses a general model with more than <see cref="FloatScorerPlan.MaxGeneralHidden"/> hidden units, with the

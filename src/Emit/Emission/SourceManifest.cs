@@ -61,6 +61,15 @@ public sealed record SourceManifest
     /// <summary>Self-test vectors compiled in.</summary>
     public required int SelfTestVectors { get; init; }
 
+    /// <summary>True when the sources have streamed scoring (compiled with the stream option).</summary>
+    public bool Stream { get; init; }
+
+    /// <summary>True when the sources have explanations (the explain option; implies the stream code).</summary>
+    public bool Explain { get; init; }
+
+    /// <summary>True when the sources hold the streamed-scoring API (asked for, or needed by explanations).</summary>
+    public bool HasStream => Stream || Explain;
+
     /// <summary>True when a templates folder overrode shipped templates (<see cref="Templates"/> says which).</summary>
     public required bool CustomTemplates { get; init; }
 
@@ -114,7 +123,7 @@ public sealed record SourceManifest
     /// </summary>
     public CompileOptions ToCompileOptions(IReadOnlyList<string> targets, string? templatesDirectory) =>
         new(targets, Numeric, Name, Namespace, SelfTestVectors, templatesDirectory,
-            Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null);
+            Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null, Stream: Stream, Explain: Explain);
 
     /// <summary>The manifest for a compilation.</summary>
     internal static SourceManifest Describe(ScorerPlan plan, IReadOnlyList<string> targets,
@@ -136,6 +145,8 @@ public sealed record SourceManifest
             Name = options.Name,
             Namespace = options.Namespace,
             SelfTestVectors = options.SelfTestVectors,
+            Stream = options.Stream,
+            Explain = options.Explain,
             CustomTemplates = options.TemplatesDirectory is not null,
             Fixed = fixedPlan is null ? null : options.FixedOptions,
             EnergyType = fixedPlan is null ? options.Numeric.ToText() : fixedPlan.Accumulator.ToText(),

@@ -46,6 +46,9 @@ public static class SourceManifestJson
             w.WriteString("namespace", m.Namespace);
             w.WriteNumber("selftest_vectors", m.SelfTestVectors);
             w.WriteString("templates", m.CustomTemplates ? "custom" : "shipped");
+            // firmware features: written only when on, so a manifest without them is unchanged
+            if (m.Stream) w.WriteBoolean("stream", true);
+            if (m.Explain) w.WriteBoolean("explain", true);
             if (m.Fixed is { } f)
             {
                 w.WriteStartObject("fixed");
@@ -150,6 +153,8 @@ public static class SourceManifestJson
                 Name = options.Text("name"),
                 Namespace = options.Text("namespace"),
                 SelfTestVectors = options.Int("selftest_vectors"),
+                Stream = options.Has("stream") && options.Bool("stream"),
+                Explain = options.Has("explain") && options.Bool("explain"),
                 CustomTemplates = options.Text("templates") switch
                 {
                     "custom" => true,
@@ -227,6 +232,17 @@ public static class SourceManifestJson
         {
             var v = Get(name);
             return v.ValueKind == JsonValueKind.Number && v.TryGetInt64(out long n) ? n : throw Not(name, "an integer");
+        }
+
+        public bool Bool(string name)
+        {
+            var v = Get(name);
+            return v.ValueKind switch
+            {
+                JsonValueKind.True => true,
+                JsonValueKind.False => false,
+                _ => throw Not(name, "true or false"),
+            };
         }
 
         public double Number(string name)

@@ -13,4 +13,23 @@ public sealed class CSharpHarnessModel
 
     /// <summary>True when the model has a threshold, so the harness also prints decisions.</summary>
     public required bool HasThreshold { get; init; }
+
+    /// <summary>True: the harness runs a walk of flips through streamed scoring per input (<see cref="StreamWalk"/>).
+    /// </summary>
+    public bool Stream { get; init; }
+
+    /// <summary>True: the harness asks for an explanation of each input.</summary>
+    public bool Explain { get; init; }
+
+    /// <summary>The C# type of the scorer's result (float, double, int, long).</summary>
+    public string EnergyType { get; init; } = "float";
+
+    /// <summary>Flips of each walk (<see cref="StreamWalk.Steps"/>).</summary>
+    public int StreamSteps { get; init; }
+
+    /// <summary>The flip after which the stream is read first (<see cref="StreamWalk.FirstRead"/>).</summary>
+    public int StreamFirstRead { get; init; }
+
+    /// <summary>Units asked for per explanation (<see cref="StreamWalk.ExplainUnits"/>).</summary>
+    public int ExplainUnits { get; init; } = StreamWalk.ExplainUnits;
 }

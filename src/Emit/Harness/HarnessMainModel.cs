@@ -31,4 +31,20 @@ public sealed class HarnessMainModel
 
     /// <summary>Embedded: the inputs as rows of the C table, one per line.</summary>
     public string VectorRows { get; init; } = "";
+
+    /// <summary>True: the harness runs a walk of flips through streamed scoring per input (<see cref="StreamWalk"/>).
+    /// </summary>
+    public bool Stream { get; init; }
+
+    /// <summary>True: the harness asks for an explanation of each input.</summary>
+    public bool Explain { get; init; }
+
+    /// <summary>Flips of each walk (<see cref="StreamWalk.Steps"/>).</summary>
+    public int StreamSteps { get; init; }
+
+    /// <summary>The flip after which the stream is read first (<see cref="StreamWalk.FirstRead"/>).</summary>
+    public int StreamFirstRead { get; init; }
+
+    /// <summary>Units asked for per explanation (<see cref="StreamWalk.ExplainUnits"/>).</summary>
+    public int ExplainUnits { get; init; } = StreamWalk.ExplainUnits;
 }

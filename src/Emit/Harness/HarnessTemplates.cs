@@ -63,6 +63,10 @@ public static class HarnessTemplates
             Embedded = isEmbedded,
             VectorCount = embeddedRows,
             VectorRows = rows.ToString().TrimEnd('\n'),
+            Stream = sources.Manifest.HasStream,
+            Explain = sources.Manifest.Explain,
+            StreamSteps = StreamWalk.Steps(layout.Visible),
+            StreamFirstRead = StreamWalk.FirstRead(layout.Visible),
         };
         return Renderer.Render(Folder, MainTemplate, model);
     }
@@ -75,6 +79,17 @@ public static class HarnessTemplates
             ClassName = sources.ClassName!,
             Class = sources.QualifiedClass,
             HasThreshold = sources.HasThreshold,
+            Stream = sources.Manifest.HasStream,
+            Explain = sources.Manifest.Explain,
+            EnergyType = sources.Manifest.EnergyType switch
+            {
+                "f64" => "double",
+                "int32" => "int",
+                "int64" => "long",
+                _ => "float",
+            },
+            StreamSteps = StreamWalk.Steps(sources.Manifest.Visible),
+            StreamFirstRead = StreamWalk.FirstRead(sources.Manifest.Visible),
         });
 
     /// <summary>The Cortex-M3 start-up source, written as <paramref name="fileName"/>.</summary>

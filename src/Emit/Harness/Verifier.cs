@@ -77,7 +77,8 @@ public static class Verifier
             {
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
-                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions);
+                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions,
+                    Stream: request.Stream, Explain: request.Explain);
                 foreach (var f in ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)
@@ -114,6 +115,8 @@ public static class Verifier
                     continue;
                 }
             }
+            if (state.Sources.Manifest.HasStream) state.Stream = new StreamCheck(model, expectation);
+            if (state.Sources.Manifest.Explain) state.Explain = new ExplainCheck(model, expectation);
             var watch = Stopwatch.StartNew();
             state.Session = runner.Start(state.Sources, layout, request.Settings, Path.Combine(work, runner.Name),
                 out var failure);
@@ -160,8 +163,12 @@ public static class Verifier
                         continue;
                     }
                     for (int r = 0; r < rows; r++)
+                    {
                         s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null,
                             results[r]);
+                        s.Stream?.Add(index + r, units.AsSpan(r * v, v), packed.AsSpan(r * pb, pb), results[r]);
+                        s.Explain?.Add(index + r, units.AsSpan(r * v, v), results[r]);
+                    }
                 }
                 index += rows;
             }
@@ -184,7 +191,7 @@ public static class Verifier
             Threshold = model.Threshold,
             Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources,
                 request.GeneratedDirectory is null, model.Sha256, s.SelfTest, s.Failures, s.BuildSeconds,
-                s.ScoreSeconds, s.Check)).ToArray(),
+                s.ScoreSeconds, s.Check, s.Features())).ToArray(),
             Warnings = warnings,
             AllowModelChange = request.AllowModelChange,
             FailOnDecisionMismatch = request.FailOnDecisionMismatch,
@@ -255,5 +262,10 @@ public static class Verifier
         public List<string> Failures { get; } = [];
         public double BuildSeconds { get; set; }
         public double ScoreSeconds { get; set; }
+        public StreamCheck? Stream { get; set; }
+        public ExplainCheck? Explain { get; set; }
+
+        public IReadOnlyList<FeatureResult> Features() =>
+            new[] { Stream?.Result(), Explain?.Result() }.OfType<FeatureResult>().ToArray();
     }
 }

@@ -37,6 +37,13 @@ public sealed record VerifyRequest
     /// </summary>
     public string? Name { get; init; }
 
+    /// <summary>Sources generated here: also emit and check streamed scoring (sources given: their manifest says).
+    /// </summary>
+    public bool Stream { get; init; }
+
+    /// <summary>Sources generated here: also emit and check explanations (implies the stream code).</summary>
+    public bool Explain { get; init; }
+
     /// <summary>
     /// With <see cref="GeneratedDirectory"/>: compare the numbers even when the sources were generated from another
     /// model (otherwise such sources fail without being run).

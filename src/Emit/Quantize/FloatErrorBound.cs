@@ -70,6 +70,21 @@ public static class FloatErrorBound
         Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true);
 
     /// <summary>
+    /// The bound over every input for streamed scoring (docs/generated-code.md): the state is accumulated from the
+    /// input one row at a time, then updated by at most <paramref name="flips"/> flips (each adds or subtracts one
+    /// weight row and one visible field b_i + Σ_k L_ik v_k) before it is accumulated afresh. Every term of a
+    /// pre-activation or of the linear sum then meets at most V + flips (pre-activations) or all links + V +
+    /// flips·(1 + most links of a unit) (linear part) roundings, and the magnitudes summed grow by flips times the
+    /// largest row entry or field; recursive summation of n terms in any order is within γ_(n−1) Σ|x_i| (Higham §4.2).
+    /// The read is the scorer's own softplus sum, so the rest of the derivation is <see cref="Worst"/>'s.
+    /// </summary>
+    public static double StreamWorst(BoltzmannModel model, NumericMode mode, long flips)
+    {
+        ArgumentOutOfRangeException.ThrowIfNegative(flips);
+        return Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true, flips);
+    }
+
+    /// <summary>
     /// A bound on the error of <see cref="ReferenceScorer"/> itself (double precision; general models summed in
     /// blocks of 2^14 states with running rescaling), so a tolerance can allow for the expected value's own error.
     /// </summary>
@@ -83,7 +98,8 @@ public static class FloatErrorBound
     public static double ReferenceWorst(BoltzmannModel model) =>
         Compute(model, UnitRoundoff(NumericMode.F64), null, Math.Min(model.Hidden, 14), pairwise: false);
 
-    private static double Compute(BoltzmannModel m, double u, byte[]? units, int blockBits, bool pairwise)
+    private static double Compute(BoltzmannModel m, double u, byte[]? units, int blockBits, bool pairwise,
+        long flips = 0)
     {
         int v = m.Visible, h = m.Hidden;
         double a = LibmUlps * 2 * u;
@@ -98,6 +114,23 @@ public static class FloatErrorBound
             if (On(i)) { linAbs += Math.Abs(m.VisibleBias[i]); lin += m.VisibleBias[i]; linTerms++; }
         foreach (var l in m.VisibleLinks)
             if (On(l.I) && On(l.J)) { linAbs += Math.Abs(l.W); lin += l.W; linTerms++; }
+        if (flips > 0)
+        {
+            // streamed scoring: each flip adds a field b_i + Σ_k L_ik v_k of at most 1 + degree terms
+            var degree = new int[v];
+            var field = new double[v];
+            for (int i = 0; i < v; i++) field[i] = Math.Abs(m.VisibleBias[i]);
+            foreach (var l in m.VisibleLinks)
+            {
+                degree[l.I]++;
+                degree[l.J]++;
+                field[l.I] += Math.Abs(l.W);
+                field[l.J] += Math.Abs(l.W);
+            }
+            linTerms += flips * (1 + (v > 0 ? degree.Max() : 0));
+            linAbs += flips * (v > 0 ? field.Max() : 0);
+            k += (int)Math.Min(int.MaxValue - k, flips);
+        }
         double linErr = (u + Gamma(linTerms, u) * (1 + u)) * linAbs;
         double linMag = units is null ? linAbs : Math.Abs(lin);
         long nMax = Math.Max(linTerms, k);
@@ -117,6 +150,13 @@ public static class FloatErrorBound
                 abs += Math.Abs(w);
                 sum += w;
                 top += Math.Max(0, w);
+            }
+            if (flips > 0)
+            {
+                double largest = 0;
+                for (int i = 0; i < v; i++) largest = Math.Max(largest, Math.Abs(m.Weight(i, j)));
+                abs += flips * largest;
+                top += flips * largest;
             }
             aErr[j] = (u + gk * (1 + u)) * abs;
             aMag[j] = units is null ? abs : Math.Abs(sum);

@@ -40,10 +40,11 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
         Path.GetFullPath(Path.Combine(Path.GetDirectoryName(here)!, "..", "..", "..", "demo-data", "reefer-fleet.json"));
 
     private static Build Compile(string dir, string name, BoltzmannModel model, FixedPointOptions options, string gcc, string poison,
-        OptimizeFor optimize = OptimizeFor.Speed)
+        OptimizeFor optimize = OptimizeFor.Speed, bool stream = false, bool explain = false)
     {
         var plan = FixedPointPlanner.Build(model, options);
-        var compileOptions = new CompileOptions(["c"], NumericMode.Fixed, name, Fixed: options, Optimize: optimize);
+        var compileOptions = new CompileOptions(["c"], NumericMode.Fixed, name, Fixed: options, Optimize: optimize,
+            Stream: stream, Explain: explain);
         foreach (var f in ScorerCompiler.Compile(model, name + ".json", compileOptions))
             File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
         var obj = Path.Combine(dir, name + ".o");
@@ -64,7 +65,8 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
     /// The deepest stack over the call graph (VCG text of -fcallgraph-info=su) from the public functions: each node's
     /// frame from its "N bytes (static)" label, a library node's from <paramref name="helpers"/>.
     /// </summary>
-    internal static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers)
+    internal static int WorstStack(string ci, string name, IReadOnlyDictionary<string, int> helpers,
+        string[]? entries = null)
     {
         var frames = new Dictionary<string, int>(StringComparer.Ordinal);
         foreach (Match m in Regex.Matches(ci, @"node: \{ title: ""([^""]+)"" label: ""([^""]*)"""))
@@ -82,7 +84,7 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
             int own = frames.TryGetValue(fn, out int f) ? f : helpers.TryGetValue(fn, out int h) ? h : throw new InvalidOperationException($"no stack figure for {fn}");
             return own + (edges.TryGetValue(fn, out var callees) ? callees.Max(c => Depth(c, guard + 1)) : 0);
         }
-        return new[] { "_free_energy", "_free_energy_units", "_selftest", "_is_unusual" }
+        return (entries ?? ["_free_energy", "_free_energy_units", "_selftest", "_is_unusual"])
             .Where(s => frames.ContainsKey(name + s)).Max(s => Depth(name + s, 0));
     }
 
@@ -154,6 +156,68 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
                 $"{b.Name}: flash {b.Flash}, predicted {b.Predicted.FlashBytes}");
             Assert.True(b.Stack <= b.Predicted.StackBytes, $"{b.Name}: stack {b.Stack} above the predicted {b.Predicted.StackBytes}");
             Assert.True(b.Predicted.StackBytes <= 1.5 * b.Stack + 64, $"{b.Name}: predicted stack {b.Predicted.StackBytes} far above the measured {b.Stack}");
+        }
+    }
+
+    /// <summary>
+    /// Fixed mode with streamed scoring and explanations still needs no floating-point, division or libm symbol on
+    /// Cortex-M0, and the header's extra flash of each feature (<see cref="FeatureFootprint"/>) is within 15 % + 128
+    /// bytes of the measured difference between builds with and without it; the stated stack of NAME_explain is an
+    /// upper bound of the measured one and not far above it.
+    /// </summary>
+    [SkippableFact]
+    public void Fixed_c_with_stream_and_explain_stays_integer_only_and_the_header_states_its_cost()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        Toolchain.Require("arm-none-eabi-nm");
+        var dir = Toolchain.TempDir("m0-features");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var demo = ModelLoader.Load(ReferenceModelPath());
+        var cases = new List<(string Name, BoltzmannModel Model, FixedPointOptions Options)>
+        {
+            ("reefer_a32", demo, new FixedPointOptions(WeightType.Int16, AccumulatorType.Int32)),
+            ("reefer_a64", demo, new FixedPointOptions(WeightType.Int16, AccumulatorType.Int64)),
+        };
+        // a single visible unit lets the compiler fold the loops over units: the model does not cover it (stated)
+        cases.AddRange(FixedCodegenCases.All.Where(c => c.Case.Model.Kind != ModelKind.General && c.Case.Model.Visible > 1)
+            .Select((c, k) => ("c" + k, c.Case.Model, c.Options)));
+        output.WriteLine("case | stream flash measured / predicted | explain flash measured / predicted | explain stack");
+        foreach (var (name, model, options) in cases)
+        {
+            FixedScorerPlan plan;
+            try
+            {
+                plan = FixedScorerPlan.Build(model, new CompileOptions(["c"], NumericMode.Fixed, name, Fixed: options,
+                    Explain: true), name + ".json");
+            }
+            catch (EmitException e) when (e.Message.Contains("accumulator holds", StringComparison.Ordinal))
+            {
+                output.WriteLine($"{name} | explain refused: {e.Message}");
+                continue;
+            }
+            var plain = Compile(dir, name + "_p", model, options, gcc, poison);
+            var stream = Compile(dir, name + "_s", model, options, gcc, poison, stream: true);
+            var both = Compile(dir, name + "_e", model, options, gcc, poison, explain: true);
+            foreach (var b in new[] { stream, both })
+                foreach (var symbol in b.Undefined)
+                {
+                    Assert.False(Forbidden.IsMatch(symbol), $"{b.Name} needs {symbol}");
+                    Assert.True(Allowed.IsMatch(symbol), $"{b.Name} needs {symbol}, which is not an integer helper");
+                }
+            var d = new Emit.Emission.Dialects.CDialect(plan);
+            long streamMeasured = stream.Flash - plain.Flash, explainMeasured = both.Flash - stream.Flash;
+            int explainStack = WorstStack(File.ReadAllText(Path.Combine(dir, name + "_e.ci")), name + "_e",
+                HelperStack(gcc), ["_explain"]);
+            output.WriteLine($"{name} | {streamMeasured} / {d.StreamFlashBytes} | {explainMeasured} / {d.ExplainFlashBytes}" +
+                             $" | {explainStack} / {d.ExplainStackBytes}");
+            Assert.True(Math.Abs(streamMeasured - d.StreamFlashBytes) <= 0.15 * streamMeasured + 128,
+                $"{name}: stream flash {streamMeasured}, predicted {d.StreamFlashBytes}");
+            Assert.True(Math.Abs(explainMeasured - d.ExplainFlashBytes) <= 0.15 * explainMeasured + 128,
+                $"{name}: explain flash {explainMeasured}, predicted {d.ExplainFlashBytes}");
+            Assert.True(explainStack <= d.ExplainStackBytes, $"{name}: explain stack {explainStack} above {d.ExplainStackBytes}");
+            Assert.True(d.ExplainStackBytes <= 1.5 * explainStack + 64,
+                $"{name}: predicted explain stack {d.ExplainStackBytes} far above the measured {explainStack}");
         }
     }
 }

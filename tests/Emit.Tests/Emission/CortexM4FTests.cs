@@ -74,4 +74,43 @@ public sealed class CortexM4FTests(ITestOutputHelper output)
         File.WriteAllLines(Path.Combine(dir, "footprint.txt"), table);
         Assert.True(failures.Count == 0, string.Join("\n", failures) + "\n" + string.Join("\n", table));
     }
+
+    /// <summary>
+    /// The extra flash of streamed scoring and explanations the header states for the float modes
+    /// (<see cref="FeatureFootprint"/>) is within 15 % + 128 bytes of the difference arm-none-eabi-size measures
+    /// between builds with and without each feature, on the demo model and the rbm and lateral codegen models.
+    /// </summary>
+    [SkippableFact]
+    public void Float_stream_and_explain_flash_is_as_the_header_states()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        var size = Toolchain.Require("arm-none-eabi-size");
+        var dir = Toolchain.TempDir("m4f-features");
+        var models = new List<(string Id, BoltzmannModel Model)> { ("reefer", ModelLoader.Load(ReferenceModelPath())) };
+        models.AddRange(CodegenCases.All.Where(c => c.Model.Kind != ModelKind.General && c.Model.Visible > 1)
+            .Select(c => (c.Id, c.Model)));
+        long Flash(string name, BoltzmannModel model, NumericMode mode, bool stream, bool explain)
+        {
+            var options = new CompileOptions(["c"], mode, name, Stream: stream, Explain: explain);
+            foreach (var f in ScorerCompiler.Compile(model, name + ".json", options))
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            var obj = Path.Combine(dir, name + ".o");
+            Toolchain.RunOk(gcc, [.. Toolchain.Split(M4FFlags), "-I", dir, "-c", Path.Combine(dir, name + ".c"), "-o", obj]);
+            var fields = Toolchain.RunOk(size, [obj]).Split('\n', StringSplitOptions.RemoveEmptyEntries)[1]
+                .Split((char[])[' ', '\t'], StringSplitOptions.RemoveEmptyEntries);
+            return long.Parse(fields[0], CultureInfo.InvariantCulture) + long.Parse(fields[1], CultureInfo.InvariantCulture);
+        }
+        foreach (var (id, model) in models)
+            foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
+            {
+                string n = id + "_" + mode.ToText();
+                long plain = Flash(n + "p", model, mode, false, false), stream = Flash(n + "s", model, mode, true, false);
+                long both = Flash(n + "e", model, mode, false, true);
+                var plan = FloatScorerPlan.Build(model, new CompileOptions(["c"], mode, n, Explain: true), n + ".json");
+                long ps = FeatureFootprint.StreamFlash(plan), pe = FeatureFootprint.ExplainFlash(plan);
+                output.WriteLine($"{n} | stream {stream - plain} / {ps} | explain {both - stream} / {pe}");
+                Assert.True(Math.Abs(stream - plain - ps) <= 0.15 * (stream - plain) + 128, $"{n}: stream {stream - plain}, predicted {ps}");
+                Assert.True(Math.Abs(both - stream - pe) <= 0.15 * (both - stream) + 128, $"{n}: explain {both - stream}, predicted {pe}");
+            }
+    }
 }

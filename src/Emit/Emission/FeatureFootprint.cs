@@ -1,0 +1,61 @@
+using Emit.Quantize;
+
+namespace Emit.Emission;
+
+/// <summary>
+/// The extra flash and RAM of streamed scoring and explanations on the mode's reference core
+/// (<see cref="FootprintModel"/>): flash = code, a constant per mode and accumulator width measured with
+/// arm-none-eabi-size on builds of Debian's arm-none-eabi-gcc 12.2 with and without the feature (the demo model and the
+/// codegen test models; docs/generated-code.md), plus for lateral models the adjacency tables, whose sizes follow
+/// from the link count. RAM: the caller's <c>NAME_stream_t</c> (<see cref="Dialects.CDialect.StreamBytes"/>); stack of
+/// <c>NAME_explain</c>: its frame (a <c>NAME_stream_t</c>, in fixed mode HIDDEN accumulators, saved registers) plus
+/// the deepest callee and the library allowance, meant as an upper bound. The tests check flash within 15 % + 128 bytes
+/// and the stack as an upper bound not far above the measured one, as for the scorer, on models with at least two
+/// visible units (with one, the compiler folds the loops over units and the code is smaller than stated).
+/// </summary>
+public static class FeatureFootprint
+{
+    /// <summary>Predicted extra flash of the stream code (bytes), 0 when it is not emitted.</summary>
+    public static long StreamFlash(ScorerPlan plan)
+    {
+        if (!plan.HasStream) return 0;
+        bool wide = Wide(plan);
+        long code = plan is FixedScorerPlan ? (wide ? 300 : 240) : (wide ? 360 : 340);
+        if (!plan.HasHidden) code = wide ? 150 : 115; // no row loops
+        if (plan.HasLinks)
+        {
+            long links = plan.LinkCount;
+            code += 80;
+            code += Table(plan.Visible + 1, 2 * links <= 0xFFFF ? 2 : 4)
+                    + Table(2 * links, plan.Visible <= 0x10000 ? 2 : 4)
+                    + Table(2 * links, links <= 0xFFFF ? 2 : 4);
+        }
+        return code;
+    }
+
+    /// <summary>Predicted extra flash of the explanation code beyond the stream code (bytes), 0 without it.</summary>
+    public static long ExplainFlash(ScorerPlan plan)
+    {
+        if (!plan.HasExplain) return 0;
+        bool wide = Wide(plan);
+        long code = plan is FixedScorerPlan ? (wide ? 420 : 320) : (wide ? 360 : 300);
+        if (!plan.HasHidden) code = wide ? 240 : 180;
+        return plan.HasLinks ? code + 80 : code;
+    }
+
+    /// <summary>Predicted worst-case stack of <c>NAME_explain</c> (bytes), 0 when it is not emitted.</summary>
+    public static int ExplainStack(ScorerPlan plan, long streamBytes)
+    {
+        if (!plan.HasExplain) return 0;
+        bool wide = Wide(plan);
+        long now = plan is FixedScorerPlan f ? (long)plan.Hidden * f.AccumulatorBits / 8 : 0;
+        long frame = streamBytes + now + (wide ? 112 : 80);
+        long callees = wide ? 96 : 64;
+        return (int)(frame + callees + CortexM0Footprint.LibraryStackAllowance);
+    }
+
+    private static bool Wide(ScorerPlan plan) =>
+        plan is FixedScorerPlan f ? f.Accumulator == AccumulatorType.Int64 : plan.Mode == NumericMode.F64;
+
+    private static long Table(long count, int size) => (count * size + 3) / 4 * 4;
+}
