@@ -1,4 +1,3 @@
-using System.Collections.Immutable;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
@@ -7,29 +6,22 @@ using Emit.Reference;
 
 // Benchmarks for the reference stage. Usage: dotnet run -c Release --project bench/Emit.Bench -- reference OUTDIR
 // Writes OUTDIR/model-784x500.json and OUTDIR/vectors.csv (for bench/numpy_reference.py, which times numpy on the
-// same files) and OUTDIR/reference-free-energy.txt, then prints the figures.
+// same files), OUTDIR/reference-free-energy.txt and OUTDIR/reference-timing.txt (vectors/s, which the numpy script
+// divides by its own figure), then prints the figures. `Emit.Bench profile` times the scorer's parts.
+if (args.Length == 1 && args[0] == "profile") return Profile.Run();
 if (args.Length < 2 || args[0] != "reference")
 {
-    Console.Error.WriteLine("usage: Emit.Bench reference OUTDIR");
+    Console.Error.WriteLine("usage: Emit.Bench reference OUTDIR | Emit.Bench profile");
     return 2;
 }
 string dir = args[1];
 Directory.CreateDirectory(dir);
 var inv = CultureInfo.InvariantCulture;
 
-static BoltzmannModel RandomRbm(int v, int h, int seed, double scale)
-{
-    var rng = new Random(seed);
-    double N() => scale * Math.Sqrt(-2 * Math.Log(1 - rng.NextDouble())) * Math.Cos(2 * Math.PI * rng.NextDouble());
-    return new BoltzmannModel(ModelKind.Rbm, v, h,
-        Enumerable.Range(0, v).Select(_ => N()).ToImmutableArray(),
-        Enumerable.Range(0, h).Select(_ => N()).ToImmutableArray(),
-        Enumerable.Range(0, v * h).Select(_ => N()).ToImmutableArray());
-}
 
 // 1. Reference scoring throughput, 784×500, 13% active bits.
 const int V = 784, H = 500, Rows = 20000;
-var model = RandomRbm(V, H, 1, 0.05);
+var model = BenchModels.RandomRbm(V, H, 1, 0.05);
 ModelJson.WriteFile(model, Path.Combine(dir, "model-784x500.json"), force: true);
 var rng = new Random(2);
 var units = new byte[Rows * V];
@@ -55,12 +47,13 @@ for (int rep = 0; rep < 5; rep++)
     best = Math.Min(best, sw.Elapsed.TotalSeconds);
 }
 File.WriteAllLines(Path.Combine(dir, "reference-free-energy.txt"), result.Select(x => x.ToString("R", inv)));
+File.WriteAllText(Path.Combine(dir, "reference-timing.txt"), (Rows / best).ToString("F0", inv) + "\n");
 Console.WriteLine($"reference_scoring  model=784x500 active=13% vectors={Rows} threads={Environment.ProcessorCount} " +
                   $"best_seconds={best.ToString("F4", inv)} vectors_per_second={(Rows / best).ToString("F0", inv)}");
 
 // 2. Exact log Z for a 784×20 model: 2^20 hidden states, each summing 784 softplus terms.
-var small = RandomRbm(784, 20, 3, 0.05);
-ExactLogPartition.Compute(RandomRbm(784, 12, 4, 0.05)); // warm-up
+var small = BenchModels.RandomRbm(784, 20, 3, 0.05);
+ExactLogPartition.Compute(BenchModels.RandomRbm(784, 12, 4, 0.05)); // warm-up
 var z = ExactLogPartition.Compute(small);
 Console.WriteLine($"exact_log_z  model=784x20 states={z.States} seconds={z.Seconds.ToString("F3", inv)} " +
                   $"states_per_second={(z.States / z.Seconds).ToString("F0", inv)} log_z={z.LogPartition.ToString("R", inv)}");

@@ -115,8 +115,7 @@ internal sealed class GrayCodeSum
         var result = LogSumExpAccumulator.Empty;
         for (long t = 0; ; t++)
         {
-            double score = quad;
-            for (int j = 0; j < m; j++) score += Softplus.Of(acc[j]);
+            double score = quad + VectorSoftplus.Sum(acc);
             result.Add(score);
             if (t == count - 1) break;
             int k = BitOperations.TrailingZeroCount((ulong)(start + t + 1));

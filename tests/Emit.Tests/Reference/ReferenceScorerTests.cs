@@ -69,18 +69,95 @@ public sealed class ReferenceScorerTests
     }
 
     [Theory]
-    [InlineData(ModelKind.Rbm, 120, 64)]
-    [InlineData(ModelKind.Lateral, 90, 33)]
-    public void Matches_a_straightforward_implementation_to_1e_12(ModelKind kind, int visible, int hidden)
+    [InlineData(ModelKind.Rbm, 120, 64, 0.3)]
+    [InlineData(ModelKind.Lateral, 90, 33, 0.3)]
+    [InlineData(ModelKind.Rbm, 784, 500, 0.05)]
+    [InlineData(ModelKind.Rbm, 131, 13, 2.0)]
+    public void Matches_a_straightforward_implementation_to_1e_12(ModelKind kind, int visible, int hidden, double scale)
     {
-        var m = TestModels.Random(kind, visible, hidden, 7, scale: 0.3, linkDensity: 0.1);
+        var m = TestModels.Random(kind, visible, hidden, 7, scale: scale, linkDensity: 0.1);
         var scorer = new ReferenceScorer(m);
         var rng = new Random(3);
-        for (int t = 0; t < 300; t++)
+        int rows = 300;
+        var units = new byte[rows * visible];
+        for (int t = 0; t < rows; t++)
         {
             var v = TestModels.RandomUnits(visible, rng, p: rng.NextDouble());
+            v.CopyTo(units, t * visible);
             Close(Straightforward(m, v), scorer.FreeEnergy(v), 1e-12, $"vector {t}");
         }
+        var batch = new double[rows];
+        scorer.FreeEnergies(units, rows, batch);
+        for (int t = 0; t < rows; t++)
+            Close(Straightforward(m, units.AsSpan(t * visible, visible).ToArray()), batch[t], 1e-12, $"batch {t}");
+    }
+
+    /// <summary>
+    /// Runs <paramref name="work"/> on a scheduler that runs one task at a time: Parallel.For then uses one thread.
+    /// </summary>
+    private static T OneThread<T>(Func<T> work)
+    {
+        var one = new ConcurrentExclusiveSchedulerPair(TaskScheduler.Default, 1).ExclusiveScheduler;
+        return Task.Factory.StartNew(work, CancellationToken.None, TaskCreationOptions.None, one)
+            .GetAwaiter().GetResult();
+    }
+
+    [Theory]
+    [InlineData(ModelKind.Rbm, 784, 500)]
+    [InlineData(ModelKind.Lateral, 70, 37)]
+    [InlineData(ModelKind.General, 30, 9)]
+    public void Batch_scoring_has_the_same_bits_on_one_thread_and_on_all(ModelKind kind, int visible, int hidden)
+    {
+        var m = TestModels.Random(kind, visible, hidden, 12, scale: 0.1, linkDensity: 0.1);
+        var scorer = new ReferenceScorer(m);
+        var rng = new Random(6);
+        int rows = 3000;
+        var units = new byte[rows * visible];
+        for (int k = 0; k < units.Length; k++) units[k] = (byte)(rng.NextDouble() < 0.13 ? 1 : 0);
+        var all = new double[rows];
+        scorer.FreeEnergies(units, rows, all);
+        var single = OneThread(() =>
+        {
+            var r = new double[rows];
+            scorer.FreeEnergies(units, rows, r);
+            return r;
+        });
+        Assert.Equal(all.Select(BitConverter.DoubleToInt64Bits), single.Select(BitConverter.DoubleToInt64Bits));
+    }
+
+    [Fact]
+    public void Exact_log_partition_has_the_same_bits_on_one_thread_and_on_all()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 200, 17, 13, scale: 0.2);
+        double all = ExactLogPartition.Compute(m).LogPartition;
+        double single = OneThread(() => ExactLogPartition.Compute(m).LogPartition);
+        Assert.Equal(BitConverter.DoubleToInt64Bits(all), BitConverter.DoubleToInt64Bits(single));
+    }
+
+    /// <summary>
+    /// log Z of an rbm written the obvious way: for each hidden state h, log Σ_v exp(−E) = c·h + Σ_i log(1 +
+    /// exp(b_i + Σ_j W_ij h_j)), then a max-shifted log-sum-exp over the 2^hidden states.
+    /// </summary>
+    [Fact]
+    public void Exact_log_partition_matches_a_straightforward_sum_to_1e_12()
+    {
+        var m = TestModels.Random(ModelKind.Rbm, 61, 11, 21, scale: 0.8);
+        var terms = new double[1 << 11];
+        for (int hb = 0; hb < terms.Length; hb++)
+        {
+            double t = 0;
+            for (int j = 0; j < 11; j++) t += ((hb >> j) & 1) * m.HiddenBias[j];
+            for (int i = 0; i < 61; i++)
+            {
+                double x = m.VisibleBias[i];
+                for (int j = 0; j < 11; j++) x += ((hb >> j) & 1) * m.Weight(i, j);
+                t += Math.Log(1 + Math.Exp(x));
+            }
+            terms[hb] = t;
+        }
+        double max = terms.Max();
+        double expected = max + Math.Log(terms.Sum(x => Math.Exp(x - max)));
+        Close(expected, ExactLogPartition.Compute(m).LogPartition, 1e-12, "log Z");
     }
 
     [Fact]
