@@ -69,7 +69,7 @@ internal sealed partial class TrainingRun
         _vNeg = new byte[_slots * _nv];
         _hNeg = new double[_slots * _nh];
         _order = Enumerable.Range(0, data.Rows).ToArray();
-        int scratch = Math.Max(_nv, _nh) * 2;
+        int scratch = Math.Max(_nv, _nh) * 4;
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
         PrepareEvaluation();
     }
@@ -98,7 +98,8 @@ internal sealed partial class TrainingRun
                 _batchStart = start;
                 _rowsInBatch = Math.Min(_slots, _order.Length - start);
                 _negRows = _s.Method == TrainingMethod.Pcd ? _slots : _rowsInBatch;
-                For(_negRows, (long)_nv * _nh, SlotWork);
+                if (_kind == ModelKind.Rbm) RbmBatch();
+                else For(_negRows, (long)_nv * _nh, SlotWork);
                 Update(lr, momentum);
             }
             CheckFinite(epoch + 1);
