@@ -32,6 +32,23 @@ public sealed class SplitMix64
         }
     }
 
+    /// <summary>
+    /// destination[k] = 1 when <see cref="NextDouble"/> &lt; p[k], else 0, for k in order: the same draws and results
+    /// as that loop, with the state kept in a local for the whole span.
+    /// </summary>
+    public void Bernoulli(ReadOnlySpan<double> p, Span<byte> destination)
+    {
+        if (destination.Length < p.Length)
+            throw new ArgumentOutOfRangeException(nameof(destination), "destination is shorter than p");
+        ulong state = _state;
+        for (int k = 0; k < p.Length; k++)
+        {
+            double u = (Emit.Reference.Xoshiro256.SplitMix64(ref state) >> 11) * (1.0 / (1UL << 53));
+            destination[k] = u < p[k] ? (byte)1 : (byte)0;
+        }
+        _state = state;
+    }
+
     /// <summary>True with probability <paramref name="p"/> (one draw, even when p is 0 or 1, so streams stay aligned).</summary>
     public bool Chance(double p) => NextDouble() < p;
 }

@@ -31,7 +31,7 @@ internal sealed partial class TrainingRun
                 var slot = _slot[r];
                 _data.Row(_order[_batchStart + r]).CopyTo(slot.V);
                 var ph = _phPos.AsSpan(r * nh, nh);
-                for (int j = 0; j < nh; j++) slot.H[j] = slot.Rng.NextDouble() < ph[j] ? (byte)1 : (byte)0;
+                slot.Rng.Bernoulli(ph, slot.H);
             }
         }
 
@@ -46,7 +46,7 @@ internal sealed partial class TrainingRun
                 var slot = _slot[r];
                 var p = _field.AsSpan(r * nv, nv);
                 TrainingMath.Sigmoid(p, p);
-                for (int i = 0; i < nv; i++) slot.V[i] = slot.Rng.NextDouble() < p[i] ? (byte)1 : (byte)0;
+                slot.Rng.Bernoulli(p, slot.V);
             });
             for (int r = 0; r < nNeg; r++) _onV.Set(r, _slot[r].V);
             Product(_onV, nNeg, _p.W, _p.C, _act);
@@ -57,7 +57,7 @@ internal sealed partial class TrainingRun
                 TrainingMath.Sigmoid(p, p);
                 // The statistic is p(h | v), which has less noise than a sample (practical guide, section 3).
                 if (last) p.CopyTo(_hNeg.AsSpan(r * nh, nh));
-                for (int j = 0; j < nh; j++) slot.H[j] = slot.Rng.NextDouble() < p[j] ? (byte)1 : (byte)0;
+                slot.Rng.Bernoulli(p, slot.H);
             });
         }
         for (int r = 0; r < nNeg; r++) _slot[r].V.CopyTo(_vNeg.AsSpan(r * nv, nv));
