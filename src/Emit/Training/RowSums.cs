@@ -36,12 +36,15 @@ internal static class RowSums
         }
     }
 
-    /// <summary>Rows [r0, r1) of y (… × width), whole, with no bias: y[r, c] = Σ m[i, c] over the units i on in row r.</summary>
-    public static void Rows(OnUnits on, int r0, int r1, double[] m, int width, double[] y)
+    /// <summary>
+    /// Rows [r0, r1) of the product, whole, with no bias, into y from its start: y[r - r0, c] = Σ m[i, c] over the
+    /// units i on in row r.
+    /// </summary>
+    public static void Rows(OnUnits on, int r0, int r1, double[] m, int width, Span<double> y)
     {
         for (int r = r0; r < r1; r++)
         {
-            var acc = y.AsSpan(r * width, width);
+            var acc = y.Slice((r - r0) * width, width);
             acc.Clear();
             Add(on.Of(r), m, width, 0, acc);
         }

@@ -169,12 +169,11 @@ internal sealed partial class TrainingRun
     /// <summary>
     /// One momentum step on every parameter (practical guide, section 9): Δθ ← μΔθ + ε(∂ - λθ) with λ only on
     /// couplings, ∂ = positive minus negative statistics, each averaged over its rows in row order.
-    /// Parallel over visible units; each unit's row of W (and L) is computed by one thread in a fixed order.
+    /// Parallel over chunks of visible units; each unit's row of W (and L) is computed by one thread in a fixed order.
     /// </summary>
     private const int UpdateChunk = 2048;
 
     private OnUnits? _posOn, _negOn;
-    private double[]? _gradPos, _gradNeg, _gradTmp;
 
     private void Update(double lr, double momentum)
     {
@@ -182,22 +181,22 @@ internal sealed partial class TrainingRun
         double wd = _s.WeightDecay;
         _posOn ??= new OnUnits(nv, _slots);
         _negOn ??= new OnUnits(nv, _slots);
-        _gradPos ??= new double[nv * nh];
-        _gradNeg ??= new double[nv * nh];
-        _gradTmp ??= new double[nv * nh];
         _posOn.SetColumns(_data.Units, nv, n, _order, _batchStart);
         _negOn.SetColumns(_vNeg, nv, nNeg, [], 0);
-        // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call.
+        // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call and
+        // each chunk's sums stay in the thread's cache.
         int chunk = Math.Max(1, UpdateChunk / nh);
         For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3, c =>
         {
             int i0 = c * chunk, i1 = Math.Min(nv, i0 + chunk), span = (i1 - i0) * nh;
+            var scratch = _chunkScratch.Value!;
+            var pos = scratch.AsSpan(0, span);
+            var neg = scratch.AsSpan(span, span);
             // Σ over batch rows with v_i = 1 of p(h | v), rows in order: the products V0ᵀP and VnegᵀQ.
-            RowSums.Rows(_posOn, i0, i1, _phPos, nh, _gradPos);
-            RowSums.Rows(_negOn, i0, i1, _hNeg, nh, _gradNeg);
-            Step(_gradPos.AsSpan(i0 * nh, span), n, _gradNeg.AsSpan(i0 * nh, span), nNeg,
-                _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span), _gradTmp.AsSpan(i0 * nh, span),
-                lr, momentum, wd);
+            RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
+            RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
+            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span),
+                scratch.AsSpan(2 * span, span), lr, momentum, wd);
             for (int i = i0; i < i1; i++)
             {
                 double gb = (double)_posOn.Of(i).Length / n - (double)_negOn.Of(i).Length / nNeg;

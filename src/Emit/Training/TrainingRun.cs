@@ -27,6 +27,7 @@ internal sealed partial class TrainingRun
     private readonly double[] _hNeg;      // slots × nh
     private readonly SplitMix64 _shuffle;
     private readonly ThreadLocal<double[]> _rowScratch;
+    private readonly ThreadLocal<double[]> _chunkScratch;
     private readonly int[] _order;
     private int _rowsInBatch, _negRows, _batchStart;
 
@@ -71,6 +72,8 @@ internal sealed partial class TrainingRun
         _order = Enumerable.Range(0, data.Rows).ToArray();
         int scratch = Math.Max(_nv, _nh) * 4;
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
+        int chunkScratch = 3 * Math.Max(UpdateChunk, _nh);
+        _chunkScratch = new ThreadLocal<double[]>(() => new double[chunkScratch]);
         PrepareEvaluation();
     }
 
