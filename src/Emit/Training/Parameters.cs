@@ -31,10 +31,14 @@ internal sealed class Parameters
     public double[]? L { get; }
     public double[]? M { get; }
 
-    /// <summary>Rows of <see cref="WT"/> per block of <see cref="Transpose(int)"/>, and the tile side inside one.</summary>
+    /// <summary>
+    /// Rows of <see cref="WT"/> per block of <see cref="Transpose(int)"/>, and the tile side inside one.
+    /// </summary>
     public const int TransposeTile = 16;
 
-    /// <summary>Number of blocks <see cref="Transpose(int)"/> takes to cover a transpose with <paramref name="hidden"/> rows.</summary>
+    /// <summary>
+    /// Number of blocks <see cref="Transpose(int)"/> takes to cover a transpose with <paramref name="hidden"/> rows.
+    /// </summary>
     public static int TransposeBlocks(int hidden) => (hidden + TransposeTile - 1) / TransposeTile;
 
     /// <summary>Rewrites <see cref="WT"/> from <see cref="W"/>.</summary>

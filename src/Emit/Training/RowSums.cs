@@ -22,7 +22,10 @@ internal static class RowSums
     /// <summary>Number of column blocks of a matrix <paramref name="width"/> wide.</summary>
     public static int Blocks(int width) => (width + BlockColumns - 1) / BlockColumns;
 
-    /// <summary>Column block <paramref name="block"/> of y (rows × width) for the first <paramref name="rows"/> rows of <paramref name="on"/>.</summary>
+    /// <summary>
+    /// Column block <paramref name="block"/> of y (rows × width) for the first <paramref name="rows"/> rows of
+    /// <paramref name="on"/>.
+    /// </summary>
     public static void Block(int block, OnUnits on, int rows, double[] m, double[] bias, double[] y)
     {
         int width = bias.Length;

@@ -50,7 +50,8 @@ public sealed class SplitMix64
         int k = 0;
         if (Vector256.IsHardwareAccelerated)
         {
-            var step = Vector256.Create(Increment, unchecked(2 * Increment), unchecked(3 * Increment), unchecked(4 * Increment));
+            var step = Vector256.Create(Increment, unchecked(2 * Increment), unchecked(3 * Increment),
+                unchecked(4 * Increment));
             var scale = Vector256.Create(1.0 / (1UL << 53));
             for (; k <= p.Length - 4; k += 4)
             {

@@ -49,7 +49,9 @@ public static partial class TrainingMath
         for (; k < x.Length; k++) destination[k] = Sigmoid(x[k]);
     }
 
-    /// <summary><see cref="Exp"/> lane by lane for arguments in [<see cref="VectorExpLow"/>, 0] (2^n is then normal).</summary>
+    /// <summary>
+    /// <see cref="Exp"/> lane by lane for arguments in [<see cref="VectorExpLow"/>, 0] (2^n is then normal).
+    /// </summary>
     private static Vector256<double> ExpNonPositive(Vector256<double> x)
     {
         var n = Vector256.Floor(x * InvLn2 + Vector256.Create(0.5));

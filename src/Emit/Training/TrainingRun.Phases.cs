@@ -236,7 +236,9 @@ internal sealed partial class TrainingRun
         For(Parameters.TransposeBlocks(nh), (long)nv * Parameters.TransposeTile, _p.Transpose);
     }
 
-    /// <summary>The step on row <paramref name="i"/> of the visible links from co-occurrence counts in row order.</summary>
+    /// <summary>
+    /// The step on row <paramref name="i"/> of the visible links from co-occurrence counts in row order.
+    /// </summary>
     private void UpdateLinks(double[] l, int i, double lr, double momentum)
     {
         int n = _rowsInBatch, nNeg = _negRows, nv = _nv;
@@ -269,8 +271,8 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>
-    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one TensorPrimitives
-    /// call (no fused multiply-add), so every element is rounded exactly as the scalar expression would be.
+    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
+    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression would be.
     /// pos and neg are overwritten; t is scratch.
     /// </summary>
     private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
