@@ -272,8 +272,8 @@ internal sealed partial class TrainingRun
 
     /// <summary>
     /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
-    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression would be.
-    /// pos and neg are overwritten; t is scratch.
+    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression
+    /// would be. pos and neg are overwritten; t is scratch.
     /// </summary>
     private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
         Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
