@@ -39,18 +39,27 @@ public sealed record HarnessLayout(int Visible, int EnergyBytes)
         return selfTest;
     }
 
-    /// <summary>Parses one result line: hex bits, same-bits flag, decision.</summary>
+    /// <summary>
+    /// Parses one result line: hex bits, same-bits flag, decision, then any feature groups (<c>NAME:FIELDS</c>, FIELDS
+    /// without spaces) that the harness writes for the firmware features emitted beside the scorer.
+    /// </summary>
     public bool TryParseRow(string? line, out ScoredRow row)
     {
         row = default;
         if (line is null) return false;
         var words = line.Split(' ');
-        if (words.Length != 3 || words[0].Length != 2 * EnergyBytes) return false;
+        if (words.Length < 3 || words[0].Length != 2 * EnergyBytes) return false;
         if (!ulong.TryParse(words[0], System.Globalization.NumberStyles.AllowHexSpecifier, System.Globalization.CultureInfo.InvariantCulture, out var bits)) return false;
         if (words[1] is not ("0" or "1")) return false;
         sbyte decision = words[2] switch { "1" => 1, "0" => 0, "-1" => -1, _ => sbyte.MinValue };
         if (decision == sbyte.MinValue) return false;
-        row = new ScoredRow(bits, words[1] == "1", decision);
+        string? features = null;
+        if (words.Length > 3)
+        {
+            if (words.Skip(3).Any(w => w.IndexOf(':', StringComparison.Ordinal) <= 0)) return false;
+            features = string.Join(' ', words.Skip(3));
+        }
+        row = new ScoredRow(bits, words[1] == "1", decision, features);
         return true;
     }
 

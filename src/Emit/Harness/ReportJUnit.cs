@@ -16,19 +16,20 @@ public static class ReportJUnit
         var inv = CultureInfo.InvariantCulture;
         var settings = new XmlWriterSettings { Indent = true, Encoding = new UTF8Encoding(false), NewLineChars = "\n" };
         using var w = XmlWriter.Create(output, settings);
-        int failures = report.Targets.Count(t => !t.Passed);
+        int failures = report.Targets.Count(t => !t.Passed) + report.Targets.Sum(t => t.Features.Count(f => !f.Passed));
+        int tests = report.Targets.Count + report.Targets.Sum(t => t.Features.Count);
         string time = report.Targets.Sum(t => t.Seconds).ToString("F3", inv);
         string suite = "emit verify " + report.Model;
         w.WriteStartDocument();
         w.WriteStartElement("testsuites");
         w.WriteAttributeString("name", "emit verify");
-        w.WriteAttributeString("tests", report.Targets.Count.ToString(inv));
+        w.WriteAttributeString("tests", tests.ToString(inv));
         w.WriteAttributeString("failures", failures.ToString(inv));
         w.WriteAttributeString("errors", "0");
         w.WriteAttributeString("time", time);
         w.WriteStartElement("testsuite");
         w.WriteAttributeString("name", suite);
-        w.WriteAttributeString("tests", report.Targets.Count.ToString(inv));
+        w.WriteAttributeString("tests", tests.ToString(inv));
         w.WriteAttributeString("failures", failures.ToString(inv));
         w.WriteAttributeString("errors", "0");
         w.WriteAttributeString("skipped", "0");
@@ -60,10 +61,32 @@ public static class ReportJUnit
             w.WriteString(Clean(Summary(t)));
             w.WriteEndElement();
             w.WriteEndElement();
+            foreach (var f in t.Features) Feature(w, report, t, f);
         }
         w.WriteEndElement();
         w.WriteEndElement();
         w.WriteEndDocument();
+    }
+
+    /// <summary>One test case per feature and target, named "TARGET NUMERIC WEIGHTS FEATURE".</summary>
+    private static void Feature(XmlWriter w, VerifyReport report, TargetResult t, FeatureResult f)
+    {
+        w.WriteStartElement("testcase");
+        w.WriteAttributeString("name", $"{t.Target} {t.Numeric} {t.Weights} {f.Feature}");
+        w.WriteAttributeString("classname", "emit.verify." + report.Model);
+        w.WriteAttributeString("time", "0");
+        if (!f.Passed)
+        {
+            w.WriteStartElement("failure");
+            w.WriteAttributeString("message", Clean(f.Failures.FirstOrDefault() ?? $"{f.Mismatches} mismatches").Split('\n')[0]);
+            w.WriteAttributeString("type", "emit.verify.feature");
+            w.WriteString(Clean(string.Join("\n", f.Failures)));
+            w.WriteEndElement();
+        }
+        w.WriteStartElement("system-out");
+        w.WriteString(Clean($"{f.Checks} checked, {f.Mismatches} mismatches; {f.Detail}"));
+        w.WriteEndElement();
+        w.WriteEndElement();
     }
 
     private static string Summary(TargetResult t)

@@ -61,6 +61,21 @@ public static class ReportJson
             }
             w.WriteEndArray();
             w.WriteBoolean("compared", t.Compared);
+            w.WriteStartArray("features");
+            foreach (var f in t.Features)
+            {
+                w.WriteStartObject();
+                w.WriteString("feature", f.Feature);
+                w.WriteNumber("checks", f.Checks);
+                w.WriteNumber("mismatches", f.Mismatches);
+                w.WriteString("detail", f.Detail);
+                w.WriteBoolean("passed", f.Passed);
+                w.WriteStartArray("failures");
+                foreach (var s in f.Failures) w.WriteStringValue(s);
+                w.WriteEndArray();
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
             w.WriteBoolean("passed", t.Passed);
             Number(w, "seconds", t.Seconds);
             Number(w, "build_seconds", t.BuildSeconds);

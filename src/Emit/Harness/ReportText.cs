@@ -26,6 +26,12 @@ public static class ReportText
             o.WriteLine(string.Join("  ", r.Select((cell, c) => c == r.Length - 1 ? cell : cell.PadRight(widths[c]))).TrimEnd());
         foreach (var t in report.Targets)
         {
+            foreach (var f in t.Features)
+                o.WriteLine($"{t.Target} {f.Feature}: {f.Checks} checked, {f.Mismatches} mismatches " +
+                            $"({f.Detail}) {(f.Passed ? "pass" : "FAIL")}");
+        }
+        foreach (var t in report.Targets)
+        {
             if (t.Passed) continue;
             foreach (var f in t.Failures)
                 o.WriteLine($"FAIL {t.Target}: {f.Replace("\n", "\n    ", StringComparison.Ordinal)}");

@@ -61,12 +61,21 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
         }
     }
 
-    /// <summary>The verdict and figures; <paramref name="runFailures"/> are failures to build or run the target.</summary>
+    /// <summary>
+    /// The verdict and figures; <paramref name="runFailures"/> are failures to build or run the target,
+    /// <paramref name="features"/> the checks of the firmware features emitted beside the scorer (each failing feature
+    /// fails the target).
+    /// </summary>
     public TargetResult Finish(string target, ScorerSources? sources, bool generatedHere, string modelSha256, int? selfTestFailures,
-        IReadOnlyList<string> runFailures, double buildSeconds, double scoreSeconds, SourceCheckResult? check = null)
+        IReadOnlyList<string> runFailures, double buildSeconds, double scoreSeconds, SourceCheckResult? check = null,
+        IReadOnlyList<FeatureResult>? features = null)
     {
         var inv = CultureInfo.InvariantCulture;
         var failures = new List<string>(runFailures);
+        features ??= [];
+        foreach (var f in features.Where(f => !f.Passed))
+            failures.Add($"{f.Feature}: {f.Mismatches} of {f.Checks} results disagree with the reference" +
+                         (f.Failures.Count > 0 ? $" ({string.Join("; ", f.Failures)})" : ""));
         double bound = expectation.ErrorBound;
         if (_count > 0 && !(_max <= bound))
             failures.Add($"largest |error| {_max.ToString("G4", inv)} nats (vector {_worst}) is above the bound {bound.ToString("G4", inv)} nats");
@@ -107,6 +116,7 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
             SourcesMatch = generatedHere || check is null ? null : check.Edits.Count == 0 && !check.ModelChanged,
             Edits = check?.Edits ?? [],
             Compared = check is not { Compare: false },
+            Features = features,
             Passed = failures.Count == 0,
             Seconds = buildSeconds + scoreSeconds,
             BuildSeconds = buildSeconds,

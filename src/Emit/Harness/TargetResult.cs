@@ -71,6 +71,10 @@ public sealed record TargetResult
     /// <summary>False when the numbers were not compared (sources of another model, no model change allowed).</summary>
     public bool Compared { get; init; } = true;
 
+    /// <summary>The firmware features emitted beside the scorer, each checked on this target; empty when none were.
+    /// </summary>
+    public IReadOnlyList<FeatureResult> Features { get; init; } = [];
+
     public required bool Passed { get; init; }
 
     /// <summary>Wall-clock seconds for this target: building plus scoring.</summary>
