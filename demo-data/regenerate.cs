@@ -13,5 +13,5 @@ if (args.Length > 1)
     var t = Emit.Demo.DemoData.TrainingData();
     File.WriteAllText(args[1], Emit.Training.TrainingData.Csv(t.Units, t.Width, t.Names));
     Console.WriteLine($"wrote {args[1]} ({t.Rows} training rows; sha256 {t.Sha256})");
-    Console.WriteLine($"train: emit train --data {args[1]} --hidden 16 --seed {Emit.Demo.DemoData.TrainerSeed} -o model.json");
+    Console.WriteLine($"train: emit train --data {args[1]} --hidden 16 --epochs 200 --seed {Emit.Demo.DemoData.TrainerSeed} -o model.json");
 }

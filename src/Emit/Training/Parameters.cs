@@ -31,12 +31,36 @@ internal sealed class Parameters
     public double[]? L { get; }
     public double[]? M { get; }
 
+    /// <summary>
+    /// Rows of <see cref="WT"/> per block of <see cref="Transpose(int)"/>, and the tile side inside one.
+    /// </summary>
+    public const int TransposeTile = 16;
+
+    /// <summary>
+    /// Number of blocks <see cref="Transpose(int)"/> takes to cover a transpose with <paramref name="hidden"/> rows.
+    /// </summary>
+    public static int TransposeBlocks(int hidden) => (hidden + TransposeTile - 1) / TransposeTile;
+
     /// <summary>Rewrites <see cref="WT"/> from <see cref="W"/>.</summary>
     public void Transpose()
     {
+        for (int b = 0; b < TransposeBlocks(Hidden); b++) Transpose(b);
+    }
+
+    /// <summary>
+    /// Rewrites rows [16 b, 16 b + 16) of <see cref="WT"/> from <see cref="W"/>, in 16 × 16 tiles so both matrices
+    /// are read and written a cache line at a time; blocks write disjoint rows, so they may run on different threads.
+    /// </summary>
+    public void Transpose(int block)
+    {
         int nv = Visible, nh = Hidden;
-        for (int i = 0; i < nv; i++)
-            for (int j = 0; j < nh; j++) WT[j * nv + i] = W[i * nh + j];
+        int j0 = block * TransposeTile, j1 = Math.Min(nh, j0 + TransposeTile);
+        for (int i0 = 0; i0 < nv; i0 += TransposeTile)
+        {
+            int i1 = Math.Min(nv, i0 + TransposeTile);
+            for (int i = i0; i < i1; i++)
+                for (int j = j0; j < j1; j++) WT[j * nv + i] = W[i * nh + j];
+        }
     }
 
     public void CopyTo(Parameters other)

@@ -4,7 +4,7 @@ namespace Emit.Training;
 
 /// <summary>
 /// Settings of <see cref="Trainer"/>. The defaults are the ones <c>emit train</c> uses (docs/train.md says why each is
-/// what it is): persistent CD with one Gibbs step, mini-batches of 10, 200 epochs, learning rate 0.05 decaying
+/// what it is): persistent CD with one Gibbs step, mini-batches of 10, 400 epochs, learning rate 0.05 decaying
 /// linearly to zero over the last half of the epochs (Tieleman 2008 decays to zero), momentum 0.5 and L2 weight decay
 /// 1e-4 (Hinton, "A practical guide to training restricted Boltzmann machines", UTML TR 2010-003, sections 5, 9 and
 /// 10). The guide's momentum of 0.9 after the first epochs made persistent chains fall behind the model on the
@@ -28,7 +28,7 @@ public sealed record TrainerSettings
     public int GibbsSteps { get; init; } = 1;
 
     /// <summary>Passes over the training rows (at most; early stopping may end sooner).</summary>
-    public int Epochs { get; init; } = 200;
+    public int Epochs { get; init; } = 400;
 
     /// <summary>Rows per parameter update; also the number of persistent chains.</summary>
     public int BatchSize { get; init; } = 10;

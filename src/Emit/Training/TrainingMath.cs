@@ -6,7 +6,7 @@ namespace Emit.Training;
 /// whose last bit may differ between operating systems; the trainer uses these instead so a committed
 /// model is the same bits everywhere. Accurate to a few units in the last place, which is all training needs.
 /// </summary>
-public static class TrainingMath
+public static partial class TrainingMath
 {
     // ln 2 split so that n * Ln2Hi is exact for |n| < 2^11 (the split used by fdlibm's exp and log).
     private const double Ln2Hi = 6.93147180369123816490e-01;

@@ -1,3 +1,4 @@
+using System.Numerics.Tensors;
 using Emit.Model;
 using Emit.Reference;
 
@@ -18,6 +19,7 @@ internal sealed partial class TrainingRun
     internal const int ExactBits = 20;
 
     private int[] _pllUnit = [];
+    private double[]? _squares;
 
     private void PrepareEvaluation()
     {
@@ -82,30 +84,39 @@ internal sealed partial class TrainingRun
 
     /// <summary>
     /// Mean squared difference between training rows and p(v_i | mean-field h, other visible units), over the first
-    /// rows.
+    /// rows. Rows run in parallel, each writing its squared differences; they are summed afterwards in row and unit
+    /// order, and each visible input is b_i + Σ_j W_ij a_j added in j order (TensorPrimitives.MultiplyAdd over rows of
+    /// the transpose, unfused), so the figure does not depend on threads.
     /// </summary>
     private double ReconstructionError()
     {
-        int rows = Math.Min(_data.Rows, ReconstructionRows);
-        var a = new double[_nh];
-        double sum = 0;
-        for (int r = 0; r < rows; r++)
+        int rows = Math.Min(_data.Rows, ReconstructionRows), nv = _nv, nh = _nh;
+        _squares ??= new double[rows * nv];
+        var squares = _squares;
+        For(rows, (long)nv * nh, r =>
         {
             var v = _data.Row(r);
+            var scratch = _rowScratch.Value!;
+            var a = scratch.AsSpan(0, nh);
+            var x = scratch.AsSpan(Math.Max(nv, nh), nv);
             HiddenInput(v, a);
-            for (int j = 0; j < _nh; j++) a[j] = TrainingMath.Sigmoid(a[j]);
-            for (int i = 0; i < _nv; i++)
+            TrainingMath.Sigmoid(a, a);
+            _p.B.CopyTo(x);
+            for (int j = 0; j < nh; j++) TensorPrimitives.MultiplyAdd(_p.WT.AsSpan(j * nv, nv), a[j], x, x);
+            if (_p.L is { } l)
+                for (int i = 0; i < nv; i++)
+                    for (int k = 0; k < nv; k++)
+                        if (v[k] != 0) x[i] += l[i * nv + k];
+            TrainingMath.Sigmoid(x, x);
+            var d = squares.AsSpan(r * nv, nv);
+            for (int i = 0; i < nv; i++)
             {
-                double x = _p.B[i];
-                var w = _p.W.AsSpan(i * _nh, _nh);
-                for (int j = 0; j < _nh; j++) x += w[j] * a[j];
-                if (_p.L is { } l)
-                    for (int k = 0; k < _nv; k++)
-                        if (v[k] != 0) x += l[i * _nv + k];
-                double d = v[i] - TrainingMath.Sigmoid(x);
-                sum += d * d;
+                double e = v[i] - x[i];
+                d[i] = e * e;
             }
-        }
-        return sum / ((double)rows * _nv);
+        });
+        double sum = 0;
+        for (int k = 0; k < rows * nv; k++) sum += squares[k];
+        return sum / ((double)rows * nv);
     }
 }

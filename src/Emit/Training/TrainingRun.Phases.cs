@@ -40,9 +40,9 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>a = c + Σ_{i: v_i = 1} W_i (rows of W added in unit order).</summary>
-    private void HiddenInput(ReadOnlySpan<byte> v, double[] a)
+    private void HiddenInput(ReadOnlySpan<byte> v, Span<double> a)
     {
-        _p.C.CopyTo(a, 0);
+        _p.C.CopyTo(a);
         var w = _p.W;
         for (int i = 0; i < _nv; i++)
             if (v[i] != 0) TensorPrimitives.Add(a, w.AsSpan(i * _nh, _nh), a);
@@ -176,73 +176,53 @@ internal sealed partial class TrainingRun
     /// <summary>
     /// One momentum step on every parameter (practical guide, section 9): Δθ ← μΔθ + ε(∂ - λθ) with λ only on
     /// couplings, ∂ = positive minus negative statistics, each averaged over its rows in row order.
-    /// Parallel over visible units; each unit's row of W (and L) is computed by one thread in a fixed order.
+    /// Parallel over chunks of visible units; each unit's row of W (and L) is computed by one thread in a fixed order.
     /// </summary>
+    private const int UpdateChunk = 2048;
+
+    private OnUnits? _posOn, _negOn;
+
     private void Update(double lr, double momentum)
     {
         int n = _rowsInBatch, nNeg = _negRows, nv = _nv, nh = _nh;
         double wd = _s.WeightDecay;
-        For(nv, (long)(n + nNeg) * nh, i =>
+        _posOn ??= new OnUnits(nv, _slots);
+        _negOn ??= new OnUnits(nv, _slots);
+        _posOn.SetColumns(_data.Units, nv, n, _order, _batchStart);
+        _negOn.SetColumns(_vNeg, nv, nNeg, [], 0);
+        // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call and
+        // each chunk's sums stay in the thread's cache.
+        int chunk = Math.Max(1, UpdateChunk / nh);
+        For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3, c =>
         {
-            var scratch = _rowScratch.Value!;
-            var pos = scratch.AsSpan(0, Math.Max(nh, nv));
-            var neg = scratch.AsSpan(Math.Max(nh, nv), Math.Max(nh, nv));
-            pos.Clear();
-            neg.Clear();
-            var hPos = pos[..nh];
-            var hNeg = neg[..nh];
-            int onPos = 0, onNeg = 0;
-            for (int r = 0; r < n; r++)
-                if (_data.Units[_order[_batchStart + r] * nv + i] != 0) { TensorPrimitives.Add(hPos,
-                    _phPos.AsSpan(r * nh, nh), hPos); onPos++; }
-            for (int r = 0; r < nNeg; r++)
-                if (_vNeg[r * nv + i] != 0) { TensorPrimitives.Add(hNeg, _hNeg.AsSpan(r * nh, nh), hNeg); onNeg++; }
-            var w = _p.W.AsSpan(i * nh, nh);
-            var dw = _velocity!.W.AsSpan(i * nh, nh);
-            for (int j = 0; j < nh; j++)
+            int i0 = c * chunk, i1 = Math.Min(nv, i0 + chunk), span = (i1 - i0) * nh;
+            var scratch = _chunkScratch.Value!;
+            var pos = scratch.AsSpan(0, span);
+            var neg = scratch.AsSpan(span, span);
+            // Σ over batch rows with v_i = 1 of p(h | v), rows in order: the products V0ᵀP and VnegᵀQ.
+            RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
+            RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
+            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span),
+                scratch.AsSpan(2 * span, span), lr, momentum, wd);
+            for (int i = i0; i < i1; i++)
             {
-                double g = hPos[j] / n - hNeg[j] / nNeg;
-                dw[j] = momentum * dw[j] + lr * (g - wd * w[j]);
-                w[j] += dw[j];
-            }
-            double gb = (double)onPos / n - (double)onNeg / nNeg;
-            _velocity.B[i] = momentum * _velocity.B[i] + lr * gb;
-            _p.B[i] += _velocity.B[i];
-            if (_p.L is { } l)
-            {
-                var cPos = pos[..nv];
-                var cNeg = neg[..nv];
-                cPos.Clear();
-                cNeg.Clear();
-                for (int r = 0; r < n; r++)
-                {
-                    var row = _data.Row(_order[_batchStart + r]);
-                    if (row[i] != 0) for (int k = 0; k < nv; k++) cPos[k] += row[k];
-                }
-                for (int r = 0; r < nNeg; r++)
-                {
-                    var row = _vNeg.AsSpan(r * nv, nv);
-                    if (row[i] != 0) for (int k = 0; k < nv; k++) cNeg[k] += row[k];
-                }
-                var li = l.AsSpan(i * nv, nv);
-                var dl = _velocity.L!.AsSpan(i * nv, nv);
-                for (int k = 0; k < nv; k++)
-                {
-                    if (k == i) continue;
-                    // Counts are symmetric in (i, k), so L stays exactly symmetric.
-                    double g = cPos[k] / n - cNeg[k] / nNeg;
-                    dl[k] = momentum * dl[k] + lr * (g - wd * li[k]);
-                    li[k] += dl[k];
-                }
+                double gb = (double)_posOn.Of(i).Length / n - (double)_negOn.Of(i).Length / nNeg;
+                _velocity.B[i] = momentum * _velocity.B[i] + lr * gb;
+                _p.B[i] += _velocity.B[i];
+                if (_p.L is { } l) UpdateLinks(l, i, lr, momentum);
             }
         });
-        for (int j = 0; j < nh; j++)
         {
-            double pos = 0, neg = 0;
-            for (int r = 0; r < n; r++) pos += _phPos[r * nh + j];
-            for (int r = 0; r < nNeg; r++) neg += _hNeg[r * nh + j];
-            _velocity!.C[j] = momentum * _velocity.C[j] + lr * (pos / n - neg / nNeg);
-            _p.C[j] += _velocity.C[j];
+            // Hidden biases: the same step with the batch sums of p(h | v) (no decay); sums in row order.
+            var scratch = _rowScratch.Value!;
+            var pos = scratch.AsSpan(0, nh);
+            var neg = scratch.AsSpan(nh, nh);
+            var t = scratch.AsSpan(2 * nh, nh);
+            pos.Clear();
+            neg.Clear();
+            for (int r = 0; r < n; r++) TensorPrimitives.Add(pos, _phPos.AsSpan(r * nh, nh), pos);
+            for (int r = 0; r < nNeg; r++) TensorPrimitives.Add(neg, _hNeg.AsSpan(r * nh, nh), neg);
+            Step(pos, n, neg, nNeg, _p.C, _velocity!.C, t, lr, momentum, 0);
         }
         if (_p.M is { } mm)
         {
@@ -260,6 +240,59 @@ internal sealed partial class TrainingRun
                     mm[l * nh + k] = mm[k * nh + l];
                 }
         }
-        _p.Transpose();
+        For(Parameters.TransposeBlocks(nh), (long)nv * Parameters.TransposeTile, _p.Transpose);
+    }
+
+    /// <summary>
+    /// The step on row <paramref name="i"/> of the visible links from co-occurrence counts in row order.
+    /// </summary>
+    private void UpdateLinks(double[] l, int i, double lr, double momentum)
+    {
+        int n = _rowsInBatch, nNeg = _negRows, nv = _nv;
+        double wd = _s.WeightDecay;
+        var scratch = _rowScratch.Value!;
+        var cPos = scratch.AsSpan(0, nv);
+        var cNeg = scratch.AsSpan(nv, nv);
+        cPos.Clear();
+        cNeg.Clear();
+        for (int r = 0; r < n; r++)
+        {
+            var row = _data.Row(_order[_batchStart + r]);
+            if (row[i] != 0) for (int k = 0; k < nv; k++) cPos[k] += row[k];
+        }
+        for (int r = 0; r < nNeg; r++)
+        {
+            var row = _vNeg.AsSpan(r * nv, nv);
+            if (row[i] != 0) for (int k = 0; k < nv; k++) cNeg[k] += row[k];
+        }
+        var li = l.AsSpan(i * nv, nv);
+        var dl = _velocity!.L!.AsSpan(i * nv, nv);
+        for (int k = 0; k < nv; k++)
+        {
+            if (k == i) continue;
+            // Counts are symmetric in (i, k), so L stays exactly symmetric.
+            double g = cPos[k] / n - cNeg[k] / nNeg;
+            dl[k] = momentum * dl[k] + lr * (g - wd * li[k]);
+            li[k] += dl[k];
+        }
+    }
+
+    /// <summary>
+    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
+    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression
+    /// would be. pos and neg are overwritten; t is scratch.
+    /// </summary>
+    private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
+        Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
+    {
+        TensorPrimitives.Divide(pos, (double)n, pos);
+        TensorPrimitives.Divide(neg, (double)nNeg, neg);
+        TensorPrimitives.Subtract(pos, neg, pos);            // g
+        TensorPrimitives.Multiply(theta, decay, t);          // λθ
+        TensorPrimitives.Subtract(pos, t, t);                // g - λθ
+        TensorPrimitives.Multiply(t, lr, t);                 // ε(g - λθ)
+        TensorPrimitives.Multiply(velocity, momentum, velocity);
+        TensorPrimitives.Add(velocity, t, velocity);
+        TensorPrimitives.Add(theta, velocity, theta);
     }
 }

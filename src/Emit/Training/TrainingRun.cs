@@ -30,6 +30,7 @@ internal sealed partial class TrainingRun : IDisposable
     private readonly double[] _hNeg;      // slots × nh
     private readonly SplitMix64 _shuffle;
     private readonly ThreadLocal<double[]> _rowScratch;
+    private readonly ThreadLocal<double[]> _chunkScratch;
     private readonly int[] _order;
     private int _rowsInBatch, _negRows, _batchStart;
 
@@ -72,8 +73,10 @@ internal sealed partial class TrainingRun : IDisposable
         _vNeg = new byte[_slots * _nv];
         _hNeg = new double[_slots * _nh];
         _order = Enumerable.Range(0, data.Rows).ToArray();
-        int scratch = Math.Max(_nv, _nh) * 2;
+        int scratch = Math.Max(_nv, _nh) * 4;
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
+        int chunkScratch = 3 * Math.Max(UpdateChunk, _nh);
+        _chunkScratch = new ThreadLocal<double[]>(() => new double[chunkScratch]);
         PrepareEvaluation();
     }
 
@@ -104,7 +107,8 @@ internal sealed partial class TrainingRun : IDisposable
                 _batchStart = start;
                 _rowsInBatch = Math.Min(_slots, _order.Length - start);
                 _negRows = _s.Method == TrainingMethod.Pcd ? _slots : _rowsInBatch;
-                For(_negRows, (long)_nv * _nh, SlotWork);
+                if (_kind == ModelKind.Rbm) RbmBatch();
+                else For(_negRows, (long)_nv * _nh, SlotWork);
                 Update(lr, momentum);
             }
             CheckFinite(epoch + 1);

@@ -69,4 +69,20 @@ public sealed class SplitMix64Tests
         b.Next();
         Assert.Equal(b.Next(), a.Next()); // Chance(0) and Chance(1) each consumed one output
     }
+
+    // Bernoulli is the loop "NextDouble() < p" with the state in a local: same draws, same results, same state after.
+    [Fact]
+    public void Bernoulli_is_the_draw_by_draw_loop()
+    {
+        var p = new double[1001];
+        var source = new SplitMix64(5);
+        for (int k = 0; k < p.Length; k++) p[k] = k % 7 == 0 ? 0.0 : k % 11 == 0 ? 1.0 : source.NextDouble();
+        var a = new SplitMix64(77);
+        var b = new SplitMix64(77);
+        var bits = new byte[p.Length];
+        a.Bernoulli(p, bits);
+        for (int k = 0; k < p.Length; k++) Assert.Equal(b.NextDouble() < p[k] ? 1 : 0, bits[k]);
+        Assert.Equal(b.Next(), a.Next());
+        Assert.InRange(bits.Count(x => x == 1), 400, 600);
+    }
 }

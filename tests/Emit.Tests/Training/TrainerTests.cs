@@ -117,6 +117,29 @@ public sealed class TrainerTests
         Assert.Equal(ModelJson.ToText(one), ModelJson.ToText(four));
     }
 
+    /// <summary>
+    /// The same with layers wider than a column block of the batch products (150 visible × 140 hidden, blocks of 64
+    /// columns), so the products, the chunked update and the reconstruction figure all run on several threads; CD-2
+    /// and a last batch shorter than the others included.
+    /// </summary>
+    [Theory]
+    [InlineData(TrainingMethod.Pcd, 1)]
+    [InlineData(TrainingMethod.Cd, 2)]
+    public void Thread_count_does_not_change_a_wide_model(TrainingMethod method, int steps)
+    {
+        var rng = new SplitMix64(9);
+        var rows = Enumerable.Range(0, 290).Select(_ => Enumerable.Range(0, 150)
+            .Select(i => rng.Chance(i % 4 == 0 ? 0.6 : 0.15) ? (byte)1 : (byte)0).ToImmutableArray()).ToList();
+        var data = TrainingData.FromRows(rows, default, "random");
+        var s = new TrainerSettings { Hidden = 140, BatchSize = 40, Epochs = 2, Seed = 6, Method = method, GibbsSteps = steps };
+        var one = Trainer.Train(data, s with { Threads = 1 });
+        var two = Trainer.Train(data, s with { Threads = 2 });
+        var three = Trainer.Train(data, s with { Threads = 3 });
+        Assert.Equal(ModelJson.ToText(one.Model), ModelJson.ToText(two.Model));
+        Assert.Equal(ModelJson.ToText(one.Model), ModelJson.ToText(three.Model));
+        Assert.Equal(one.Epochs.Select(e => e.ReconstructionError), three.Epochs.Select(e => e.ReconstructionError));
+    }
+
     [Fact]
     public void With_validation_rows_the_best_epoch_is_kept_and_training_stops_after_the_patience()
     {

@@ -67,4 +67,36 @@ public sealed class TrainingMathTests
         Assert.Equal(1.0, TrainingMath.Sigmoid(800));
         Assert.Equal(0.0, TrainingMath.Sigmoid(-800));
     }
+
+    // The span form must give exactly the scalar form's bits (the trainer's models may not depend on the vector
+    // width), and so the same accuracy against the C library's exp.
+    [Fact]
+    public void Span_sigmoid_is_bit_for_bit_the_scalar_sigmoid()
+    {
+        var rng = new SplitMix64(21);
+        var x = new List<double>();
+        for (int k = 0; k < 100000; k++) x.Add((2 * rng.NextDouble() - 1) * (k % 3 == 0 ? 40 : 800));
+        // The edges: both signs of zero, the subnormal-scaling boundary near -708, beyond the underflow, NaN.
+        x.AddRange([0.0, -0.0, 708.0, -708.0, 708.1, -708.1, 707.9, -707.9, 745.2, -745.2, 1e-300, -1e-300,
+            double.MaxValue, double.MinValue, double.PositiveInfinity, double.NegativeInfinity, double.NaN, 3.0]);
+        var input = x.ToArray();
+        var output = new double[input.Length];
+        // Every start offset and length, so the vector loop and the scalar tail both meet every value.
+        for (int start = 0; start < 4; start++)
+        {
+            TrainingMath.Sigmoid(input.AsSpan(start), output.AsSpan(start));
+            for (int k = start; k < input.Length; k++)
+            {
+                double expected = TrainingMath.Sigmoid(input[k]);
+                Assert.True(BitConverter.DoubleToInt64Bits(expected) == BitConverter.DoubleToInt64Bits(output[k])
+                    || (double.IsNaN(expected) && double.IsNaN(output[k])), $"sigmoid({input[k]:R}) at offset {start}");
+            }
+        }
+        var same = (double[])input.Clone();
+        TrainingMath.Sigmoid(same, same); // in place
+        Assert.Equal(output.Skip(3), same.Skip(3));
+        for (int k = 0; k < 30000; k++)
+            if (Math.Abs(input[k]) < 700)
+                Close(1.0 / (1.0 + Math.Exp(-input[k])), output[k], 1e-15, $"sigmoid({input[k]:R})");
+    }
 }
