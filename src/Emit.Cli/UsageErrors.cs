@@ -28,7 +28,8 @@ public static partial class UsageErrors
             if (command.Subcommands.Count > 0 && parse.CommandResult.Children.All(c => c is not ArgumentResult))
             {
                 var guess = Closest(token, command.Subcommands.Where(c => !c.Hidden).Select(c => c.Name));
-                var hint = guess is null ? help : $"did you mean {guess}? see {CommandPath(parse.CommandResult)} {guess} --help";
+                var hint = guess is null ? help
+                    : $"did you mean {guess}? see {CommandPath(parse.CommandResult)} {guess} --help";
                 return $"unknown command '{token}' ({hint})";
             }
             return $"unexpected argument '{token}' ({help})";
@@ -55,7 +56,8 @@ public static partial class UsageErrors
         var text = CannotParse().Replace(message, m =>
             $"{m.Groups["symbol"].Value}: '{m.Groups["value"].Value}' is not {Expected(m.Groups["type"].Value)}");
         text = MustBeOneOf().Replace(text, m =>
-            "must be one of " + string.Join(", ", Quoted().Matches(m.Groups["list"].Value).Select(q => q.Groups[1].Value)));
+            "must be one of " +
+            string.Join(", ", Quoted().Matches(m.Groups["list"].Value).Select(q => q.Groups[1].Value)));
         text = TypeName().Replace(text, m => Expected(m.Value.Trim('\'')));
         return Whitespace().Replace(text, " ").Trim();
     }
@@ -118,7 +120,9 @@ public static partial class UsageErrors
         return prev[b.Length];
     }
 
-    [GeneratedRegex(@"Cannot parse argument '(?<value>.*?)' for (option|argument|command) '(?<symbol>.*?)' as expected type '(?<type>[\w.`\[\]]+)'\.?")]
+    [GeneratedRegex(
+        @"Cannot parse argument '(?<value>.*?)' for (option|argument|command) '(?<symbol>.*?)' as expected type " +
+        @"'(?<type>[\w.`\[\]]+)'\.?")]
     private static partial Regex CannotParse();
 
     [GeneratedRegex(@"Must be one of:(?<list>(\s*'[^']*')+)")]

@@ -17,11 +17,13 @@ public sealed class CompileCommand : ICliCommand
         "--target", "Output languages, comma-separated", Targets.All.Select(t => t.Name).ToArray(), "c");
 
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
-        "--numeric", "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)", NumericChoices.All, "f32");
+        "--numeric", "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)",
+        NumericChoices.All, "f32");
 
     private readonly Option<string?> _name = new("--name")
     {
-        Description = "Scorer name, a C identifier (default: from the model file name); files are NAME.h, NAME.c, NAME.cs",
+        Description = "Scorer name, a C identifier (default: from the model file name); files are NAME.h, NAME.c, " +
+            "NAME.cs",
     };
 
     private readonly Option<string> _namespace = new("--namespace")
@@ -62,7 +64,8 @@ public sealed class CompileCommand : ICliCommand
     {
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _optimize })
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest,
+            _optimize })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -70,7 +73,8 @@ public sealed class CompileCommand : ICliCommand
         {
             var mode = parse.GetValue(_numeric)!.Value;
             if (mode != NumericMode.Fixed && _fixed.GivenOption(parse) is { } given)
-                throw new EmitException($"{given} applies to --numeric fixed only", "add --numeric fixed or leave the option out");
+                throw new EmitException($"{given} applies to --numeric fixed only",
+                    "add --numeric fixed or leave the option out");
             return Run(ctx,
                 parse.GetValue(_model)!.FullName,
                 parse.GetValue(_target)!,
@@ -87,8 +91,10 @@ public sealed class CompileCommand : ICliCommand
         return cmd;
     }
 
-    private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name, string ns,
-        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, OptimizeFor optimize, bool force)
+    private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name,
+        string ns,
+        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions,
+        OptimizeFor optimize, bool force)
     {
         name ??= Naming.ScorerNameFromFile(modelPath);
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize);

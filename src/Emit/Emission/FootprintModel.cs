@@ -1,14 +1,18 @@
 using Emit.Quantize;
 namespace Emit.Emission;
 
-/// <summary>The footprint of a planned scorer on its mode's reference core (<see cref="CortexM0Footprint"/> in fixed mode, <see cref="CortexM4FFootprint"/> in float modes).</summary>
+/// <summary>
+/// The footprint of a planned scorer on its mode's reference core (<see cref="CortexM0Footprint"/> in fixed mode,
+/// <see cref="CortexM4FFootprint"/> in float modes).
+/// </summary>
 public static class FootprintModel
 {
     /// <summary>Reference core and compiler of fixed mode.</summary>
     public const string FixedReference = "Cortex-M0, arm-none-eabi-gcc -mcpu=cortex-m0 -mthumb -Os";
 
     /// <summary>Reference core and compiler of the float modes.</summary>
-    public const string FloatReference = "Cortex-M4F, arm-none-eabi-gcc -mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 -mfloat-abi=hard -Os";
+    public const string FloatReference = "Cortex-M4F, arm-none-eabi-gcc -mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 " +
+        "-mfloat-abi=hard -Os";
 
     /// <summary>The predicted footprint and dependencies of <paramref name="plan"/>'s C output.</summary>
     public static ScorerFootprint Predict(ScorerPlan plan) => plan switch

@@ -105,6 +105,46 @@ public sealed class VerifyCommandTests
 
     private static HashSet<string> Attrs(XElement e) => e.Attributes().Select(a => a.Name.LocalName).ToHashSet();
 
+    [Fact]
+    public void Feature_results_appear_in_every_report_and_match_the_schema_and_the_junit_shape()
+    {
+        var model = new BoltzmannModel(ModelKind.Rbm, 2, 0, [1.0, 0.5], [], [],
+            System.Collections.Immutable.ImmutableArray<Link>.Empty, System.Collections.Immutable.ImmutableArray<Link>.Empty);
+        var c = new TargetComparison(NumericExpectation.For(model, NumericMode.F64, null));
+        c.Add(0, -1.0, null, new ScoredRow(BitConverter.DoubleToUInt64Bits(-1.0), true, -1));
+        FeatureResult[] features =
+        [
+            new("filter", 12, 0, "decisions through a 2-of-3 filter", []),
+            new("stream", 5, 2, "random flip walks", ["walk 0 step 3: differs"]),
+        ];
+        var target = c.Finish("c", null, true, model.Sha256, 0, [], 0.5, 0.25, features: features);
+        var report = new VerifyReport
+        {
+            ToolVersion = "0.0.0", Model = "m.json", ModelSha256 = model.Sha256, Input = "v.csv", Vectors = 1,
+            Targets = [target], Warnings = [],
+        };
+        var dir = Toolchain.TempDir("features");
+        var json = Path.Combine(dir, "r.json");
+        using (var f = File.Create(json))
+        using (var w = new Utf8JsonWriter(f)) ReportJson.Write(report, w);
+        var listed = Target(ReadReport(json), "c").GetProperty("features").EnumerateArray().ToList();
+        Assert.Equal(["filter", "stream"], listed.Select(f => f.GetProperty("feature").GetString()));
+        Assert.False(listed[1].GetProperty("passed").GetBoolean());
+        Assert.Equal(2, listed[1].GetProperty("mismatches").GetInt64());
+
+        var xml = Path.Combine(dir, "r.xml");
+        using (var f = File.Create(xml)) ReportJUnit.Write(report, f);
+        var cases = CheckJUnitShape(xml).Descendants("testcase").ToList();
+        Assert.Equal(3, cases.Count);
+        Assert.NotNull(cases.Single(x => x.Attribute("name")!.Value == "c f64 f64 stream").Element("failure"));
+        Assert.Null(cases.Single(x => x.Attribute("name")!.Value == "c f64 f64 filter").Element("failure"));
+
+        var text = new StringWriter();
+        ReportText.Write(report, text);
+        Assert.Contains("c filter: 12 checked, 0 mismatches", text.ToString(), StringComparison.Ordinal);
+        Assert.Contains("c stream: 5 checked, 2 mismatches", text.ToString(), StringComparison.Ordinal);
+    }
+
     // ---- a good model ----
 
     [SkippableFact]

@@ -28,12 +28,16 @@ public sealed class SoftplusF32Tests(ITestOutputHelper output)
         var model = CodegenCases.All.First(c => c.Id == "rbm_a").Model;
         var c = ScorerCompiler.Compile(model, "sp.json", new CompileOptions(["c"], NumericMode.F32, "sp"))
             .Single(f => f.FileName == "sp.c").Text;
-        var function = Regex.Match(c, @"^static float sp_softplus\(float x\)\n\{\n(.*?\n)\}\n", RegexOptions.Multiline | RegexOptions.Singleline);
+        var function = Regex.Match(c, @"^static float sp_softplus\(float x\)\n\{\n(.*?\n)\}\n",
+            RegexOptions.Multiline | RegexOptions.Singleline);
         Assert.True(function.Success, "the generated f32 scorer has no sp_softplus(float)");
         Assert.DoesNotContain("expf", function.Value, StringComparison.Ordinal);
-        File.WriteAllText(Path.Combine(dir, "softplus_under_test.c"), function.Value.Replace("sp_softplus", "softplus_under_test", StringComparison.Ordinal));
+        File.WriteAllText(Path.Combine(dir, "softplus_under_test.c"),
+            function.Value.Replace("sp_softplus", "softplus_under_test", StringComparison.Ordinal));
         var exe = Path.Combine(dir, "check");
-        Toolchain.RunOk(cc, ["-std=c99", "-O2", "-Wall", "-Wextra", "-Werror", "-I", dir, Path.Combine(CheckerDir(), "check.c"), "-o", exe, "-lm"]);
+        Toolchain.RunOk(cc,
+            ["-std=c99", "-O2", "-Wall", "-Wextra", "-Werror", "-I", dir, Path.Combine(CheckerDir(), "check.c"),
+             "-o", exe, "-lm"]);
         string stride = Toolchain.InCi ? "1" : "61";
         var parts = new[] { "0", "1" }.Select(p => Task.Run(() => Toolchain.RunOk(exe, [stride, p, "2"]))).ToArray();
         double worst = 0;
@@ -46,8 +50,11 @@ public sealed class SoftplusF32Tests(ITestOutputHelper output)
             Assert.False(double.IsNaN(e), text);
             worst = Math.Max(worst, e);
         }
-        Assert.True(worst <= SoftplusF32.MaxAbsError, $"max abs error {worst:G4} above the stated {SoftplusF32.MaxAbsError:G4}");
+        Assert.True(worst <= SoftplusF32.MaxAbsError,
+            $"max abs error {worst:G4} above the stated {SoftplusF32.MaxAbsError:G4}");
         // tighter than 1.5e-7 would mean a much better polynomial than the one whose exhaustive maximum is stated
-        Assert.True(worst > 1.5e-7, $"max abs error {worst:G4}: far below the stated {SoftplusF32.MaxAbsError:G4}; re-run the exhaustive check");
+        Assert.True(worst > 1.5e-7,
+            $"max abs error {worst:G4}: far below the stated {SoftplusF32.MaxAbsError:G4}; re-run the exhaustive "
+            + "check");
     }
 }

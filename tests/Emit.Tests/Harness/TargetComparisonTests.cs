@@ -125,4 +125,26 @@ public sealed class TargetComparisonTests
         Assert.True(b.MaxAbsError <= e.ErrorBound);     // within the bound, failed for not being bit-exact
         Assert.Contains(b.Failures, f => f.Contains("vector 17", StringComparison.Ordinal));
     }
+
+    [Fact]
+    public void A_failing_feature_fails_the_target_and_names_the_feature()
+    {
+        var c = new TargetComparison(NumericExpectation.For(Linear, NumericMode.F64, null));
+        c.Add(0, -1.0, null, Row(-1.0));
+        FeatureResult[] features =
+        [
+            new("filter", 10, 0, "decisions through a 2-of-3 filter", []),
+            new("explain", 4, 1, "top 2 flips", ["vector 3: unit 1 expected first"]),
+        ];
+        var r = c.Finish("c", null, true, Linear.Sha256, 0, [], 0, 0, features: features);
+        Assert.False(r.Passed);
+        Assert.Equal(2, r.Features.Count);
+        Assert.Single(r.Failures);
+        Assert.Contains("explain: 1 of 4", r.Failures[0], StringComparison.Ordinal);
+        Assert.Contains("unit 1 expected first", r.Failures[0], StringComparison.Ordinal);
+
+        var passing = new TargetComparison(NumericExpectation.For(Linear, NumericMode.F64, null));
+        passing.Add(0, -1.0, null, Row(-1.0));
+        Assert.True(passing.Finish("c", null, true, Linear.Sha256, 0, [], 0, 0, features: [features[0]]).Passed);
+    }
 }

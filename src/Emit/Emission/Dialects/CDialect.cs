@@ -42,7 +42,9 @@ public sealed class CDialect : TargetDialect
     /// <summary>The include guard.</summary>
     public string Guard => "EMIT_GENERATED_" + UName + "_H";
 
-    /// <summary>The model identity the header and source compare at compile time: the SHA-256's first 32 bits.</summary>
+    /// <summary>
+    /// The model identity the header and source compare at compile time: the SHA-256's first 32 bits.
+    /// </summary>
     public string ModelId => "0x" + Plan.Model.Sha256[..8].ToUpperInvariant() + "u";
 
     /// <inheritdoc/>
@@ -85,10 +87,13 @@ public sealed class CDialect : TargetDialect
             if (plan.HasHidden || plan.HasLinks)
             {
                 Need(wide ? "UINT64_MAX" : "UINT32_MAX", UAccType, "shifts of the accumulator");
-                Need(plan.WeightType switch { Quantize.WeightType.Int8 => "INT8_MAX", Quantize.WeightType.Int16 => "INT16_MAX", _ => "INT32_MAX" }, WeightType, "the weight type");
+                Need(plan.WeightType switch { Quantize.WeightType.Int8 => "INT8_MAX",
+                    Quantize.WeightType.Int16 => "INT16_MAX", _ => "INT32_MAX" }, WeightType, "the weight type");
             }
-            if (plan.HasHidden) Need(plan.TableEntriesUnsigned16 ? "UINT16_MAX" : "INT32_MAX", EntryType, "the softplus table");
-            if (plan.HasHidden && plan.UniformFractionBits is null) Need("INT8_MAX", "int8_t", "the per-unit fraction bits");
+            if (plan.HasHidden)
+                Need(plan.TableEntriesUnsigned16 ? "UINT16_MAX" : "INT32_MAX", EntryType, "the softplus table");
+            if (plan.HasHidden && plan.UniformFractionBits is null)
+                Need("INT8_MAX", "int8_t", "the per-unit fraction bits");
             return list;
         }
     }
@@ -97,7 +102,8 @@ public sealed class CDialect : TargetDialect
     public string LastByteMask => "0x" + Plan.LastByteMask.ToString("X2", Inv) + "u";
 
     /// <summary>Hidden units per block of the row additions (0: plain loops).</summary>
-    public int VectorBlock => Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
+    public int VectorBlock =>
+        Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
 
     /// <summary>
     /// Whether the bit scan looks the lowest set bit of each input byte up in a 256-entry table (speed) instead of
@@ -107,7 +113,7 @@ public sealed class CDialect : TargetDialect
     /// With one visible unit there is nothing to scan (and compilers fold the table away).
     public bool BitScanTable => Plan.Optimize == OptimizeFor.Speed && Plan.Visible > 1;
 
-    /// <summary>The lowest set bit of each byte value 1..255, and 8 (no bit of the byte) for the unused entry 0.</summary>
+    /// <summary>The lowest set bit of each byte value 1..255, and 8 (no bit) for the unused entry 0.</summary>
     public IReadOnlyList<int> LowestSetBit { get; } =
         Enumerable.Range(0, 256).Select(b => b == 0 ? 8 : System.Numerics.BitOperations.TrailingZeroCount(b)).ToArray();
 
@@ -128,7 +134,8 @@ public sealed class CDialect : TargetDialect
 
     /// <summary>Whether the C of <paramref name="plan"/> stores its rows packed (<see cref="PackedRows"/>).</summary>
     public static bool UsesPackedRows(FixedPointPlan plan, OptimizeFor optimize) =>
-        optimize == OptimizeFor.Speed && plan.Model.Hidden >= SpeedVectorBlock && plan.Accumulator == AccumulatorType.Int32
+        optimize == OptimizeFor.Speed && plan.Model.Hidden >= SpeedVectorBlock
+        && plan.Accumulator == AccumulatorType.Int32
         && plan.WeightType is Quantize.WeightType.Int16 or Quantize.WeightType.Int8 && plan.Model.Visible <= 32768;
 
     /// <summary>Weights to a packed word: 2 (int16) or 4 (int8).</summary>
@@ -161,19 +168,19 @@ public sealed class CDialect : TargetDialect
     public bool SoftplusPolynomial => Plan.Mode == NumericMode.F32 && Plan.HasHidden && !Plan.IsGeneral;
 
     /// <summary>Literals of <see cref="SoftplusF32.Exp2"/>.</summary>
-    public IReadOnlyList<string> SoftplusExp2 => SoftplusF32.Exp2.Select(c => Literals.Float(c)).ToArray();
+    public IReadOnlyList<string> SoftplusExp2 { get; } = SoftplusF32.Exp2.Select(c => Literals.Float(c)).ToArray();
 
     /// <summary>Literals of <see cref="SoftplusF32.Atanh"/>.</summary>
-    public IReadOnlyList<string> SoftplusAtanh => SoftplusF32.Atanh.Select(c => Literals.Float(c)).ToArray();
+    public IReadOnlyList<string> SoftplusAtanh { get; } = SoftplusF32.Atanh.Select(c => Literals.Float(c)).ToArray();
 
     /// <summary>The literal of <see cref="SoftplusF32.MinusLog2E"/>.</summary>
-    public string SoftplusMinusLog2E => Literals.Float(SoftplusF32.MinusLog2E);
+    public string SoftplusMinusLog2E { get; } = Literals.Float(SoftplusF32.MinusLog2E);
 
     /// <summary>The clamp of the softplus argument as a C literal of its bit pattern.</summary>
-    public string SoftplusClampBits => "0x" + SoftplusF32.ClampBits.ToString("X8", Inv) + "u";
+    public string SoftplusClampBits { get; } = "0x" + SoftplusF32.ClampBits.ToString("X8", Inv) + "u";
 
     /// <summary>The proved bound of the f32 softplus polynomial, for the comment.</summary>
-    public string SoftplusMaxError => SoftplusF32.MaxAbsError.ToString("G3", Inv);
+    public string SoftplusMaxError { get; } = SoftplusF32.MaxAbsError.ToString("G3", Inv);
 
     /// <summary>The math functions of the float mode (<c>expf</c> or <c>exp</c>...).</summary>
     public string Exp => Plan.Mode == NumericMode.F32 ? "expf" : "exp";
