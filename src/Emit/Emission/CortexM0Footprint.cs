@@ -39,6 +39,7 @@ public static class CortexM0Footprint
         int tableEntry = plan.Table.EntryFormat.TotalBits / 8;
 
         long tables = Table(v, a) + Table(selfTestVectors * packed, 1) + Table(selfTestVectors, a);
+        if (optimize == OptimizeFor.Speed && v > 1) tables += Table(256, 1); // the bit scan's lowest-set-bit table
         if (h > 0)
         {
             tables += Table(h, a) + Table(v * h, w) + Table(plan.Table.Segments + 1, tableEntry);
@@ -66,10 +67,20 @@ public static class CortexM0Footprint
 
         int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
             : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? (pairs ? 192 : 144) : 64) + (pairs ? 16 : 0);
+        if (Dialects.CDialect.UsesPackedRows(plan, optimize))
+        {
+            // packed rows: two arrays of lane sums, the accumulators padded to whole words, a helper's frame
+            int lanes = plan.WeightType == WeightType.Int8 ? 4 : 2, words = (h + lanes - 1) / lanes;
+            frame += 2 * words * 4 + (lanes * words - h) * a + PackedFrame;
+            code += lanes == 4 ? PackedCodeInt8 : PackedCodeInt16;
+        }
         int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
         return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance,
             LibraryStackAllowance);
     }
+
+    // Packed rows (CDialect.PackedRows): extra code and frame bytes, measured as the constants above.
+    private const int PackedCodeInt16 = 200, PackedCodeInt8 = 260, PackedFrame = 16;
 
     /// <summary>
     /// Bytes of a table of <paramref name="count"/> elements of <paramref name="size"/> bytes, rounded up to a word (8

@@ -24,11 +24,13 @@ public static class FootprintModel
     };
 
     /// <summary>
-    /// The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units.
+    /// The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units, except in
+    /// f32 without hidden-hidden links, whose softplus is a polynomial (<see cref="SoftplusF32"/>).
     /// </summary>
     public static IReadOnlyList<string> LibmFunctions(ScorerPlan plan)
     {
         if (plan.Mode == NumericMode.Fixed || !plan.HasHidden) return [];
+        if (plan.Mode == NumericMode.F32 && !plan.IsGeneral) return [];
         string s = plan.Mode == NumericMode.F32 ? "f" : "";
         return plan.IsGeneral ? ["exp" + s, "log" + s] : ["exp" + s, "log" + s, "fabs" + s];
     }

@@ -21,7 +21,12 @@ namespace Emit.Quantize;
 /// at most u (the argument lies in [1, 2]), log's own error is at most A·ln 2 (plus A·u), and the final addition
 /// u·softplus(x). The allowance is ours (common practice); from memory, the glibc manual's table of known maximum
 /// errors lists at most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
-/// <item>The final F = −linear − Σ_j softplus_j, H subtractions: γ_H·(|linear| + Σ softplus_j).</item>
+/// <item>f32: the generated C computes log(1 + exp(−|x|)) by the polynomial <see cref="SoftplusF32"/> instead of libm;
+/// its error over every float argument, <see cref="SoftplusF32.MaxAbsError"/>, is added per hidden unit on top of the
+/// libm terms (so one bound holds for the C and the C# scorer).</item>
+/// <item>The final F = −linear − Σ_j softplus_j: either H subtractions in order, or (the generated C when optimizing
+/// for speed) ⌈H/16⌉ terms into each of 16 partial sums, then 16 subtractions; every term meets at most
+/// <see cref="SumRoundings"/> roundings: γ_n·(|linear| + Σ softplus_j).</item>
 /// <item>general: log Σ_h exp(s(h)) is 1-Lipschitz in every s(h) (max norm) and its gradient in a sums to at most H,
 /// so pre-activation errors add; the running Gray-code scores carry at most <see cref="GrayScoreRoundings"/> roundings
 /// of quantities bounded by S = Σ|a_j| + Σ|M_kl|; exp(s − max) is within A relative, the pairwise sum of 2^H terms
@@ -38,6 +43,12 @@ public static class FloatErrorBound
     /// Log2 of the Gray-code block the generated general-model code recomputes scores at (see templates).
     /// </summary>
     public static int GrayBlockBits(int hidden) => Math.Min(hidden, 4);
+
+    /// <summary>
+    /// Roundings any one term of the final sum over H softplus terms meets, in either order the generated code uses:
+    /// H in order, or ⌈H/16⌉ − 1 in a partial sum and 16 when the partial sums are subtracted.
+    /// </summary>
+    public static long SumRoundings(int hidden) => hidden < 16 ? hidden : Math.Max(hidden, (hidden + 15) / 16 + 16);
 
     /// <summary>Unit roundoff u of a float mode: 2^−24 for f32, 2^−53 for f64.</summary>
     public static double UnitRoundoff(NumericMode mode) => mode switch
@@ -63,11 +74,14 @@ public static class FloatErrorBound
 
     /// <summary>The bound for one input (one byte per unit, nonzero = on).</summary>
     public static double ForVector(BoltzmannModel model, NumericMode mode, ReadOnlySpan<byte> units) =>
-        Compute(model, UnitRoundoff(mode), units.ToArray(), GrayBlockBits(model.Hidden), pairwise: true);
+        Compute(model, UnitRoundoff(mode), units.ToArray(), GrayBlockBits(model.Hidden), pairwise: true,
+            Polynomial(mode));
 
     /// <summary>The bound over every input: the largest term sums, all units on.</summary>
     public static double Worst(BoltzmannModel model, NumericMode mode) =>
-        Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true);
+        Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true, Polynomial(mode));
+
+    private static double Polynomial(NumericMode mode) => mode == NumericMode.F32 ? SoftplusF32.MaxAbsError : 0;
 
     /// <summary>
     /// The bound over every input for streamed scoring (docs/generated-code.md): the state is accumulated from the
@@ -81,7 +95,8 @@ public static class FloatErrorBound
     public static double StreamWorst(BoltzmannModel model, NumericMode mode, long flips)
     {
         ArgumentOutOfRangeException.ThrowIfNegative(flips);
-        return Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true, flips);
+        return Compute(model, UnitRoundoff(mode), null, GrayBlockBits(model.Hidden), pairwise: true,
+            Polynomial(mode), flips);
     }
 
     /// <summary>
@@ -89,17 +104,17 @@ public static class FloatErrorBound
     /// blocks of 2^14 states with running rescaling), so a tolerance can allow for the expected value's own error.
     /// </summary>
     public static double Reference(BoltzmannModel model, ReadOnlySpan<byte> units) =>
-        Compute(model, UnitRoundoff(NumericMode.F64), units.ToArray(), Math.Min(model.Hidden, 14), pairwise: false);
+        Compute(model, UnitRoundoff(NumericMode.F64), units.ToArray(), Math.Min(model.Hidden, 14), pairwise: false, 0);
 
     /// <summary>
     /// A bound on the error of <see cref="ReferenceScorer"/> over every input (as <see cref="Reference"/>, with the
     /// largest term sums).
     /// </summary>
     public static double ReferenceWorst(BoltzmannModel model) =>
-        Compute(model, UnitRoundoff(NumericMode.F64), null, Math.Min(model.Hidden, 14), pairwise: false);
+        Compute(model, UnitRoundoff(NumericMode.F64), null, Math.Min(model.Hidden, 14), pairwise: false, 0);
 
     private static double Compute(BoltzmannModel m, double u, byte[]? units, int blockBits, bool pairwise,
-        long flips = 0)
+        double polynomial, long flips = 0)
     {
         int v = m.Visible, h = m.Hidden;
         double a = LibmUlps * 2 * u;
@@ -171,11 +186,12 @@ public static class FloatErrorBound
             {
                 double sp = Softplus.Of(aMax[j] + aErr[j]);
                 double t = units is null ? 1.0 : Math.Exp(-Math.Max(0, Math.Abs(aMax[j]) - aErr[j]));
-                spErr += aErr[j] + a * t + u + a * (Math.Log(2) + u) + u * sp;
+                spErr += aErr[j] + a * t + u + a * (Math.Log(2) + u) + u * sp + polynomial;
                 spSum += sp;
             }
-            total = linErr + spErr + Gamma(h, u) * (linMag + linErr + spSum + spErr);
-            nMax = Math.Max(nMax, h);
+            long sum = SumRoundings(h);
+            total = linErr + spErr + Gamma(sum, u) * (linMag + linErr + spSum + spErr);
+            nMax = Math.Max(nMax, sum);
         }
         else if (h == 0)
         {

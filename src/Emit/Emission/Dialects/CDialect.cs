@@ -105,6 +105,83 @@ public sealed class CDialect : TargetDialect
     public int VectorBlock =>
         Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
 
+    /// <summary>
+    /// Whether the bit scan looks the lowest set bit of each input byte up in a 256-entry table (speed) instead of
+    /// stepping through the bits (size): a loop whose trip count depends on the data mispredicts about once per set
+    /// bit (measured on bench/generated-c, docs/benchmarks.md).
+    /// </summary>
+    /// With one visible unit there is nothing to scan (and compilers fold the table away).
+    public bool BitScanTable => Plan.Optimize == OptimizeFor.Speed && Plan.Visible > 1;
+
+    /// <summary>The lowest set bit of each byte value 1..255, and 8 (no bit) for the unused entry 0.</summary>
+    public IReadOnlyList<int> LowestSetBit { get; } =
+        Enumerable.Range(0, 256).Select(b => b == 0 ? 8 : System.Numerics.BitOperations.TrailingZeroCount(b)).ToArray();
+
+    /// <summary>
+    /// Whether the weight rows are stored packed, several offset-binary weights to a 32-bit word, and added with
+    /// 32-bit unsigned additions (SIMD within a register): when optimizing for speed with int16 or int8 weights, an
+    /// int32 accumulator and at least <see cref="SpeedVectorBlock"/> hidden units. int16: word k of a row holds unit
+    /// k's weight + 2^15 in bits 0..15 and unit k + P's in bits 16..31 (P = ⌈H/2⌉ words a row); one accumulator sums
+    /// whole words, another the words shifted right by 16, and the low lane's sum is their difference. int8: word k
+    /// holds the weights + 2^7 of units k, k + Q, k + 2Q, k + 3Q (Q = ⌈H/4⌉) in its four bytes; the even and odd
+    /// bytes are added into 16-bit lanes, which are emptied into the accumulators every 256 rows, before a lane can
+    /// overflow. Missing units (H not a multiple of 2 or 4) have weight 0. The integers are the same as the plain
+    /// loop's: every partial sum is the pre-activation of some input, inside the proved range. With at most 32768
+    /// visible units an int16 lane's sum stays below 2^31 (measured on bench/generated-c and bench/cortex-m3,
+    /// docs/benchmarks.md).
+    /// </summary>
+    public bool PackedRows => Plan is FixedScorerPlan f && UsesPackedRows(f.Fixed, Plan.Optimize);
+
+    /// <summary>Whether the C of <paramref name="plan"/> stores its rows packed (<see cref="PackedRows"/>).</summary>
+    public static bool UsesPackedRows(FixedPointPlan plan, OptimizeFor optimize) =>
+        optimize == OptimizeFor.Speed && plan.Model.Hidden >= SpeedVectorBlock
+        && plan.Accumulator == AccumulatorType.Int32
+        && plan.WeightType is Quantize.WeightType.Int16 or Quantize.WeightType.Int8 && plan.Model.Visible <= 32768;
+
+    /// <summary>Weights to a packed word: 2 (int16) or 4 (int8).</summary>
+    public int PackedLanes => ((FixedScorerPlan)Plan).WeightType == Quantize.WeightType.Int8 ? 4 : 2;
+
+    /// <summary>Words of a packed row: ⌈H / lanes⌉.</summary>
+    public int PackedWords => (Plan.Hidden + PackedLanes - 1) / PackedLanes;
+
+    /// <summary>Row <paramref name="i"/> of the packed weight table (see <see cref="PackedRows"/>).</summary>
+    public IReadOnlyList<uint> PackedRow(int i)
+    {
+        var plan = (FixedScorerPlan)Plan;
+        int h = Plan.Hidden, lanes = PackedLanes, words = PackedWords, bits = 32 / lanes;
+        long offset = 1L << (bits - 1);
+        var row = new uint[words];
+        for (int k = 0; k < words; k++)
+            for (int l = 0; l < lanes; l++)
+            {
+                int j = k + l * words;
+                long w = j < h ? plan.Fixed.Weights[i * h + j] : 0;
+                row[k] |= (uint)(w + offset) << (l * bits);
+            }
+        return row;
+    }
+
+    /// <summary>
+    /// Whether the f32 softplus is the branch-free polynomial <see cref="SoftplusF32"/> (no libm call) rather than
+    /// libm's expf and logf: f32 models with hidden units and no hidden-hidden links.
+    /// </summary>
+    public bool SoftplusPolynomial => Plan.Mode == NumericMode.F32 && Plan.HasHidden && !Plan.IsGeneral;
+
+    /// <summary>Literals of <see cref="SoftplusF32.Exp2"/>.</summary>
+    public IReadOnlyList<string> SoftplusExp2 { get; } = SoftplusF32.Exp2.Select(c => Literals.Float(c)).ToArray();
+
+    /// <summary>Literals of <see cref="SoftplusF32.Atanh"/>.</summary>
+    public IReadOnlyList<string> SoftplusAtanh { get; } = SoftplusF32.Atanh.Select(c => Literals.Float(c)).ToArray();
+
+    /// <summary>The literal of <see cref="SoftplusF32.MinusLog2E"/>.</summary>
+    public string SoftplusMinusLog2E { get; } = Literals.Float(SoftplusF32.MinusLog2E);
+
+    /// <summary>The clamp of the softplus argument as a C literal of its bit pattern.</summary>
+    public string SoftplusClampBits { get; } = "0x" + SoftplusF32.ClampBits.ToString("X8", Inv) + "u";
+
+    /// <summary>The proved bound of the f32 softplus polynomial, for the comment.</summary>
+    public string SoftplusMaxError { get; } = SoftplusF32.MaxAbsError.ToString("G3", Inv);
+
     /// <summary>The math functions of the float mode (<c>expf</c> or <c>exp</c>...).</summary>
     public string Exp => Plan.Mode == NumericMode.F32 ? "expf" : "exp";
 
@@ -178,5 +255,6 @@ public sealed class CDialect : TargetDialect
     {
         base.Register(globals);
         globals.Import("macro_int", new Func<long, string>(MacroInt));
+        globals.Import("packed_row", new Func<int, IReadOnlyList<uint>>(PackedRow));
     }
 }

@@ -82,6 +82,26 @@ static const small_general_energy_t small_general_hidden_pairs[] SMALL_GENERAL_T
     0.289481282f, 0.449767977f, 0.0f,
 };
 
+/* The lowest set bit of each byte value (8 for 0, which is never looked up): one load per set bit. */
+static const uint8_t small_general_lowest_bit[] SMALL_GENERAL_TABLE_ATTR = {
+    8, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    7, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+};
+
 /* Inputs, packed as for small_general_free_energy, SMALL_GENERAL_PACKED_BYTES per input. */
 static const uint8_t small_general_selftest_inputs[] SMALL_GENERAL_TABLE_ATTR = {
     /* all units off */
@@ -135,6 +155,8 @@ _Static_assert(SMALL_GENERAL_COUNT(small_general_link_weight)
                == (size_t)(3), "link_weight");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_hidden_pairs)
                == (size_t)(SMALL_GENERAL_HIDDEN * SMALL_GENERAL_HIDDEN), "hidden_pairs");
+_Static_assert(SMALL_GENERAL_COUNT(small_general_lowest_bit)
+               == (size_t)(256u), "lowest_bit");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_selftest_inputs)
                == (size_t)(SMALL_GENERAL_SELFTEST_VECTORS * SMALL_GENERAL_PACKED_BYTES), "selftest_inputs");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_selftest_expected)
@@ -158,6 +180,8 @@ typedef char small_general_check_link_weight[(SMALL_GENERAL_COUNT(small_general_
     == (size_t)(3)) ? 1 : -1];
 typedef char small_general_check_hidden_pairs[(SMALL_GENERAL_COUNT(small_general_hidden_pairs)
     == (size_t)(SMALL_GENERAL_HIDDEN * SMALL_GENERAL_HIDDEN)) ? 1 : -1];
+typedef char small_general_check_lowest_bit[(SMALL_GENERAL_COUNT(small_general_lowest_bit)
+    == (size_t)(256u)) ? 1 : -1];
 typedef char small_general_check_selftest_inputs[(SMALL_GENERAL_COUNT(small_general_selftest_inputs)
     == (size_t)(SMALL_GENERAL_SELFTEST_VECTORS * SMALL_GENERAL_PACKED_BYTES)) ? 1 : -1];
 typedef char small_general_check_selftest_expected[(SMALL_GENERAL_COUNT(small_general_selftest_expected)
@@ -283,16 +307,12 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     }
     for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == (SMALL_GENERAL_PACKED_BYTES_U - 1u)) {
             bits &= 0x0Fu;
         }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) {
-                ++bit;
-            }
-            i = (uint_fast16_t)((byte_index * 8u) + bit);
+            i = (uint_fast16_t)((byte_index * 8u) + small_general_lowest_bit[bits]);
             linear += small_general_visible_bias[i];
             {
                 uint_fast16_t n;

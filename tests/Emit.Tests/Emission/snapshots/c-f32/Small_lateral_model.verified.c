@@ -11,7 +11,7 @@
 
 #include <float.h>
 #include <stddef.h>
-#include <math.h>
+#include <string.h>
 
 /* ==== configuration checks ==== */
 
@@ -79,6 +79,26 @@ static const plant_energy_t plant_link_weight[] PLANT_TABLE_ATTR = {
     1.19752574f,
 };
 
+/* The lowest set bit of each byte value (8 for 0, which is never looked up): one load per set bit. */
+static const uint8_t plant_lowest_bit[] PLANT_TABLE_ATTR = {
+    8, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    7, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+};
+
 /* Inputs, packed as for plant_free_energy, PLANT_PACKED_BYTES per input. */
 static const uint8_t plant_selftest_inputs[] PLANT_TABLE_ATTR = {
     /* all units off */
@@ -104,11 +124,11 @@ static const plant_energy_t plant_selftest_expected[] PLANT_TABLE_ATTR = {
 
 /* Allowed |computed - expected|: the input's error bound, the reference's error, the expected value's rounding. */
 static const plant_energy_t plant_selftest_tolerance[] PLANT_TABLE_ATTR = {
-    4.97889368e-06f, /* all units off */
-    1.25558936e-05f, /* all units on */
-    6.604796e-06f, /* maximal pre-activations */
-    5.43372244e-06f, /* minimal pre-activations */
-    6.84588531e-06f, /* pseudo-random sample 1 */
+    5.69889426e-06f, /* all units off */
+    1.32758951e-05f, /* all units on */
+    7.32479657e-06f, /* maximal pre-activations */
+    6.15372301e-06f, /* minimal pre-activations */
+    7.56588588e-06f, /* pseudo-random sample 1 */
 };
 
 /*
@@ -130,6 +150,8 @@ _Static_assert(PLANT_COUNT(plant_link_other)
                == (size_t)(7), "link_other");
 _Static_assert(PLANT_COUNT(plant_link_weight)
                == (size_t)(7), "link_weight");
+_Static_assert(PLANT_COUNT(plant_lowest_bit)
+               == (size_t)(256u), "lowest_bit");
 _Static_assert(PLANT_COUNT(plant_selftest_inputs)
                == (size_t)(PLANT_SELFTEST_VECTORS * PLANT_PACKED_BYTES), "selftest_inputs");
 _Static_assert(PLANT_COUNT(plant_selftest_expected)
@@ -151,6 +173,8 @@ typedef char plant_check_link_other[(PLANT_COUNT(plant_link_other)
     == (size_t)(7)) ? 1 : -1];
 typedef char plant_check_link_weight[(PLANT_COUNT(plant_link_weight)
     == (size_t)(7)) ? 1 : -1];
+typedef char plant_check_lowest_bit[(PLANT_COUNT(plant_lowest_bit)
+    == (size_t)(256u)) ? 1 : -1];
 typedef char plant_check_selftest_inputs[(PLANT_COUNT(plant_selftest_inputs)
     == (size_t)(PLANT_SELFTEST_VECTORS * PLANT_PACKED_BYTES)) ? 1 : -1];
 typedef char plant_check_selftest_expected[(PLANT_COUNT(plant_selftest_expected)
@@ -162,14 +186,54 @@ typedef char plant_check_selftest_tolerance[(PLANT_COUNT(plant_selftest_toleranc
 /* ==== scoring ==== */
 
 /*
- * softplus(x) = log(1 + e^x) = max(x, 0) + log(1 + e^-|x|). e^-|x| <= 1, so no step overflows for any x, and the
- * log's argument lies in [1, 2]: its absolute error stays within a few units in the last place (log1p would add
- * relative accuracy for tiny e^-|x| that an absolute error bound does not need, at a higher cost).
+ * softplus(x) = log(1 + e^x) = max(x, 0) + G(|x|), G(d) = log(1 + e^-d), without libm and without branches (so
+ * compilers vectorize it): e^-d = 2^k p(f), k = round(-d log2 e) (adding 1.5 * 2^23 rounds to an integer),
+ * f = -d log2 e - k in [-1/2, 1/2], p a degree-6 polynomial for 2^f, and k added to p's exponent bits; then
+ * G = log(1 + e) = 2u q(u^2), u = e / (2 + e) in (0, 1/3] (log((1 + u) / (1 - u)) = 2 atanh u), q a degree-4
+ * polynomial; both in Estrin's scheme. d is clamped to 32 on its bit pattern (G(32) < 1.3e-14), so 2^k stays
+ * normal; max(x, 0) is taken on the bit pattern too. Bit patterns are copied with memcpy (no aliasing questions).
+ * |G computed - G| <= 2.4E-07 for every non-negative float, checked exhaustively against a double reference
+ * (emit's tools/softplus-check; the error bound in plant.h includes it).
  */
-static plant_energy_t plant_softplus(plant_energy_t x)
+static float plant_softplus(float x)
 {
-    const plant_energy_t positive = (x > 0.0f) ? x : 0.0f;
-    return positive + logf(1.0f + expf(-fabsf(x)));
+    uint32_t bits;
+    uint32_t clamped;
+    uint32_t k;
+    float positive;
+    float d;
+    float t;
+    float r;
+    float f;
+    float f2;
+    float p;
+    float e;
+    float u;
+    float s;
+    float s2;
+    float q;
+    (void)memcpy(&bits, &x, sizeof bits);
+    clamped = bits & ((bits >> 31) - 1u); /* x, or +0 when the sign bit is set */
+    (void)memcpy(&positive, &clamped, sizeof positive);
+    bits &= 0x7FFFFFFFu;
+    clamped = (bits < 0x42000000u) ? bits : 0x42000000u;
+    (void)memcpy(&d, &clamped, sizeof d);
+    t = d * -1.44269502f;
+    r = t + 12582912.0f;
+    (void)memcpy(&k, &r, sizeof k);
+    f = t - (r - 12582912.0f);
+    f2 = f * f;
+    p = ((1.0f + (0.693147182f * f)) + (f2 * (0.240226462f + (0.0555032864f * f))))
+        + ((f2 * f2) * ((0.00961848907f + (0.00133999309f * f)) + (0.00015345795f * f2)));
+    (void)memcpy(&bits, &p, sizeof bits);
+    bits += (k - 0x4B400000u) << 23; /* k - 0x4B400000 is the integer r, modulo 2^32: adds it to p's exponent */
+    (void)memcpy(&e, &bits, sizeof e);
+    u = e / (2.0f + e);
+    s = u * u;
+    s2 = s * s;
+    q = ((1.0f + (0.33332935f * s)) + (s2 * (0.200196698f + (0.13893795f * s))))
+        + ((s2 * s2) * 0.144349903f);
+    return positive + ((u + u) * q);
 }
 
 /*
@@ -192,16 +256,12 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     }
     for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == (PLANT_PACKED_BYTES_U - 1u)) {
             bits &= 0x3Fu;
         }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) {
-                ++bit;
-            }
-            i = (uint_fast16_t)((byte_index * 8u) + bit);
+            i = (uint_fast16_t)((byte_index * 8u) + plant_lowest_bit[bits]);
             linear += plant_visible_bias[i];
             {
                 uint_fast16_t n;

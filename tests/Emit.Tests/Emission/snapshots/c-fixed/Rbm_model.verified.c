@@ -101,25 +101,28 @@ static const int8_t rbm_fraction_bits[] RBM_TABLE_ATTR = {
 };
 
 /*
- * W: one row of RBM_HIDDEN per visible unit; row i is added to the hidden accumulators when unit i is on.
- * Column j is in unit j's format: Q0.15 (9 units), Q1.14 (6 units), Q-1.16 (3 units).
+ * W, packed: one row of RBM_ROW_WORDS words per visible unit; row i is added to the hidden accumulators when
+ * unit i is on. Column j is in unit j's format: Q0.15 (9 units), Q1.14 (6 units), Q-1.16 (3 units).
+ * W_ij is stored offset binary, plus 32768, in bits 16 * (j / ROW_WORDS) .. +15 of word j % ROW_WORDS of row i, so
+ * W_ij = ((row[j % ROW_WORDS] >> (16 * (j / ROW_WORDS))) & 0xFFFF) - 32768.
  */
-static const rbm_weight_t rbm_weights[] RBM_TABLE_ATTR = {
+#define RBM_ROW_WORDS 9u
+static const uint32_t rbm_weights[] RBM_TABLE_ATTR = {
     /* unit 0 */
-    10191, 10390, -22739, -12657, 1784, 24241, 1434, -3559, 14908, -3758, 8918, 28173,
-    9937, 17761, -622, 4115, -16244, -17638,
+    1901242319u, 2731976854u, 3993839405u, 2798734991u, 3311503096u, 2106777265u, 2417198490u, 1082946073u,
+    991607356u,
     /* unit 1 */
-    -12068, 23504, -20742, 3856, -11878, -27910, -22874, -3884, -5853, -30943, -17607, -3957,
-    -10936, -3869, 11159, -17880, -21712, 6781,
+    119623900u, 993647568u, 1888169722u, 1430818576u, 1893945754u, 2878804730u, 975709862u, 724594900u,
+    2591910179u,
     /* unit 2 */
-    16753, -1695, -26604, -7478, 2208, -27494, 25748, 18807, 16474, 17528, -28083, 10488,
-    7666, 340, 11838, 19712, 21104, 22486,
+    3296248177u, 307067233u, 2834831380u, 2649907914u, 2169800864u, 2923304090u, 3439387796u, 3530606967u,
+    3621175386u,
     /* unit 3 */
-    -12423, -12754, -12973, -19813, 19038, 3909, 10254, -2506, 17756, -21606, -20333, 16936,
-    -26394, -8604, 9451, -737, 22461, -13327,
+    731533177u, 814960174u, 3257421139u, 417739419u, 1583663710u, 2766901061u, 2099226638u, 3619518006u,
+    1274135900u,
     /* unit 4 */
-    -11987, -5954, -12369, 1417, -9615, -17210, 6036, -7311, 10920, 4527, 14184, 19714,
-    -17577, -2643, 20967, 5027, -13114, -14922,
+    2444185901u, 3077073086u, 3439480751u, 995591561u, 1974295153u, 3521592518u, 2476971924u, 1288070001u,
+    1169599144u,
 };
 
 /*
@@ -162,6 +165,26 @@ static const int32_t rbm_softplus_table[] RBM_TABLE_ATTR = {
     5627, /* T[256], d = 8 */
 };
 
+/* The lowest set bit of each byte value (8 for 0, which is never looked up): one load per set bit. */
+static const uint8_t rbm_lowest_bit[] RBM_TABLE_ATTR = {
+    8, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    7, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+};
+
 /* Inputs, packed as for rbm_free_energy, RBM_PACKED_BYTES per input. */
 static const uint8_t rbm_selftest_inputs[] RBM_TABLE_ATTR = {
     /* all units off */
@@ -197,9 +220,11 @@ _Static_assert(RBM_COUNT(rbm_hidden_bias)
 _Static_assert(RBM_COUNT(rbm_fraction_bits)
                == (size_t)(RBM_HIDDEN), "fraction_bits");
 _Static_assert(RBM_COUNT(rbm_weights)
-               == (size_t)(RBM_VISIBLE * RBM_HIDDEN), "weights");
+               == (size_t)(RBM_VISIBLE * RBM_ROW_WORDS), "weights");
 _Static_assert(RBM_COUNT(rbm_softplus_table)
                == (size_t)(257), "softplus_table");
+_Static_assert(RBM_COUNT(rbm_lowest_bit)
+               == (size_t)(256u), "lowest_bit");
 _Static_assert(RBM_COUNT(rbm_selftest_inputs)
                == (size_t)(RBM_SELFTEST_VECTORS * RBM_PACKED_BYTES), "selftest_inputs");
 _Static_assert(RBM_COUNT(rbm_selftest_expected)
@@ -212,9 +237,11 @@ typedef char rbm_check_hidden_bias[(RBM_COUNT(rbm_hidden_bias)
 typedef char rbm_check_fraction_bits[(RBM_COUNT(rbm_fraction_bits)
     == (size_t)(RBM_HIDDEN)) ? 1 : -1];
 typedef char rbm_check_weights[(RBM_COUNT(rbm_weights)
-    == (size_t)(RBM_VISIBLE * RBM_HIDDEN)) ? 1 : -1];
+    == (size_t)(RBM_VISIBLE * RBM_ROW_WORDS)) ? 1 : -1];
 typedef char rbm_check_softplus_table[(RBM_COUNT(rbm_softplus_table)
     == (size_t)(257)) ? 1 : -1];
+typedef char rbm_check_lowest_bit[(RBM_COUNT(rbm_lowest_bit)
+    == (size_t)(256u)) ? 1 : -1];
 typedef char rbm_check_selftest_inputs[(RBM_COUNT(rbm_selftest_inputs)
     == (size_t)(RBM_SELFTEST_VECTORS * RBM_PACKED_BYTES)) ? 1 : -1];
 typedef char rbm_check_selftest_expected[(RBM_COUNT(rbm_selftest_expected)
@@ -281,6 +308,28 @@ static rbm_acc_t rbm_g(rbm_acc_t mag, int d)
 }
 
 /*
+ * Adds the packed sums of `rows` rows to the accumulators: low[k] holds the sum of the words k,
+ * high[k] the sum of the words shifted right by 16. The sum of unit k + ROW_WORDS's lanes is high[k], unit k's
+ * is low[k] - high[k] * 2^16 (modulo 2^32); each is the sum of the weights plus rows * 32768.
+ * Scaling and overflow: a lane's sum is at most rows * 65535 < 2^31 (rows <= VISIBLE <= 32768), so it converts to
+ * the accumulator type unchanged; lane sum - rows * 32768 is a sum of weights of some input's rows, and added to
+ * the bias it is that input's pre-activation, inside its proved range.
+ */
+static void rbm_unpack(const uint32_t low[RBM_ROW_WORDS], const uint32_t high[RBM_ROW_WORDS],
+    uint32_t rows, rbm_acc_t acc[RBM_ROW_WORDS * 2u])
+{
+    const uint32_t scaled = rows << 15u;
+    const rbm_acc_t offset = (rbm_acc_t)scaled;
+    uint_fast16_t k;
+    for (k = 0u; k < RBM_ROW_WORDS; ++k) {
+        const uint32_t lane_low = low[k] - (high[k] << 16u);
+        const uint32_t lane_high = high[k];
+        acc[k] += (rbm_acc_t)lane_low - offset;
+        acc[k + RBM_ROW_WORDS] += (rbm_acc_t)lane_high - offset;
+    }
+}
+
+/*
  * softplus_q(a, f) = (a > 0 ? to_energy(a, f - E) : 0) + G_q(|a|, f - e), from softplus(x) = max(x, 0) + G(|x|).
  * Scaling and overflow: a is a hidden accumulator with f fraction bits (Q16.15 (9 units), Q17.14 (6 units), Q15.16 (3
  * units)). Over all inputs a lies in [-129629, 176101] (13 guard bits in 32), so -a cannot overflow; the result, in
@@ -297,8 +346,11 @@ static rbm_acc_t rbm_softplus(rbm_acc_t a, int f)
 rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
 {
     rbm_acc_t energy = -4260; /* K, the centring constant of the error interval */
-    rbm_acc_t acc[RBM_HIDDEN];
-    const rbm_weight_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
+    rbm_acc_t acc[RBM_ROW_WORDS * 2u]; /* past HIDDEN: the lanes of missing units */
+    uint32_t low[RBM_ROW_WORDS];
+    uint32_t high[RBM_ROW_WORDS];
+    uint32_t rows = 0u;
+    const uint32_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
     unsigned int count = 0u;
     uint_fast16_t j;
     unsigned int u; /* unit within a block: the row additions go in blocks of 16, which compilers vectorize */
@@ -306,35 +358,40 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
     for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
         acc[j] = rbm_hidden_bias[j];
     }
+    for (j = 0u; j < RBM_ROW_WORDS; ++j) {
+        low[j] = 0u;
+        high[j] = 0u;
+    }
     for (byte_index = 0u; byte_index < RBM_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == (RBM_PACKED_BYTES_U - 1u)) {
             bits &= 0x1Fu;
         }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) {
-                ++bit;
-            }
-            i = (uint_fast16_t)((byte_index * 8u) + bit);
+            i = (uint_fast16_t)((byte_index * 8u) + rbm_lowest_bit[bits]);
             energy += rbm_visible_bias[i];
-            waiting[count] = &rbm_weights[i * 18u];
+            waiting[count] = &rbm_weights[i * RBM_ROW_WORDS];
+            ++rows;
             ++count;
             if (count == 4u) {
-                const rbm_weight_t *r0 = waiting[0];
-                const rbm_weight_t *r1 = waiting[1];
-                const rbm_weight_t *r2 = waiting[2];
-                const rbm_weight_t *r3 = waiting[3];
-                for (j = 0u; (j + 16u) <= (uint_fast16_t)RBM_HIDDEN; j += 16u) {
+                const uint32_t *r0 = waiting[0];
+                const uint32_t *r1 = waiting[1];
+                const uint32_t *r2 = waiting[2];
+                const uint32_t *r3 = waiting[3];
+                for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
                     for (u = 0u; u < 16u; ++u) {
-                        acc[j + u] += (rbm_acc_t)r0[j + u] + (rbm_acc_t)r1[j + u]
-                            + (rbm_acc_t)r2[j + u] + (rbm_acc_t)r3[j + u];
+                        low[j + u] += r0[j + u] + r1[j + u]
+                            + r2[j + u] + r3[j + u];
+                        high[j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
+                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
                     }
                 }
-                for (; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-                    acc[j] += (rbm_acc_t)r0[j] + (rbm_acc_t)r1[j]
-                        + (rbm_acc_t)r2[j] + (rbm_acc_t)r3[j];
+                for (; j < RBM_ROW_WORDS; ++j) {
+                    low[j] += r0[j] + r1[j]
+                        + r2[j] + r3[j];
+                    high[j] += (r0[j] >> 16u) + (r1[j] >> 16u)
+                        + (r2[j] >> 16u) + (r3[j] >> 16u);
                 }
                 count = 0u;
             }
@@ -342,18 +399,21 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
         }
     }
     while (count != 0u) { /* the last one to three rows, one at a time */
-        const rbm_weight_t *row;
+        const uint32_t *row;
         --count;
         row = waiting[count];
-        for (j = 0u; (j + 16u) <= (uint_fast16_t)RBM_HIDDEN; j += 16u) {
+        for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
             for (u = 0u; u < 16u; ++u) {
-                acc[j + u] += (rbm_acc_t)row[j + u];
+                low[j + u] += row[j + u];
+                high[j + u] += (row[j + u] >> 16u);
             }
         }
-        for (; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-            acc[j] += (rbm_acc_t)row[j];
+        for (; j < RBM_ROW_WORDS; ++j) {
+            low[j] += row[j];
+            high[j] += (row[j] >> 16u);
         }
     }
+    rbm_unpack(low, high, rows, acc);
     for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
         energy += rbm_softplus(acc[j], (int)rbm_fraction_bits[j]);
     }

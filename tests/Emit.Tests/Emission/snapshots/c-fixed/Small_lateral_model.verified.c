@@ -164,6 +164,26 @@ static const int32_t plant_softplus_table[] PLANT_TABLE_ATTR = {
     304505, /* T[256], d = 4 */
 };
 
+/* The lowest set bit of each byte value (8 for 0, which is never looked up): one load per set bit. */
+static const uint8_t plant_lowest_bit[] PLANT_TABLE_ATTR = {
+    8, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    7, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+};
+
 /* Inputs, packed as for plant_free_energy, PLANT_PACKED_BYTES per input. */
 static const uint8_t plant_selftest_inputs[] PLANT_TABLE_ATTR = {
     /* all units off */
@@ -208,6 +228,8 @@ _Static_assert(PLANT_COUNT(plant_link_weight)
                == (size_t)(7), "link_weight");
 _Static_assert(PLANT_COUNT(plant_softplus_table)
                == (size_t)(257), "softplus_table");
+_Static_assert(PLANT_COUNT(plant_lowest_bit)
+               == (size_t)(256u), "lowest_bit");
 _Static_assert(PLANT_COUNT(plant_selftest_inputs)
                == (size_t)(PLANT_SELFTEST_VECTORS * PLANT_PACKED_BYTES), "selftest_inputs");
 _Static_assert(PLANT_COUNT(plant_selftest_expected)
@@ -229,6 +251,8 @@ typedef char plant_check_link_weight[(PLANT_COUNT(plant_link_weight)
     == (size_t)(7)) ? 1 : -1];
 typedef char plant_check_softplus_table[(PLANT_COUNT(plant_softplus_table)
     == (size_t)(257)) ? 1 : -1];
+typedef char plant_check_lowest_bit[(PLANT_COUNT(plant_lowest_bit)
+    == (size_t)(256u)) ? 1 : -1];
 typedef char plant_check_selftest_inputs[(PLANT_COUNT(plant_selftest_inputs)
     == (size_t)(PLANT_SELFTEST_VECTORS * PLANT_PACKED_BYTES)) ? 1 : -1];
 typedef char plant_check_selftest_expected[(PLANT_COUNT(plant_selftest_expected)
@@ -323,16 +347,12 @@ plant_energy_t plant_free_energy(const uint8_t packed[PLANT_PACKED_BYTES])
     }
     for (byte_index = 0u; byte_index < PLANT_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
-        unsigned int bit = 0u; /* set bits are taken lowest first, so the search for the next one goes on from here */
         if (byte_index == (PLANT_PACKED_BYTES_U - 1u)) {
             bits &= 0x3Fu;
         }
         while (bits != 0u) {
             uint_fast16_t i;
-            while (((bits >> bit) & 1u) == 0u) {
-                ++bit;
-            }
-            i = (uint_fast16_t)((byte_index * 8u) + bit);
+            i = (uint_fast16_t)((byte_index * 8u) + plant_lowest_bit[bits]);
             energy += plant_visible_bias[i];
             {
                 uint_fast16_t n;
