@@ -1,4 +1,5 @@
 using Emit.Emission;
+using Emit.Emission.Dialects;
 using Emit.Harness;
 using Emit.Model;
 using Emit.Quantize;
@@ -15,7 +16,8 @@ namespace Emit.Tests.Harness;
 /// </summary>
 public sealed class StreamExplainTests
 {
-    private static VerifyReport Run(BoltzmannModel model, NumericMode mode, string[] targets, string dir)
+    private static VerifyReport Run(BoltzmannModel model, NumericMode mode, string[] targets, string dir,
+        FixedPointOptions? fixedOptions = null)
     {
         var rng = new Random(5);
         var vectors = Enumerable.Range(0, 60)
@@ -28,6 +30,7 @@ public sealed class StreamExplainTests
             InputPath = VerifyCases.WriteVectors(dir, vectors),
             Targets = targets,
             Numeric = mode,
+            Fixed = fixedOptions,
             Settings = VerifyCases.Settings(),
             Stream = true,
             Explain = true,
@@ -56,6 +59,27 @@ public sealed class StreamExplainTests
             Assert.All(t.Features, f => Assert.Equal(60, f.Checks));
             Assert.All(t.Features, f => Assert.True(f.Passed, f.Detail));
         }
+    }
+
+    /// <summary>
+    /// Regression: with 16 or more hidden units, int16/int8 weights and an int32 accumulator the speed layout stores
+    /// the weight rows packed (CDialect.PackedRows); the stream once read that table as plain weights.
+    /// </summary>
+    [SkippableTheory]
+    [InlineData(ModelKind.Rbm, WeightType.Int16)]
+    [InlineData(ModelKind.Rbm, WeightType.Int8)]
+    [InlineData(ModelKind.Lateral, WeightType.Int16)]
+    public void Stream_and_explain_read_packed_weight_rows(ModelKind kind, WeightType weights)
+    {
+        VerifyCases.Require(["c"]);
+        var dir = Toolchain.TempDir($"stream-packed-{kind}-{weights}");
+        var model = TestModels.Random(kind, 21, 20, seed: 12, scale: 0.2, linkDensity: 0.2);
+        var options = new FixedPointOptions(weights, AccumulatorType.Int32);
+        var plan = FixedPointPlanner.Build(model, options);
+        Assert.True(CDialect.UsesPackedRows(plan, OptimizeFor.Speed), "the case must use packed rows");
+        var report = Run(model, NumericMode.Fixed, ["c"], dir, options);
+        Assert.True(report.Passed, VerifyCases.Describe(report));
+        Assert.All(report.Targets.Single().Features, f => Assert.True(f.Passed, f.Detail));
     }
 
     /// <summary>A wrong stream result or a misordered explanation fails the feature (the checks can fail).</summary>
