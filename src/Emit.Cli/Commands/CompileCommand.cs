@@ -56,13 +56,17 @@ public sealed class CompileCommand : ICliCommand
                       "flash-limited parts such as Cortex-M0); the results are bit-identical [default: speed]",
     };
 
+    private readonly Option<string?> _alarmFilter = AlarmFilterOption.Create(
+        "Also emit a K-of-N alarm filter over the decisions: on while K of the last N were unusual " +
+        "(1 <= K <= N <= 32; needs a model threshold)");
+
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
     {
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _optimize })
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _optimize, _alarmFilter })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -82,16 +86,18 @@ public sealed class CompileCommand : ICliCommand
                 parse.GetValue(_selfTest),
                 mode == NumericMode.Fixed ? _fixed.Read(parse) : null,
                 parse.GetValue(_optimize),
+                AlarmFilterOption.Read(parse, _alarmFilter),
                 parse.GetValue(_force));
         });
         return cmd;
     }
 
     private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name, string ns,
-        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, OptimizeFor optimize, bool force)
+        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, OptimizeFor optimize,
+        Emit.Detection.AlarmFilterSpec? filter, bool force)
     {
         name ??= Naming.ScorerNameFromFile(modelPath);
-        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize);
+        var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize, filter);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
         CompiledScorer compiled;

@@ -29,6 +29,8 @@ public sealed class VerifyCommand : ICliCommand
     private readonly Option<bool> _allowModelChange = new("--allow-model-change") { Description = "With --generated: compare the numbers even when the sources were generated from another model (otherwise exit 1 without running them)" };
     private readonly Option<bool> _failOnDecision = new("--fail-on-decision-mismatch") { Description = "Fail a target on any decision that differs from the reference, even one within the error bound" };
     private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates") { Description = "With --generated: the templates folder the sources were compiled with, when they used custom templates", HelpName = "DIR" }.MustExist();
+    private readonly Option<string?> _alarmFilter = AlarmFilterOption.Create(
+        "Also emit and check the K-of-N alarm filter (default: as recorded in --generated sources' manifest, else none)");
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report") { Description = "Also write the JSON report to this file (see docs/verify-report.md)", HelpName = "FILE" };
     private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Also write a JUnit XML report to this file, one testcase per target", HelpName = "FILE" };
@@ -42,7 +44,7 @@ public sealed class VerifyCommand : ICliCommand
     {
         var cmd = new Command("verify", "Run the generated scorer on host C, .NET and an emulated Cortex-M3 and compare it with the reference scorer");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange, _failOnDecision, _templates, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
+        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange, _failOnDecision, _templates, _alarmFilter, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.SetAction(parse => Run(ctx, parse));
@@ -77,6 +79,7 @@ public sealed class VerifyCommand : ICliCommand
             Numeric = mode,
             Fixed = fixedGiven || mode == NumericMode.Fixed && parse.GetValue(_generated) is null ? _fixed.Read(parse) : null,
             GeneratedDirectory = parse.GetValue(_generated)?.FullName,
+            AlarmFilter = AlarmFilterOption.Read(parse, _alarmFilter),
             Name = parse.GetValue(_name),
             AllowModelChange = parse.GetValue(_allowModelChange),
             FailOnDecisionMismatch = parse.GetValue(_failOnDecision),

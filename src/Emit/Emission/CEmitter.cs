@@ -10,12 +10,15 @@ public sealed class CEmitter : ITargetEmitter
     public const string FixedSourceTemplate = "scorer-fixed.c.sbn";
     public const string CommonTemplate = "common.c.sbn";
     public const string LicenceTemplate = "licence.sbn";
+    public const string FilterHeaderTemplate = "filter.h.sbn";
+    public const string FilterSourceTemplate = "filter.c.sbn";
 
     public string Name => "c";
     public string Description => "C99 header and source (NAME.h, NAME.c), stdint.h only";
     public IReadOnlyList<string> Extensions { get; } = [".h", ".c"];
     public IReadOnlyList<string> TemplateFiles { get; } =
-        [HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate];
+        [HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate,
+         FilterHeaderTemplate, FilterSourceTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {

@@ -9,11 +9,12 @@ public sealed class CSharpEmitter : ITargetEmitter
     public const string FixedTemplate = "scorer-fixed.cs.sbn";
     public const string CommonTemplate = "common.cs.sbn";
     public const string LicenceTemplate = "licence.sbn";
+    public const string FilterTemplate = "filter.cs.sbn";
 
     public string Name => "csharp";
     public string Description => "C# static class (NAME.cs), BCL only";
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate, FilterTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {

@@ -1,3 +1,4 @@
+using Emit.Detection;
 using Emit.Quantize;
 
 namespace Emit.Emission;
@@ -8,6 +9,7 @@ namespace Emit.Emission;
 /// <c>c/</c> and <c>csharp/</c> sub-folders override shipped templates file by file. <see cref="Fixed"/> holds the
 /// fixed-point choices (weights, accumulator, table size) and is used only with <see cref="NumericMode.Fixed"/>
 /// (null there means the defaults). <see cref="Optimize"/> chooses the code layout (never the results).
+/// <see cref="AlarmFilter"/>, when set, adds the K-of-N alarm filter beside the scorer (docs/generated-code.md).
 /// </summary>
 public sealed record CompileOptions(
     IReadOnlyList<string> Targets,
@@ -17,7 +19,8 @@ public sealed record CompileOptions(
     int SelfTestVectors = CompileOptions.DefaultSelfTestVectors,
     string? TemplatesDirectory = null,
     FixedPointOptions? Fixed = null,
-    OptimizeFor Optimize = OptimizeFor.Speed)
+    OptimizeFor Optimize = OptimizeFor.Speed,
+    AlarmFilterSpec? AlarmFilter = null)
 {
     /// <summary>The fixed-point options in effect (the defaults when none were given).</summary>
     public FixedPointOptions FixedOptions => Fixed ?? new FixedPointOptions();
@@ -41,6 +44,7 @@ public sealed record CompileOptions(
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
         text += $" --selftest-vectors {SelfTestVectors} --optimize {Optimize.ToText()}";
+        if (AlarmFilter is not null) text += $" --alarm-filter {AlarmFilter}";
         if (TemplatesDirectory is not null) text += " --templates (custom)";
         return text;
     }

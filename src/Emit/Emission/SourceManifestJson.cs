@@ -55,6 +55,8 @@ public static class SourceManifestJson
                 w.WriteEndObject();
             }
             else w.WriteNull("fixed");
+            // written only when given, so the manifests of scorers without the filter stay as they were
+            if (m.AlarmFilter is { } filter) w.WriteString("alarm_filter", filter.ToString());
             w.WriteEndObject();
 
             w.WriteStartObject("scorer");
@@ -157,6 +159,7 @@ public static class SourceManifestJson
                     _ => throw r.Bad("options.templates is not shipped or custom"),
                 },
                 Fixed = options.Has("fixed") ? ReadFixed(options.Object("fixed")) : null,
+                AlarmFilter = options.Has("alarm_filter") ? ReadFilter(options) : null,
                 EnergyType = scorer.Text("energy_type"),
                 EnergyScale = scorer.Number("energy_scale"),
                 Weights = scorer.Text("weights"),
@@ -174,6 +177,12 @@ public static class SourceManifestJson
                     .ToArray(),
             };
         }
+    }
+
+    private static Emit.Detection.AlarmFilterSpec ReadFilter(Cursor options)
+    {
+        try { return Emit.Detection.AlarmFilterSpec.Parse(options.Text("alarm_filter")); }
+        catch (EmitException e) { throw options.Bad($"options.alarm_filter: {e.Problem}"); }
     }
 
     private static FixedPointOptions ReadFixed(Cursor f)

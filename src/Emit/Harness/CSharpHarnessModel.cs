@@ -10,4 +10,7 @@ public sealed class CSharpHarnessModel
     public required string Class { get; init; }
 
     public required bool HasThreshold { get; init; }
+
+    /// <summary>True when the class has the alarm filter: each line gets <c>filter:0|1</c>.</summary>
+    public bool HasFilter { get; init; }
 }

@@ -56,6 +56,9 @@ public sealed class CortexM3Runner : ITargetRunner
     {
         private int _images;
 
+        // the generated decisions so far, the last N − 1 of them at most: the alarm filter's history for the next image
+        private readonly List<bool> _decisions = [];
+
         public int? SelfTestFailures { get; private set; }
 
         private IEnumerable<string> CompileFlags() =>
@@ -87,7 +90,7 @@ public sealed class CortexM3Runner : ITargetRunner
         {
             int image = ++_images;
             var main = $"emit-harness-main-{image}.c";
-            File.WriteAllText(Path.Combine(dir, main), HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows));
+            File.WriteAllText(Path.Combine(dir, main), HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows, _decisions));
             var obj = $"emit-harness-main-{image}.o";
             if (!Compile(Path.Combine(dir, main), obj, "the harness main", out failure)) return false;
             var elf = Path.Combine(dir, $"emit-image-{image}.elf");
@@ -138,6 +141,11 @@ public sealed class CortexM3Runner : ITargetRunner
                     failure = $"image {image} printed an unexpected line: \"{HarnessLayout.Shorten(lines[r + 1])}\"";
                     return false;
                 }
+            if (sources.Manifest.AlarmFilter is { N: var n })
+            {
+                for (int r = 0; r < rows; r++) _decisions.Add(results[r].Decision == 1);
+                if (_decisions.Count > n - 1) _decisions.RemoveRange(0, _decisions.Count - (n - 1));
+            }
             failure = "";
             return true;
         }

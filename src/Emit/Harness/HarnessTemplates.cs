@@ -19,13 +19,18 @@ public static class HarnessTemplates
     private static readonly TemplateRenderer Renderer = new(null);
 
     /// <summary>The C harness main for <paramref name="sources"/>, reading packed inputs as hex lines from standard input.</summary>
-    public static string Main(ScorerSources sources, HarnessLayout layout, string fileName) => Main(sources, layout, fileName, default, 0, false);
+    public static string Main(ScorerSources sources, HarnessLayout layout, string fileName) =>
+        Main(sources, layout, fileName, default, 0, false, []);
 
     /// <summary>The C harness main with <paramref name="rows"/> packed inputs compiled in (for an emulator image).</summary>
-    public static string EmbeddedMain(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> inputs, int rows) =>
-        Main(sources, layout, fileName, inputs, rows, true);
+    /// <remarks><paramref name="filterWarmup"/>: with the alarm filter, the decisions of earlier images, oldest first
+    /// (the filter takes them before the first input, so its state runs on across images).</remarks>
+    public static string EmbeddedMain(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> inputs, int rows,
+        IReadOnlyList<bool>? filterWarmup = null) =>
+        Main(sources, layout, fileName, inputs, rows, true, filterWarmup ?? []);
 
-    private static string Main(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> embedded, int embeddedRows, bool isEmbedded)
+    private static string Main(ScorerSources sources, HarnessLayout layout, string fileName, ReadOnlySpan<byte> embedded, int embeddedRows,
+        bool isEmbedded, IReadOnlyList<bool> filterWarmup)
     {
         int partial = layout.Visible % 8;
         var rows = new StringBuilder();
@@ -48,6 +53,9 @@ public static class HarnessTemplates
             HasPartialByte = partial != 0,
             UnusedBitsMask = "0x" + ((0xFF << partial) & 0xFF).ToString("X2", CultureInfo.InvariantCulture) + "u",
             Embedded = isEmbedded,
+            HasFilter = sources.Manifest.AlarmFilter is not null,
+            FilterWarmup = filterWarmup.Count == 0 ? "0" : string.Join(", ", filterWarmup.Select(u => u ? "1u" : "0u")),
+            FilterWarmupCount = filterWarmup.Count,
             VectorCount = embeddedRows,
             VectorRows = rows.ToString().TrimEnd('\n'),
         };
@@ -62,6 +70,7 @@ public static class HarnessTemplates
             ClassName = sources.ClassName!,
             Class = sources.QualifiedClass,
             HasThreshold = sources.HasThreshold,
+            HasFilter = sources.Manifest.AlarmFilter is not null,
         });
 
     public static string Startup(string fileName) => Renderer.Render(Folder, StartupTemplate, new StartupModel { FileName = fileName, FaultStatus = FaultStatus });

@@ -41,6 +41,7 @@ public static class Verifier
         var fixedOptions = mode == NumericMode.Fixed ? ResolveFixed(request, located.Values) : null;
         if (request.Fixed is not null && mode != NumericMode.Fixed)
             throw new EmitException($"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}", $"leave them out, or use {Setting.Numeric.Ref()} fixed");
+        var filter = ResolveFilter(request, located.Values);
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
 
@@ -66,7 +67,7 @@ public static class Verifier
             {
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
-                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions);
+                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter);
                 foreach (var f in ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)
@@ -90,6 +91,7 @@ public static class Verifier
         {
             var state = new State(runner, located[runner.Language], new TargetComparison(expectation, request.FailOnDecisionMismatch),
                 checks.GetValueOrDefault(runner.Language));
+            if (located[runner.Language].Manifest.AlarmFilter is { } spec) state.Filter = new FilterCheck(spec);
             if (state.Check is { } check)
             {
                 state.Failures.AddRange(check.Failures);
@@ -144,7 +146,10 @@ public static class Verifier
                         continue;
                     }
                     for (int r = 0; r < rows; r++)
+                    {
                         s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null, results[r]);
+                        s.Filter?.Add(index + r, reference[r] > model.Threshold, results[r]);
+                    }
                 }
                 index += rows;
             }
@@ -165,7 +170,7 @@ public static class Verifier
             Vectors = index,
             Threshold = model.Threshold,
             Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources, request.GeneratedDirectory is null, model.Sha256, s.SelfTest,
-                s.Failures, s.BuildSeconds, s.ScoreSeconds, s.Check)).ToArray(),
+                s.Failures, s.BuildSeconds, s.ScoreSeconds, s.Check, s.Features())).ToArray(),
             Warnings = warnings,
             AllowModelChange = request.AllowModelChange,
             FailOnDecisionMismatch = request.FailOnDecisionMismatch,
@@ -206,6 +211,24 @@ public static class Verifier
         return request.Fixed ?? recorded ?? new FixedPointOptions();
     }
 
+    /// <summary>
+    /// The alarm filter: the one requested, else the manifest's (none when neither has one); a request that
+    /// contradicts the manifest is an error.
+    /// </summary>
+    private static Emit.Detection.AlarmFilterSpec? ResolveFilter(VerifyRequest request, IEnumerable<ScorerSources> sources)
+    {
+        foreach (var s in sources)
+        {
+            var m = s.Manifest.AlarmFilter;
+            if (request.AlarmFilter is { } asked && asked != m)
+                throw new EmitException(
+                    $"{Path.GetFileName(s.SourceFile)} was generated {(m is null ? "without an alarm filter" : $"with the alarm filter {m}")}, not {asked}",
+                    "leave --alarm-filter out to take it from the manifest", s.ManifestPath);
+            return m;
+        }
+        return request.AlarmFilter;
+    }
+
     private static string Describe(FixedPointOptions o) =>
         $"--weights {o.Weights.ToText()} --accumulator {(o.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {o.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
 
@@ -220,5 +243,9 @@ public static class Verifier
         public List<string> Failures { get; } = [];
         public double BuildSeconds { get; set; }
         public double ScoreSeconds { get; set; }
+        public FilterCheck? Filter { get; set; }
+
+        /// <summary>The results of the features checked on this target.</summary>
+        public IReadOnlyList<FeatureResult> Features() => Filter is { } f ? [f.Finish()] : [];
     }
 }

@@ -26,6 +26,12 @@ public sealed record VerifyRequest
     /// <summary>Fixed-point options; null: those stamped in existing sources, else the defaults.</summary>
     public FixedPointOptions? Fixed { get; init; }
 
+    /// <summary>
+    /// The K-of-N alarm filter to emit beside the scorer and check; null: the one recorded in existing sources'
+    /// manifest, else none.
+    /// </summary>
+    public Emit.Detection.AlarmFilterSpec? AlarmFilter { get; init; }
+
     /// <summary>Folder of existing generated sources to check; null: generate into the work folder.</summary>
     public string? GeneratedDirectory { get; init; }
 
