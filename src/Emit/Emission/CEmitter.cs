@@ -18,7 +18,8 @@ public sealed class CEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".h", ".c"];
     public IReadOnlyList<string> TemplateFiles { get; } =
         [HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate,
-         FilterHeaderTemplate, FilterSourceTemplate];
+         FilterHeaderTemplate, FilterSourceTemplate,
+         ClassifierEmitter.CHeaderTemplate, ClassifierEmitter.CSourceTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {

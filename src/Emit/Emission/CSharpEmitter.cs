@@ -14,7 +14,8 @@ public sealed class CSharpEmitter : ITargetEmitter
     public string Name => "csharp";
     public string Description => "C# static class (NAME.cs), BCL only";
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
-    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate, FilterTemplate];
+    public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate, LicenceTemplate, FilterTemplate,
+        ClassifierEmitter.CSharpTemplate];
 
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)
     {

@@ -40,6 +40,8 @@ public sealed record CompileOptions(
         {
             var f = FixedOptions;
             text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+            if (f.EnergyFractionBitsLimit is { } limit)
+                text += $" --energy-fraction-bits-limit {limit.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
         }
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";

@@ -42,6 +42,21 @@ public static class FootprintModel
     /// <summary>sizeof(NAME_filter_t) on a 32-bit core: a uint32_t and a uint8_t, padded to 4-byte alignment.</summary>
     public const int FilterRamBytes = 8;
 
+    /// <summary>
+    /// Code of NAME_classify: a call and a subtraction per model and the argmax loop, measured with arm-none-eabi-nm
+    /// on Debian's arm-none-eabi-gcc 12.2 (docs/generated-code.md, "Classifier") and rounded up; the offsets table is
+    /// one energy value per model. RAM: the caller's scores array, one energy value per model.
+    /// </summary>
+    public const int ClassifierCodeBase = 64, ClassifierCodePerModel = 16;
+
+    /// <summary>The classifier's extra cost beside its models' scorers on the mode's reference core.</summary>
+    public static FeatureFootprint Classifier(ClassifierPlan plan)
+    {
+        int energy = plan.Models[0].Mode == NumericMode.F32 ? 4
+            : plan.Models[0] is FixedScorerPlan f && f.Accumulator == AccumulatorType.Int32 ? 4 : 8;
+        return new FeatureFootprint(ClassifierCodeBase + (ClassifierCodePerModel + energy) * plan.Count, energy * plan.Count);
+    }
+
     /// <summary>The alarm filter's extra cost on the mode's reference core, or null without a filter.</summary>
     public static FeatureFootprint? Filter(ScorerPlan plan) => plan.HasFilter
         ? new FeatureFootprint(plan.Mode == NumericMode.Fixed ? FilterCodeBytesM0 : FilterCodeBytesM4F, FilterRamBytes)

@@ -52,6 +52,8 @@ public static class SourceManifestJson
                 w.WriteString("weights", f.Weights.ToText());
                 w.WriteString("accumulator", f.Accumulator is { } a ? a.ToText() : "auto");
                 w.WriteNumber("softplus_table", f.SoftplusTableSize);
+                // a classifier's models share one energy format (written only when set)
+                if (f.EnergyFractionBitsLimit is { } limit) w.WriteNumber("energy_fraction_bits_limit", limit);
                 w.WriteEndObject();
             }
             else w.WriteNull("fixed");
@@ -193,7 +195,8 @@ public static class SourceManifestJson
         AccumulatorType? accumulator = text == "auto"
             ? null
             : AccumulatorTypeInfo.Parse(text) ?? throw f.Bad("options.fixed.accumulator is not auto, int32 or int64");
-        return new FixedPointOptions(weights, accumulator, f.Int("softplus_table"));
+        return new FixedPointOptions(weights, accumulator, f.Int("softplus_table"),
+            f.Has("energy_fraction_bits_limit") ? f.Int("energy_fraction_bits_limit") : null);
     }
 
     /// <summary>A JSON value being read, with the path of its fields for messages.</summary>
