@@ -39,8 +39,11 @@ public sealed class ClassifierPlan
                 return m.ErrorBound + u * c + u * (f + c * (1 + u));
             }).Max() * (1 + 1e-6);
         }
-        Banner = [.. models.Select((m, k) => string.Create(inv,
-            $"model {k + 1}: {Naming.CommentText(m.ModelLabel)} sha256 {m.Model.Sha256} log Z {LogZ[k]:R} log prior {LogPriors[k]:R}"))];
+        Banner = [.. models.SelectMany((m, k) => new[]
+        {
+            string.Create(inv, $"model {k + 1} ({m.Options.Name}): {Naming.CommentText(m.ModelLabel)}, sha256 {m.Model.Sha256}"),
+            string.Create(inv, $"    log Z = {LogZ[k]:R}, log prior = {LogPriors[k]:R}"),
+        })];
     }
 
     /// <summary>An upper bound of |F(v)| over all inputs: every parameter's magnitude, plus hidden · log 2.</summary>

@@ -82,4 +82,61 @@ public sealed partial class CortexM0Tests
             }
         }
     }
+
+    [SkippableFact]
+    public void Fixed_c_classifier_links_on_cortex_m0_integer_only_and_the_stated_costs_cover_it()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        var nm = Toolchain.Require("arm-none-eabi-nm");
+        var dir = Toolchain.TempDir("m0-classifier");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var demo = ModelLoader.Load(ReferenceModelPath());
+        output.WriteLine("build | classify code + offsets measured / stated flash (bytes)");
+        foreach (int count in new[] { 2, 3, 5 })
+        {
+            foreach (var mode in new[] { NumericMode.Fixed, NumericMode.F32 })
+            {
+                bool isFixed = mode == NumericMode.Fixed;
+                string name = $"modes_{mode.ToText()}_{count}";
+                var models = Enumerable.Range(0, count)
+                    .Select(k => TestModels.Random(ModelKind.Rbm, demo.Visible, 8, seed: 40 + k)
+                        .With(null, new LogPartition(30 + k, "exact", 0)))
+                    .ToArray();
+                var compiled = ClassifierCompiler.Build(models, models.Select((_, k) => $"m{k}.json").ToArray(), null,
+                    new CompileOptions(["c"], mode, name));
+                foreach (var f in compiled.AllFiles) File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+                var objects = new List<string>();
+                foreach (var c in Directory.GetFiles(dir, name + "*.c"))
+                {
+                    var obj = Path.ChangeExtension(c, ".o");
+                    string[] include = isFixed ? ["-include", poison] : [];
+                    Toolchain.RunOk(gcc, [.. Toolchain.Split(isFixed ? M0Flags : M4FFeatureFlags), .. include, "-I", dir,
+                        "-c", c, "-o", obj]);
+                    objects.Add(obj);
+                }
+                if (isFixed)
+                    foreach (var obj in objects)
+                        foreach (var symbol in Toolchain.RunOk(nm, ["-u", obj]).Split('\n', StringSplitOptions.RemoveEmptyEntries)
+                                     .Select(l => l.Trim().Split(' ')[^1])
+                                     .Where(s => !s.StartsWith(name, StringComparison.Ordinal)))
+                        {
+                            Assert.False(Forbidden.IsMatch(symbol), $"{name} needs {symbol}");
+                            Assert.True(Allowed.IsMatch(symbol), $"{name} needs {symbol}, not on the list of integer helpers");
+                        }
+                int measured = 0;
+                foreach (var line in Toolchain.RunOk(nm, ["-S", Path.Combine(dir, name + ".o")])
+                             .Split('\n', StringSplitOptions.RemoveEmptyEntries))
+                {
+                    var w = line.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+                    if (w.Length == 4 && (w[3] == name + "_classify" || w[3] == name + "_offsets"))
+                        measured += int.Parse(w[1], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
+                }
+                var stated = FootprintModel.Classifier(compiled.Plan);
+                output.WriteLine($"{name} | {measured} / {stated.FlashBytes}");
+                Assert.True(measured <= stated.FlashBytes && stated.FlashBytes <= measured + 64,
+                    $"{name}: measured {measured}, stated {stated.FlashBytes}");
+            }
+        }
+    }
 }
