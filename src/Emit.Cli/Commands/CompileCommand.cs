@@ -17,6 +17,7 @@ public sealed class CompileCommand : ICliCommand
 
     private readonly Option<string?> _priors = new("--priors")
     {
+        HelpName = "P1,P2,...",
         Description = "With several models: prior weight of each, comma-separated, in model order (default: equal)",
     };
 

@@ -49,6 +49,10 @@ public sealed class CortexM3Runner : ITargetRunner
         if (!session.Compile(sources.SourceFile, "emit-scorer.o", "the generated C", out failure)
             || !session.Compile(Path.Combine(workDirectory, "emit-startup.c"), "emit-startup.o", "the start-up code", out failure))
             return null;
+        var companions = sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal)).ToArray();
+        for (int k = 0; k < companions.Length; k++)
+            if (!session.Compile(companions[k], $"emit-companion-{k}.o", "the generated C", out failure))
+                return null;
         return session;
     }
 
@@ -96,7 +100,10 @@ public sealed class CortexM3Runner : ITargetRunner
             var elf = Path.Combine(dir, $"emit-image-{image}.elf");
             var link = ExternalProcess.Run(gcc,
                 [.. CFlags.Split(CFlags.CortexM3), "--specs=rdimon.specs", "-T", Path.Combine(dir, "emit-cortex-m3.ld"),
-                 Path.Combine(dir, "emit-startup.o"), Path.Combine(dir, "emit-scorer.o"), Path.Combine(dir, obj), "-lm", "-o", elf],
+                 Path.Combine(dir, "emit-startup.o"), Path.Combine(dir, "emit-scorer.o"),
+                 .. sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal))
+                     .Select((_, k) => Path.Combine(dir, $"emit-companion-{k}.o")),
+                 Path.Combine(dir, obj), "-lm", "-o", elf],
                 settings.Limit, dir);
             if (!link.Ok)
             {

@@ -14,6 +14,9 @@ public sealed class HarnessMainModel
     /// <summary>The unused high bits of the last packed byte, as a C constant ("0xE0u").</summary>
     public required string UnusedBitsMask { get; init; }
 
+    /// <summary>The classifier run beside the scorer (each line gets <c>classify:IDX,HEX1,...</c>), or null.</summary>
+    public ClassifierHarness? Classifier { get; init; }
+
     /// <summary>True when the sources have the alarm filter: each line gets <c>filter:0|1</c>.</summary>
     public bool HasFilter { get; init; }
 

@@ -54,6 +54,7 @@ public static class HarnessTemplates
             UnusedBitsMask = "0x" + ((0xFF << partial) & 0xFF).ToString("X2", CultureInfo.InvariantCulture) + "u",
             Embedded = isEmbedded,
             HasFilter = sources.Manifest.AlarmFilter is not null,
+            Classifier = sources.Classifier,
             FilterWarmup = filterWarmup.Count == 0 ? "0" : string.Join(", ", filterWarmup.Select(u => u ? "1u" : "0u")),
             FilterWarmupCount = filterWarmup.Count,
             VectorCount = embeddedRows,
@@ -71,6 +72,7 @@ public static class HarnessTemplates
             Class = sources.QualifiedClass,
             HasThreshold = sources.HasThreshold,
             HasFilter = sources.Manifest.AlarmFilter is not null,
+            Classifier = sources.Classifier,
         });
 
     public static string Startup(string fileName) => Renderer.Render(Folder, StartupTemplate, new StartupModel { FileName = fileName, FaultStatus = FaultStatus });

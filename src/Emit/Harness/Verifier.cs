@@ -42,6 +42,17 @@ public static class Verifier
         if (request.Fixed is not null && mode != NumericMode.Fixed)
             throw new EmitException($"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}", $"leave them out, or use {Setting.Numeric.Ref()} fixed");
         var filter = ResolveFilter(request, located.Values);
+        CompiledClassifier? classifier = null;
+        if (request.MoreModels.Count > 0)
+        {
+            if (request.GeneratedDirectory is not null)
+                throw new EmitException("verify --generated checks one scorer of a classifier at a time",
+                    $"give one model with {Setting.Name.Ref()} NAME_k, or leave --generated out to generate and check the classifier");
+            classifier = ClassifierCompiler.Build([model, .. request.MoreModels.Select(m => m.Model)],
+                [request.ModelLabel, .. request.MoreModels.Select(m => m.Label)], request.Priors,
+                new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter));
+            fixedOptions = classifier.Scorers[0].Manifest.Fixed;
+        }
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
 
@@ -68,12 +79,34 @@ public static class Verifier
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
                 var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter);
-                foreach (var f in ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles)
+                var files = classifier?.AllFiles ?? ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles;
+                foreach (var f in files)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)
-                    located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
+                {
+                    if (classifier is null)
+                    {
+                        located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
+                        continue;
+                    }
+                    var first = classifier.Scorers[0].Plan.Options.Name;
+                    var sources = ScorerSources.Locate(src, language, first, first);
+                    var companions = files.Where(f => !f.FileName.EndsWith(SourceManifest.Suffix, StringComparison.Ordinal)
+                                                      && f.FileName.EndsWith(language == "csharp" ? ".cs" : ".c", StringComparison.Ordinal)
+                                                      && !sources.Files.Any(s => Path.GetFileName(s) == f.FileName))
+                        .Select(f => Path.Combine(src, f.FileName)).ToArray();
+                    var view = new ClassifierView(classifier.Plan, language);
+                    var type = mode switch
+                    {
+                        NumericMode.F32 => "float",
+                        NumericMode.F64 => "double",
+                        _ => expectation.EnergyBytes == 4 ? "int" : "long",
+                    };
+                    located[language] = sources.WithClassifier(new ClassifierHarness(defaultName,
+                        $"global::{options.Namespace}.{view.ClassName}", classifier.Plan.Count, type), companions);
+                }
             }
-            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings);
+            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings, classifier?.Plan);
         }
         finally
         {
@@ -83,7 +116,8 @@ public static class Verifier
     }
 
     private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string, ScorerSources> located,
-        Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings)
+        Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings,
+        ClassifierPlan? classifier)
     {
         var model = request.Model;
         var states = new List<State>();
@@ -92,6 +126,7 @@ public static class Verifier
             var state = new State(runner, located[runner.Language], new TargetComparison(expectation, request.FailOnDecisionMismatch),
                 checks.GetValueOrDefault(runner.Language));
             if (located[runner.Language].Manifest.AlarmFilter is { } spec) state.Filter = new FilterCheck(spec);
+            if (classifier is not null) state.Classify = new ClassifyCheck(classifier, expectation);
             if (state.Check is { } check)
             {
                 state.Failures.AddRange(check.Failures);
@@ -149,6 +184,7 @@ public static class Verifier
                     {
                         s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null, results[r]);
                         s.Filter?.Add(index + r, reference[r] > model.Threshold, results[r]);
+                        s.Classify?.Add(index + r, units.AsSpan(r * v, v), results[r]);
                     }
                 }
                 index += rows;
@@ -244,8 +280,11 @@ public static class Verifier
         public double BuildSeconds { get; set; }
         public double ScoreSeconds { get; set; }
         public FilterCheck? Filter { get; set; }
+        public ClassifyCheck? Classify { get; set; }
 
         /// <summary>The results of the features checked on this target.</summary>
-        public IReadOnlyList<FeatureResult> Features() => Filter is { } f ? [f.Finish()] : [];
+        public IReadOnlyList<FeatureResult> Features() =>
+            [.. Filter is { } f ? [f.Finish()] : Array.Empty<FeatureResult>(),
+             .. Classify is { } c ? [c.Finish()] : Array.Empty<FeatureResult>()];
     }
 }
