@@ -16,7 +16,8 @@ internal static class AlarmFilterOption
         Description = description,
     };
 
-    /// <summary>The parsed K/N, or null when the option was not given; a bad value is a one-line error (exit 2).</summary>
+    /// <summary>The parsed K/N, or null when the option was not given; a bad value is a one-line error (exit 2).
+    /// </summary>
     public static AlarmFilterSpec? Read(ParseResult parse, Option<string?> option)
     {
         if (parse.GetValue(option) is not { } text) return null;

@@ -28,7 +28,8 @@ public static class ClassifierCompiler
         return new CompiledClassifier(plan, scorers, files);
     }
 
-    /// <summary>The options of model k's scorer: the classifier's, named NAME_k, with the fixed options given.</summary>
+    /// <summary>The options of model k's scorer: the classifier's, named NAME_k, with the fixed options given.
+    /// </summary>
     private static CompileOptions Component(CompileOptions options, int k, FixedPointOptions? fixedOptions) =>
         options with
         {
@@ -39,7 +40,8 @@ public static class ClassifierCompiler
     private static void Check(IReadOnlyList<BoltzmannModel> models, IReadOnlyList<string> labels,
         IReadOnlyList<double>? priors, CompileOptions options)
     {
-        if (models.Count < 2) throw new EmitException("a classifier needs at least two models", "give one model per class");
+        if (models.Count < 2)
+            throw new EmitException("a classifier needs at least two models", "give one model per class");
         if (options.AlarmFilter is not null)
             throw new EmitException("the alarm filter votes on one model's decisions, not on a classifier's",
                 "compile the alarm filter with a single model");
@@ -60,9 +62,11 @@ public static class ClassifierCompiler
                     "store it first with emit logz MODEL --store", labels[k]);
         if (priors is null) return;
         if (priors.Count != models.Count)
-            throw new EmitException($"{priors.Count} priors for {models.Count} models", "give one prior per model, in the same order");
+            throw new EmitException($"{priors.Count} priors for {models.Count} models",
+                "give one prior per model, in the same order");
         if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
-            throw new EmitException("every prior must be a positive finite number", "priors are relative weights, e.g. 0.9,0.1");
+            throw new EmitException("every prior must be a positive finite number",
+                "priors are relative weights, e.g. 0.9,0.1");
     }
 
     /// <summary>log π_k with π normalised to sum to 1, the sum taken in log space (as emit classify does).</summary>
@@ -81,26 +85,33 @@ public static class ClassifierCompiler
         var given = options.FixedOptions;
         var free = models.Select(m => FixedPointPlanner.Build(m, given)).ToArray();
         var acc = given.Accumulator
-                  ?? (free.Any(p => p.Accumulator == AccumulatorType.Int64) ? AccumulatorType.Int64 : AccumulatorType.Int32);
+                  ?? (free.Any(p => p.Accumulator == AccumulatorType.Int64)
+                      ? AccumulatorType.Int64
+                      : AccumulatorType.Int32);
         int e = free.Min(p => p.EnergyFractionBits);
         while (true)
         {
             var fixedOptions = given with { Accumulator = acc, EnergyFractionBitsLimit = e };
-            var scorers = models.Select((m, k) => ScorerCompiler.Build(m, labels[k], Component(options, k, fixedOptions)))
+            var scorers = models
+                .Select((m, k) => ScorerCompiler.Build(m, labels[k], Component(options, k, fixedOptions)))
                 .ToArray();
             var plans = scorers.Select(s => (FixedScorerPlan)s.Plan).ToArray();
             int lowest = plans.Min(p => p.EnergyFractionBits);
             bool fits = plans.Select((p, k) =>
             {
-                long c = (long)FixedRounding.Quantize(logPriors[k] - models[k].LogPartition!.Value, p.EnergyFractionBits);
+                double offset = logPriors[k] - models[k].LogPartition!.Value;
+                long c = (long)FixedRounding.Quantize(offset, p.EnergyFractionBits);
                 return Math.Max(Math.Abs(p.ResultMin), Math.Abs(p.ResultMax)) <= p.AccumulatorMax - Math.Abs(c);
             }).All(x => x);
             if (lowest == e && plans.All(p => p.EnergyFractionBits == e) && fits) return scorers;
             if (lowest < e) e = lowest;
             else if (e == 0)
                 throw new EmitException(
-                    $"no common energy format keeps every classifier score (−F + log prior − log Z) within {acc.ToText()}",
-                    acc == AccumulatorType.Int32 ? $"use {Setting.Accumulator.Ref()} int64" : "the models' log Z are too large for fixed point");
+                    "no common energy format keeps every classifier score (−F + log prior − log Z) within " +
+                    acc.ToText(),
+                    acc == AccumulatorType.Int32
+                        ? $"use {Setting.Accumulator.Ref()} int64"
+                        : "the models' log Z are too large for fixed point");
             else e--;
         }
     }

@@ -7,8 +7,8 @@ namespace Emit.Emission;
 /// <summary>
 /// A classifier over several models of the same units (<c>emit compile MODEL1 MODEL2 ... --name NAME</c>): one scorer
 /// per model (<see cref="Models"/>, named <c>NAME_1</c>, <c>NAME_2</c>, ...) and the constants that turn their free
-/// energies into scores[k] = −F_k(v) − log Z_k + log π_k (π normalised to sum to 1): the log of the joint probability
-/// of class k and input v, whose argmax is Bayes' choice. In fixed mode every model has the same energy format and the
+/// energies into scores[k] = −F_k(v) − log Z_k + log π_k (π normalised to sum to 1): the log of the joint
+/// probability of class k and input v, whose argmax is Bayes' choice. In fixed mode every model has the same energy format and the
 /// constants are integers of it; <see cref="ScoreBound"/> bounds |score − exact score| (docs/fixed-point.md §8).
 /// </summary>
 public sealed class ClassifierPlan
@@ -30,8 +30,8 @@ public sealed class ClassifierPlan
         }
         else
         {
-            // float: fl(c_k) is within u·|c_k| of c_k, and the sum fl(fl(c_k) − F) within u·|fl(c_k) − F| of it, where
-            // |F| is at most the sum of |parameter| plus hidden·log 2 (softplus(x) ≤ |x| + log 2) plus the bound
+            // float: fl(c_k) is within u·|c_k| of c_k, and the sum fl(fl(c_k) − F) within u·|fl(c_k) − F| of it,
+            // where |F| is at most the sum of |parameter| plus hidden·log 2 (softplus(x) ≤ |x| + log 2) plus the bound
             double u = options.Numeric == NumericMode.F32 ? Math.ScaleB(1.0, -24) : Math.ScaleB(1.0, -53);
             ScoreBound = models.Select((m, k) =>
             {
@@ -41,7 +41,8 @@ public sealed class ClassifierPlan
         }
         Banner = [.. models.SelectMany((m, k) => new[]
         {
-            string.Create(inv, $"model {k + 1} ({m.Options.Name}): {Naming.CommentText(m.ModelLabel)}, sha256 {m.Model.Sha256}"),
+            string.Create(inv,
+                $"model {k + 1} ({m.Options.Name}): {Naming.CommentText(m.ModelLabel)}, sha256 {m.Model.Sha256}"),
             string.Create(inv, $"    log Z = {LogZ[k]:R}, log prior = {LogPriors[k]:R}"),
         })];
     }
@@ -51,7 +52,8 @@ public sealed class ClassifierPlan
         m.VisibleBias.Sum(Math.Abs) + m.HiddenBias.Sum(Math.Abs) + m.Weights.Sum(Math.Abs)
         + m.VisibleLinks.Sum(l => Math.Abs(l.W)) + m.HiddenLinks.Sum(l => Math.Abs(l.W)) + m.Hidden * Math.Log(2);
 
-    /// <summary>The classifier's options (its name, mode, targets; <see cref="CompileOptions.Fixed"/> as planned).</summary>
+    /// <summary>The classifier's options (its name, mode, targets; <see cref="CompileOptions.Fixed"/> as given).
+    /// </summary>
     public CompileOptions Options { get; }
 
     /// <summary>One scorer plan per model, in the order given.</summary>

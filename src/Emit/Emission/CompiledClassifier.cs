@@ -23,6 +23,7 @@ public sealed class CompiledClassifier
     /// <summary>The classifier's own sources (NAME.h and NAME.c, NAME.cs).</summary>
     public IReadOnlyList<GeneratedFile> Files { get; }
 
-    /// <summary>Everything written to the output folder: each scorer's files and manifest, then the classifier's.</summary>
+    /// <summary>Everything written to the output folder: each scorer's files and manifest, then the classifier's.
+    /// </summary>
     public IReadOnlyList<GeneratedFile> AllFiles => [.. Scorers.SelectMany(s => s.AllFiles), .. Files];
 }

@@ -25,7 +25,8 @@ public sealed class ClassifyCheck
     private long _checks, _mismatches, _close;
     private double _worst;
 
-    /// <summary>A check of <paramref name="plan"/>'s classifier; <paramref name="expectation"/> decodes a score's bits.</summary>
+    /// <summary>A check of <paramref name="plan"/>'s classifier; <paramref name="expectation"/> decodes a score's bits.
+    /// </summary>
     public ClassifyCheck(ClassifierPlan plan, NumericExpectation expectation)
     {
         _plan = plan;
@@ -42,7 +43,8 @@ public sealed class ClassifyCheck
         _checks++;
         var inv = CultureInfo.InvariantCulture;
         var fields = row.Group("classify")?.Split(',');
-        if (fields is null || fields.Length != _plan.Count + 1 || !int.TryParse(fields[0], NumberStyles.None, inv, out int got))
+        if (fields is null || fields.Length != _plan.Count + 1
+                           || !int.TryParse(fields[0], NumberStyles.None, inv, out int got))
         {
             Fail($"vector {index}: no classifier output");
             return;
@@ -63,11 +65,13 @@ public sealed class ClassifyCheck
             if (!(error <= _plan.ScoreBound + 1e-9 * (1 + Math.Abs(exact[k]))))
             {
                 bad = true;
-                Describe($"vector {index}: score {k} = {score.ToString("R", inv)}, reference {exact[k].ToString("R", inv)}");
+                Describe($"vector {index}: score {k} = {score.ToString("R", inv)}, " +
+                         $"reference {exact[k].ToString("R", inv)}");
             }
             if (_simulators is not null)
             {
-                long want = _plan.OffsetUnits[k] - _simulators[k].FreeEnergy(units), have = _expectation.RawInteger(bits);
+                long want = _plan.OffsetUnits[k] - _simulators[k].FreeEnergy(units);
+                long have = _expectation.RawInteger(bits);
                 if (want != have)
                 {
                     bad = true;
@@ -103,7 +107,8 @@ public sealed class ClassifyCheck
     public FeatureResult Finish() => new(
         "classify", _checks, _mismatches,
         string.Create(CultureInfo.InvariantCulture,
-            $"{_plan.Count} models: scores within {_plan.ScoreBound:G3} nats of the reference (largest error {_worst:G3})" +
+            $"{_plan.Count} models: scores within {_plan.ScoreBound:G3} nats of the reference " +
+            $"(largest error {_worst:G3})" +
             $"{(_simulators is null ? "" : ", bit-exact against the simulator")}; index equal to the reference's " +
             $"choice where the top two differ by more than twice that; {_close} closer calls not judged"),
         _mismatches > 0 ? _examples : []);

@@ -32,8 +32,8 @@ public sealed class FilterCheck(AlarmFilterSpec spec)
         if (got == (expected ? "1" : "0")) return;
         if (_mismatches++ < Examples)
             _examples.Add(got is "0" or "1"
-                ? $"vector {index.ToString(CultureInfo.InvariantCulture)}: the filter says {got}, K-of-N of the generated " +
-                  $"decisions says {(expected ? 1 : 0)}"
+                ? $"vector {index.ToString(CultureInfo.InvariantCulture)}: the filter says {got}, " +
+                  $"K-of-N of the generated decisions says {(expected ? 1 : 0)}"
                 : $"vector {index.ToString(CultureInfo.InvariantCulture)}: no filter output");
     }
 
@@ -41,6 +41,7 @@ public sealed class FilterCheck(AlarmFilterSpec spec)
     public FeatureResult Finish() => new(
         "filter", _checks, _mismatches,
         $"{spec} of the generated decisions in input order; " +
-        $"{_referenceDiffers.ToString(CultureInfo.InvariantCulture)} outputs differ from {spec} of the reference decisions",
+        $"{_referenceDiffers.ToString(CultureInfo.InvariantCulture)} outputs differ from {spec} of the reference " +
+        "decisions",
         _mismatches > 0 ? _examples : []);
 }
