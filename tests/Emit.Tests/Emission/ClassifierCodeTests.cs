@@ -166,4 +166,51 @@ public sealed class ClassifierCodeTests
         Assert.True(dll is not null, failure);
         Check(compiled, models, Parse(Toolchain.RunOk(dotnet, [dll])));
     }
+
+    [SkippableFact]
+    public void C_posteriors_agree_with_emit_classify_within_the_bound()
+    {
+        var gcc = Toolchain.Require("gcc");
+        var dir = Toolchain.TempDir("classify-post");
+        var models = Models();
+        var compiled = ClassifierCompiler.Build(models, ["a.json", "b.json", "c.json"], Priors,
+            new CompileOptions(["c"], NumericMode.F32, "modes"));
+        OutputFolder.Write(dir, compiled.AllFiles, force: true);
+        File.WriteAllText(Path.Combine(dir, "driver.c"), $$"""
+            #include <stdio.h>
+            #include "modes.h"
+            int main(void)
+            {
+                unsigned v, k;
+                for (v = 0u; v < (1u << {{Visible}}); ++v) {
+                    uint8_t packed[MODES_PACKED_BYTES] = { (uint8_t)(v & 0xFFu), (uint8_t)(v >> 8) };
+                    modes_energy_t scores[MODES_MODELS], p[MODES_MODELS];
+                    (void)modes_classify(packed, scores);
+                    modes_posteriors(scores, p);
+                    for (k = 0u; k < MODES_MODELS; ++k) printf(k == 0u ? "%.9g" : " %.9g", (double)p[k]);
+                    printf("\n");
+                }
+                return 0;
+            }
+            """);
+        var exe = Path.Combine(dir, "driver");
+        Toolchain.RunOk(gcc, [.. Toolchain.Split(Toolchain.StrictC), "-I", dir, Path.Combine(dir, "driver.c"),
+            .. Enumerable.Range(0, 4).Select(k => Path.Combine(dir, k == 0 ? "modes.c" : $"modes_{k}.c")), "-lm", "-o", exe]);
+        var lines = Toolchain.RunOk(exe, []).Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        // emit classify's posteriors (BayesClassifier); each generated score is within δ of the exact one, so each
+        // posterior is within a factor e^(±2δ) of the exact one, plus f32 rounding of exp and the sum
+        var bayes = new BayesClassifier(models, ["a", "b", "c"], Priors);
+        var units = new byte[(1 << Visible) * Visible];
+        for (int v = 0; v < 1 << Visible; v++) TestModels.Bits(v, Visible).CopyTo(units, v * Visible);
+        var posterior = new double[(1 << Visible) * 3];
+        bayes.Posteriors(units, 1 << Visible, posterior);
+        double factor = Math.Exp(2 * compiled.Plan.ScoreBound) - 1;
+        for (int v = 0; v < 1 << Visible; v++)
+        {
+            var p = lines[v].Split(' ').Select(x => double.Parse(x, CultureInfo.InvariantCulture)).ToArray();
+            for (int k = 0; k < 3; k++)
+                Assert.True(Math.Abs(p[k] - posterior[v * 3 + k]) <= posterior[v * 3 + k] * factor + 1e-6,
+                    $"v {v} class {k}: {p[k]} vs {posterior[v * 3 + k]}");
+        }
+    }
 }
