@@ -21,13 +21,15 @@ public static class CalibrationPlot
         {
             ".svg" => true,
             ".png" => false,
-            _ => throw new EmitException($"cannot tell the plot format from \"{Path.GetFileName(path)}\"", "name the file .png or .svg", path),
+            _ => throw new EmitException($"cannot tell the plot format from \"{Path.GetFileName(path)}\"",
+                "name the file .png or .svg", path),
         };
 
     public static void Write(CalibrationReport report, string modelName, string path, bool force)
     {
         bool svg = IsSvg(path);
-        // Skia's SVG canvas cannot write dashed lines (it prints a warning on the process's standard output): solid there.
+        // Skia's SVG canvas cannot write dashed lines (it prints a warning on the process's standard output): solid
+        // there.
         var panels = new List<ScottPlot.Plot> { Histograms(report, modelName, svg) };
         if (report.AnomalyEnergies is { } an) panels.Add(RocCurve(report, an, svg));
         int width = PanelWidth * panels.Count, height = Height + CautionHeight;
@@ -41,7 +43,8 @@ public static class CalibrationPlot
         }
         else
         {
-            using var surface = SKSurface.Create(new SKImageInfo(width, height)) ?? throw new EmitException("cannot create an image surface for the plot");
+            using var surface = SKSurface.Create(new SKImageInfo(width, height))
+                ?? throw new EmitException("cannot create an image surface for the plot");
             Draw(surface.Canvas, panels, width);
             using var image = surface.Snapshot();
             using var data = image.Encode(SKEncodedImageFormat.Png, 100);
@@ -59,7 +62,8 @@ public static class CalibrationPlot
             canvas.Save();
             canvas.ClipRect(new SKRect(k * PanelWidth, 0, (k + 1) * PanelWidth, Height));
             canvas.Translate(k * PanelWidth, 0);
-            panels[k].Render(canvas, new ScottPlot.PixelRect(new ScottPlot.Pixel(0, 0), new ScottPlot.Pixel(PanelWidth, Height)));
+            panels[k].Render(canvas,
+                new ScottPlot.PixelRect(new ScottPlot.Pixel(0, 0), new ScottPlot.Pixel(PanelWidth, Height)));
             canvas.Restore();
         }
         using var paint = new SKPaint { Color = SKColors.Black, IsAntialias = true };
@@ -113,7 +117,8 @@ public static class CalibrationPlot
         if (r.AnomalyEnergies is { } an) Add(an, $"anomalies ({an.Count})", 1);
         var line = plt.Add.VerticalLine(r.Threshold, 2, ScottPlot.Colors.Black);
         line.LinePattern = svg ? ScottPlot.LinePattern.Solid : ScottPlot.LinePattern.Dashed;
-        line.LegendText = $"threshold {r.Threshold.ToString("0.###", inv)} ({r.Flagged} of {r.NormalVectors} normal above)";
+        line.LegendText = $"threshold {r.Threshold.ToString("0.###", inv)} ({r.Flagged} of {r.NormalVectors} normal " +
+            "above)";
         plt.Title($"emit calibrate {modelName}");
         plt.XLabel("free energy F(v) (unusual when F > threshold)");
         plt.YLabel("fraction of vectors");

@@ -31,24 +31,34 @@ public static class CliApp
         var root = new Command("emit",
             "emit: compiles a trained Boltzmann-machine model into small C99/C# free-energy scorers and checks them " +
             "against a double-precision reference. A monitoring aid, not a safety function.");
-        root.Options.Add(new System.CommandLine.Help.HelpOption { Action = new System.CommandLine.Help.HelpAction { MaxWidth = HelpWidth } });
+        root.Options.Add(new System.CommandLine.Help.HelpOption
+        {
+            Action = new System.CommandLine.Help.HelpAction { MaxWidth = HelpWidth },
+        });
         root.Options.Add(new VersionOption());
         root.Options.Add(Verbose);
         foreach (var command in new ICliCommand[]
                  {
-                     new InspectCommand(), new CompileCommand(), new BuildCommand(), new VerifyCommand(), new DiffCommand(), new CalibrateCommand(), new ExplainCommand(), new TrainCommand(), new ClassifyCommand(), new ScoreCommand(), new LogzCommand(), new VectorsCommand(), new ImportCommand(), new DemoCommand(),
+                     new InspectCommand(), new CompileCommand(), new BuildCommand(), new VerifyCommand(),
+                         new DiffCommand(), new CalibrateCommand(), new ExplainCommand(), new TrainCommand(),
+                         new ClassifyCommand(), new ScoreCommand(), new LogzCommand(), new VectorsCommand(),
+                         new ImportCommand(), new DemoCommand(),
                  })
             root.Subcommands.Add(command.Build(ctx));
         return root;
     }
 
-    /// <summary>Options that took a value in an earlier release and are switches now: (command, option, new option).</summary>
+    /// <summary>
+    /// Options that took a value in an earlier release and are switches now: (command, option, new option).
+    /// </summary>
     private static readonly (string Command, string Option, string Replacement)[] FormerValueOptions =
     [
         ("diff", "--json", "--report"),
     ];
 
-    /// <summary>Parser settings: no response files (an argument starting with @ is a plain argument; docs/cli.md).</summary>
+    /// <summary>
+    /// Parser settings: no response files (an argument starting with @ is a plain argument; docs/cli.md).
+    /// </summary>
     public static ParserConfiguration ParserSettings() => new() { ResponseFileTokenReplacer = null };
 
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr, Stream? stdin = null)
@@ -72,7 +82,12 @@ public static class CliApp
                 stderr.WriteLine("emit: error: " + UsageErrors.OneLine(parse));
                 return BadInput;
             }
-            return parse.Invoke(new InvocationConfiguration { Output = stdout, Error = stderr, EnableDefaultExceptionHandler = false });
+            return parse.Invoke(new InvocationConfiguration
+            {
+                Output = stdout,
+                Error = stderr,
+                EnableDefaultExceptionHandler = false,
+            });
         }
         catch (EmitException e)
         {
@@ -83,7 +98,8 @@ public static class CliApp
         catch (Exception e)
         {
             stderr.WriteLine($"emit: internal error: {UsageErrors.Fold(e.Message)} " +
-                             (verbose ? "(please report it with the trace below)" : "(run with --verbose for the trace, and please report it)"));
+                             (verbose ? "(please report it with the trace below)"
+                                 : "(run with --verbose for the trace, and please report it)"));
             if (verbose) stderr.WriteLine(e);
             return InternalError;
         }
@@ -103,7 +119,8 @@ public static class CliApp
             if (k < 0 || k + 1 >= args.Length || !parse.UnmatchedTokens.Contains(args[k + 1])) continue;
             var fixedArgs = args.ToArray();
             fixedArgs[k] = replacement;
-            return (fixedArgs, $"{option} FILE is now {replacement} FILE ({option} alone writes JSON to standard output); " +
+            return (fixedArgs,
+                $"{option} FILE is now {replacement} FILE ({option} alone writes JSON to standard output); " +
                                $"the old spelling goes in the next release");
         }
         return null;

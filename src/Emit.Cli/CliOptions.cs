@@ -17,10 +17,15 @@ public static class CliOptions
         Description = "Replace existing output files even when emit did not write them (or they were changed after)",
     };
 
-    /// <summary>The one message for an input file that is not there (the library's model, vector and project readers say the same).</summary>
+    /// <summary>
+    /// The one message for an input file that is not there (the library's model, vector and project readers say the
+    /// same).
+    /// </summary>
     public static string FileNotFound(string path) => $"{path}: file not found (check the path)";
 
-    /// <summary>Requires the files an argument names to exist, with the message of <see cref="FileNotFound"/>.</summary>
+    /// <summary>
+    /// Requires the files an argument names to exist, with the message of <see cref="FileNotFound"/>.
+    /// </summary>
     public static Argument<T> MustExist<T>(this Argument<T> argument)
     {
         argument.Validators.Add(r =>
@@ -35,7 +40,9 @@ public static class CliOptions
         return argument;
     }
 
-    /// <summary>Requires the file or folder an option names to exist, with the message of <see cref="FileNotFound"/>.</summary>
+    /// <summary>
+    /// Requires the file or folder an option names to exist, with the message of <see cref="FileNotFound"/>.
+    /// </summary>
     public static Option<T> MustExist<T>(this Option<T> option)
     {
         option.Validators.Add(r =>
@@ -55,7 +62,8 @@ public static class CliOptions
     /// --help shows them as <c>&lt;a|b|c&gt;</c> and the default by its text, and anything else is one usage error
     /// naming them. Read it with <c>parse.GetValue(option)!.Value</c>.
     /// </summary>
-    public static Option<Chosen<T>> Choice<T>(string name, string description, IReadOnlyList<(string Text, T Value)> choices, string? defaultText = null)
+    public static Option<Chosen<T>> Choice<T>(string name, string description,
+        IReadOnlyList<(string Text, T Value)> choices, string? defaultText = null)
     {
         var list = string.Join(", ", choices.Select(c => c.Text));
         var option = new Option<Chosen<T>>(name)
@@ -84,7 +92,8 @@ public static class CliOptions
     /// A comma-separated list of choices (<c>--target c,csharp</c>), checked against <paramref name="allowed"/>;
     /// --help shows them as <c>&lt;a|b,...&gt;</c>.
     /// </summary>
-    public static Option<string[]> ChoiceList(string name, string description, IReadOnlyList<string> allowed, string defaultText)
+    public static Option<string[]> ChoiceList(string name, string description, IReadOnlyList<string> allowed,
+        string defaultText)
     {
         var list = string.Join(", ", allowed);
         var option = new Option<string[]>(name)
@@ -110,8 +119,12 @@ public static class CliOptions
         return option;
     }
 
-    /// <summary>A whole-number option from <paramref name="min"/> to <paramref name="max"/>; anything else is one usage error saying so.</summary>
-    public static Option<T> Number<T>(string name, string description, T min, T max, T? defaultValue = null, string[]? aliases = null)
+    /// <summary>
+    /// A whole-number option from <paramref name="min"/> to <paramref name="max"/>; anything else is one usage error
+    /// saying so.
+    /// </summary>
+    public static Option<T> Number<T>(string name, string description, T min, T max, T? defaultValue = null,
+        string[]? aliases = null)
         where T : struct, IBinaryInteger<T>, IMinMaxValue<T>
     {
         var option = new Option<T>(name, aliases ?? [])
@@ -121,7 +134,8 @@ public static class CliOptions
             CustomParser = r =>
             {
                 var text = r.Tokens.Count > 0 ? r.Tokens[^1].Value : "";
-                if (T.TryParse(text, NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out var v) && v >= min && v <= max)
+                if (T.TryParse(text, NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out var v) && v >= min
+                    && v <= max)
                     return v;
                 r.AddError($"{name}: '{text}' is not a whole number from {min} to {max}");
                 return default;
@@ -160,15 +174,20 @@ public static class CliOptions
         (new Option<string>("--output", "-o") { Description = description, HelpName = "FILE" },
          new Option<string>("--out") { Hidden = true, Description = "Former spelling of --output" });
 
-    /// <summary>The output named by <see cref="Output"/>'s pair, warning about the former spelling; null when neither was given.</summary>
-    public static string? ReadOutput(ParseResult parse, (Option<string> Output, Option<string> Former) options, TextWriter error)
+    /// <summary>
+    /// The output named by <see cref="Output"/>'s pair, warning about the former spelling; null when neither was given.
+    /// </summary>
+    public static string? ReadOutput(ParseResult parse, (Option<string> Output, Option<string> Former) options,
+        TextWriter error)
     {
         var output = parse.GetValue(options.Output);
         var former = parse.GetValue(options.Former);
         if (former is null) return output;
         if (output is not null)
-            throw new EmitException("-o/--output and its former spelling --out are both given", "give -o/--output only");
-        error.WriteLine("emit: warning: --out FILE is now -o/--output FILE here; the old spelling goes in the next release");
+            throw new EmitException("-o/--output and its former spelling --out are both given",
+                "give -o/--output only");
+        error.WriteLine(
+            "emit: warning: --out FILE is now -o/--output FILE here; the old spelling goes in the next release");
         return former;
     }
 }

@@ -35,8 +35,10 @@ public static class ErrorPlot
                 });
             }
             var plotted = plt.Add.Bars(bars);
-            plotted.LegendText = $"{target.Target} {target.Numeric}: {target.Vectors} vectors, {h.Exact} exact" + (h.Above > 0 ? $", {h.Above} off the scale" : "");
-            if (double.IsFinite(target.ErrorBound) && target.ErrorBound > 0 && !report.Targets.Take(t).Any(o => o.ErrorBound == target.ErrorBound))
+            plotted.LegendText = $"{target.Target} {target.Numeric}: {target.Vectors} vectors, {h.Exact} exact" +
+                (h.Above > 0 ? $", {h.Above} off the scale" : "");
+            if (double.IsFinite(target.ErrorBound) && target.ErrorBound > 0
+                && !report.Targets.Take(t).Any(o => o.ErrorBound == target.ErrorBound))
             {
                 var line = plt.Add.VerticalLine(Math.Log10(target.ErrorBound), 2, color);
                 line.LinePattern = ScottPlot.LinePattern.Dashed;

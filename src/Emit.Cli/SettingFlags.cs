@@ -1,6 +1,8 @@
 namespace Emit.Cli;
 
-/// <summary>The command-line flag of each library <see cref="Setting"/>: how the CLI names settings in library messages.</summary>
+/// <summary>
+/// The command-line flag of each library <see cref="Setting"/>: how the CLI names settings in library messages.
+/// </summary>
 public static class SettingFlags
 {
     public static string Render(Setting setting) => setting switch

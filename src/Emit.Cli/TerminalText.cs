@@ -5,8 +5,8 @@ namespace Emit.Cli;
 
 /// <summary>
 /// Text from models and data files on its way to a terminal: characters a terminal acts on (C0 controls such as ESC,
-/// BEL, NUL, VT and CR; DEL; C1 controls such as NEL; the line and paragraph separators U+2028 and U+2029; bidirectional
-/// overrides) are written as <c>&lt;U+XXXX&gt;</c>, the form the generated-code comment sanitiser uses
+/// BEL, NUL, VT and CR; DEL; C1 controls such as NEL; the line and paragraph separators U+2028 and U+2029;
+/// bidirectional overrides) are written as <c>&lt;U+XXXX&gt;</c>, the form the generated-code comment sanitiser uses
 /// (docs/generated-code.md). Line feeds and tabs pass. See ECMA-48 for the control functions a terminal interprets.
 /// </summary>
 public static class TerminalText

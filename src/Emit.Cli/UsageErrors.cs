@@ -20,7 +20,8 @@ public static partial class UsageErrors
         // file; say what it is rather than "file not found"
         var swallowed = parse.CommandResult.Children.OfType<ArgumentResult>().SelectMany(a => a.Tokens)
             .Select(t => t.Value)
-            .FirstOrDefault(v => v.StartsWith("--", StringComparison.Ordinal) && !File.Exists(v) && !Directory.Exists(v));
+            .FirstOrDefault(v => v.StartsWith("--", StringComparison.Ordinal)
+                                 && !File.Exists(v) && !Directory.Exists(v));
         if (parse.UnmatchedTokens.Count > 0 || swallowed is not null)
         {
             var token = parse.UnmatchedTokens.Count > 0 ? parse.UnmatchedTokens[0] : swallowed!;
@@ -33,7 +34,8 @@ public static partial class UsageErrors
             if (command.Subcommands.Count > 0 && parse.CommandResult.Children.All(c => c is not ArgumentResult))
             {
                 var guess = Closest(token, command.Subcommands.Where(c => !c.Hidden).Select(c => c.Name));
-                var hint = guess is null ? help : $"did you mean {guess}? see {CommandPath(parse.CommandResult)} {guess} --help";
+                var hint = guess is null ? help
+                    : $"did you mean {guess}? see {CommandPath(parse.CommandResult)} {guess} --help";
                 return $"unknown command '{token}' ({hint})";
             }
             return $"unexpected argument '{token}' ({help})";
@@ -60,7 +62,8 @@ public static partial class UsageErrors
         var text = CannotParse().Replace(message, m =>
             $"{m.Groups["symbol"].Value}: '{m.Groups["value"].Value}' is not {Expected(m.Groups["type"].Value)}");
         text = MustBeOneOf().Replace(text, m =>
-            "must be one of " + string.Join(", ", Quoted().Matches(m.Groups["list"].Value).Select(q => q.Groups[1].Value)));
+            "must be one of " +
+            string.Join(", ", Quoted().Matches(m.Groups["list"].Value).Select(q => q.Groups[1].Value)));
         text = TypeName().Replace(text, m => Expected(m.Value.Trim('\'')));
         return Whitespace().Replace(text, " ").Trim();
     }
@@ -123,7 +126,9 @@ public static partial class UsageErrors
         return prev[b.Length];
     }
 
-    [GeneratedRegex(@"Cannot parse argument '(?<value>.*?)' for (option|argument|command) '(?<symbol>.*?)' as expected type '(?<type>[\w.`\[\]]+)'\.?")]
+    [GeneratedRegex(
+        @"Cannot parse argument '(?<value>.*?)' for (option|argument|command) '(?<symbol>.*?)' as expected type " +
+        @"'(?<type>[\w.`\[\]]+)'\.?")]
     private static partial Regex CannotParse();
 
     [GeneratedRegex(@"Must be one of:(?<list>(\s*'[^']*')+)")]

@@ -31,7 +31,10 @@ public static class DemoData
     /// <summary>Rows of faulty.csv.</summary>
     public const int FaultyRows = 400;
 
-    /// <summary>The threshold is this quantile of the free energy of the calibration rows (rounded up, see <see cref="Calibrate"/>).</summary>
+    /// <summary>
+    /// The threshold is this quantile of the free energy of the calibration rows (rounded up, see
+    /// <see cref="Calibrate"/>).
+    /// </summary>
     public const double ThresholdQuantile = 0.995;
 
     /// <summary>File names written by <see cref="Write"/>.</summary>
@@ -49,17 +52,28 @@ public static class DemoData
     /// <summary>The trainer's seed (the fifth output of the master generator).</summary>
     public static ulong TrainerSeed => Seeds().Trainer;
 
-    /// <summary>File name the training rows have in the model's metadata (they are not shipped; <see cref="TrainingData()"/> makes them).</summary>
+    /// <summary>
+    /// File name the training rows have in the model's metadata (they are not shipped; <see cref="TrainingData()"/>
+    /// makes them).
+    /// </summary>
     public const string TrainingFileName = "training.csv";
 
-    /// <summary>The training rows, as <c>emit train</c> reads them from <see cref="TrainingFileName"/> (header of flag names, then 0/1 rows).</summary>
-    public static TrainingData TrainingData() => TrainingData(Draw(new ReeferFleetGenerator(Seeds().Training), TrainingRows, faulty: false));
+    /// <summary>
+    /// The training rows, as <c>emit train</c> reads them from <see cref="TrainingFileName"/> (header of flag names,
+    /// then 0/1 rows).
+    /// </summary>
+    public static TrainingData TrainingData() =>
+        TrainingData(Draw(new ReeferFleetGenerator(Seeds().Training), TrainingRows, faulty: false));
 
-    /// <summary>The training rows <paramref name="rows"/> as <c>emit train</c> reads them from <see cref="TrainingFileName"/>.</summary>
+    /// <summary>
+    /// The training rows <paramref name="rows"/> as <c>emit train</c> reads them from <see cref="TrainingFileName"/>.
+    /// </summary>
     public static TrainingData TrainingData(ImmutableArray<ReeferRow> rows) =>
         Training.TrainingData.FromRows(rows.Select(r => r.Flags).ToList(), ReeferFlags.Names, TrainingFileName);
 
-    /// <summary>Draws the four logs of the scenario (training, calibration, normal, faulty); same rows every run.</summary>
+    /// <summary>
+    /// Draws the four logs of the scenario (training, calibration, normal, faulty); same rows every run.
+    /// </summary>
     public static DemoLogs Logs()
     {
         var seeds = Seeds();
@@ -71,8 +85,8 @@ public static class DemoData
     }
 
     /// <summary>
-    /// A calibrated threshold rounded up to a multiple of 0.001, as the shipped model's is, so that a last-bit difference
-    /// in a platform's exp/log cannot change the written value (except at an exact multiple).
+    /// A calibrated threshold rounded up to a multiple of 0.001, as the shipped model's is, so that a last-bit
+    /// difference in a platform's exp/log cannot change the written value (except at an exact multiple).
     /// </summary>
     public static double RoundThreshold(double threshold) => Math.Ceiling(threshold * 1000) / 1000;
 
@@ -107,7 +121,8 @@ public static class DemoData
         var m = trained.Model;
         var model = new BoltzmannModel(m.Kind, m.Visible, m.Hidden, m.VisibleBias, m.HiddenBias, m.Weights,
             names: m.Names, threshold: threshold, metadataJson: Metadata(training, settings, trained));
-        return new DemoDataSet(model, normal, faulty, trained.Epochs.Select(e => e.ReconstructionError).ToImmutableArray());
+        return new DemoDataSet(model, normal, faulty,
+            trained.Epochs.Select(e => e.ReconstructionError).ToImmutableArray());
     }
 
     /// <summary>The text of each file (name → content, "\n" line ends).</summary>
@@ -127,10 +142,16 @@ public static class DemoData
         });
     }
 
-    /// <summary>Builds the demo data and writes its four files into <paramref name="folder"/> (created if missing); returns their paths.</summary>
+    /// <summary>
+    /// Builds the demo data and writes its four files into <paramref name="folder"/> (created if missing); returns
+    /// their paths.
+    /// </summary>
     public static IReadOnlyList<string> WriteAll(string folder) => Write(Build(), folder);
 
-    /// <summary>Writes the four files of <paramref name="data"/> into <paramref name="folder"/>, each atomically; returns their paths.</summary>
+    /// <summary>
+    /// Writes the four files of <paramref name="data"/> into <paramref name="folder"/>, each atomically; returns their
+    /// paths.
+    /// </summary>
     public static IReadOnlyList<string> Write(DemoDataSet data, string folder)
     {
         ArgumentException.ThrowIfNullOrEmpty(folder);
@@ -178,9 +199,12 @@ public static class DemoData
             void Num(string name, double x) { w.WritePropertyName(name); w.WriteRawValue(ModelJson.Number(x)); }
             w.WriteStartObject();
             w.WriteString("name", "reefer-fleet");
-            w.WriteString("description", "Invented demo scenario: 56 status flags of a refrigerated container fleet. Not real data.");
+            w.WriteString("description",
+                "Invented demo scenario: 56 status flags of a refrigerated container fleet. Not real data.");
             w.WriteString("caution", "A monitoring aid, not a safety function.");
-            w.WriteString("regenerate", "dotnet run demo-data/regenerate.cs (Emit.Demo.DemoData.WriteAll; the model is what emit train makes of the training rows with the options in metadata.training); see demo-data/README.md");
+            w.WriteString("regenerate",
+                "dotnet run demo-data/regenerate.cs (Emit.Demo.DemoData.WriteAll; the model is what emit train makes " +
+                "of the training rows with the options in metadata.training); see demo-data/README.md");
             w.WriteStartObject("generator");
             w.WriteString("name", "Emit.Demo.ReeferFleetGenerator");
             w.WriteNumber("version", ReeferFleetGenerator.Version);
@@ -195,7 +219,9 @@ public static class DemoData
             TrainingMetadata.WriteTraining(w, training, null, t, trained);
             w.WriteNumber("training_rows", TrainingRows);
             w.WriteStartObject("threshold");
-            w.WriteString("method", "conformal threshold at false-alarm rate 1 - quantile over held-out normal rows (docs/calibrate.md), rounded up to 0.001");
+            w.WriteString("method",
+                "conformal threshold at false-alarm rate 1 - quantile over held-out normal rows (docs/calibrate.md), " +
+                "rounded up to 0.001");
             Num("quantile", ThresholdQuantile);
             w.WriteNumber("calibration_rows", CalibrationRows);
             w.WriteEndObject();

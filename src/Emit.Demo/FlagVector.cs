@@ -3,7 +3,9 @@ using Emit.Training;
 
 namespace Emit.Demo;
 
-/// <summary>One status report being built: a 0/1 value per <see cref="ReeferFlag"/> and the generator drawing it.</summary>
+/// <summary>
+/// One status report being built: a 0/1 value per <see cref="ReeferFlag"/> and the generator drawing it.
+/// </summary>
 public sealed class FlagVector
 {
     private readonly byte[] _bits = new byte[ReeferFlags.Count];
@@ -20,7 +22,9 @@ public sealed class FlagVector
         set => _bits[(int)flag] = value ? (byte)1 : (byte)0;
     }
 
-    /// <summary>Sets <paramref name="flag"/> on with probability <paramref name="p"/> (off otherwise); returns the value.</summary>
+    /// <summary>
+    /// Sets <paramref name="flag"/> on with probability <paramref name="p"/> (off otherwise); returns the value.
+    /// </summary>
     public bool Draw(ReeferFlag flag, double p) => this[flag] = Rng.Chance(p);
 
     /// <summary>Turns every listed flag off.</summary>

@@ -10,19 +10,22 @@ namespace Emit.Demo;
 /// </summary>
 public static class ReeferFaults
 {
-    private static readonly ImmutableArray<string> Holding = ImmutableArray.Create("steady_chilled", "steady_frozen", "genset_road_transit");
+    private static readonly ImmutableArray<string> Holding = ImmutableArray.Create("steady_chilled", "steady_frozen",
+        "genset_road_transit");
     private static readonly ImmutableArray<string> Running = Holding.Add("pull_down");
 
     /// <summary>Every fault, in the order the generator chooses among them (uniformly).</summary>
     public static readonly ImmutableArray<ReeferFault> All = ImmutableArray.Create(
         new ReeferFault("door_open_compressor_running",
-            "Doors left open for long while the unit keeps cooling at full capacity: warm air, fans running, door alarm often raised.",
+            "Doors left open for long while the unit keeps cooling at full capacity: warm air, fans running, door " +
+            "alarm often raised.",
             Holding, DoorOpenCompressorRunning),
         new ReeferFault("defrost_stuck",
             "A defrost that does not end: heater on past its time limit, refrigeration stopped, temperatures rising.",
             Holding, DefrostStuck),
         new ReeferFault("evaporator_fan_failure",
-            "Evaporator fans stopped while the compressor runs: no air over the cargo, high temperature alarm, low suction pressure.",
+            "Evaporator fans stopped while the compressor runs: no air over the cargo, high temperature alarm, low " +
+            "suction pressure.",
             Running, EvaporatorFanFailure),
         new ReeferFault("condenser_fan_failure",
             "Condenser fan stopped while the compressor runs: high discharge pressure, compressor alarms.",
@@ -31,10 +34,12 @@ public static class ReeferFaults
             "Contradictory power flags: shore and generator power both reported, or neither while the compressor runs.",
             Running.Add("defrost_cycle"), PowerSourceConflict),
         new ReeferFault("sensor_flicker",
-            "A loose sensor connector: temperature and sensor flags flip at random, supply air reported both above and below the band.",
+            "A loose sensor connector: temperature and sensor flags flip at random, supply air reported both above " +
+            "and below the band.",
             Holding, SensorFlicker),
         new ReeferFault("frozen_cargo_ventilated",
-            "Fresh-air ventilation left open (often with humidity control) on a frozen setpoint: a settings error that touches one or two flags.",
+            "Fresh-air ventilation left open (often with humidity control) on a frozen setpoint: a settings error " +
+            "that touches one or two flags.",
             ImmutableArray.Create("steady_frozen"), FrozenCargoVentilated),
         new ReeferFault("fan_speed_conflict",
             "Evaporator fans reported at high and low speed at once (a relay or wiring fault).",
@@ -109,7 +114,8 @@ public static class ReeferFaults
         }
         else
         {
-            v.Clear(PowerShore, PowerGenset, GensetRunning, GensetLowFuel, DefrostActive, DefrostHeaterOn, DefrostTerminationReached);
+            v.Clear(PowerShore, PowerGenset, GensetRunning, GensetLowFuel, DefrostActive, DefrostHeaterOn,
+                DefrostTerminationReached);
             v[CompressorOn] = true;
             v[CondenserFan] = true;
         }

@@ -28,7 +28,9 @@ public sealed class ReeferFleetGenerator
         return new ReeferRow(v.ToImmutable(), mode.Name, null);
     }
 
-    /// <summary>A faulty report: a fault chosen uniformly, a base mode by weight among the fault's, then the fault's recipe.</summary>
+    /// <summary>
+    /// A faulty report: a fault chosen uniformly, a base mode by weight among the fault's, then the fault's recipe.
+    /// </summary>
     public ReeferRow NextFaulty()
     {
         var fault = ReeferFaults.All[_rng.NextBelow(ReeferFaults.All.Length)];

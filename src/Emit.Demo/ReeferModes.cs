@@ -12,22 +12,36 @@ public static class ReeferModes
     /// <summary>Every mode, in the order the generator weighs them.</summary>
     public static readonly ImmutableArray<ReeferMode> All = ImmutableArray.Create(
         new ReeferMode("pull_down", 10,
-            "Cooling a freshly loaded container down to its setpoint: compressor at full capacity, fans up, temperatures above setpoint.",
+            "Cooling a freshly loaded container down to its setpoint: compressor at full capacity, fans up, " +
+            "temperatures above setpoint.",
             PullDown),
         new ReeferMode("steady_chilled", 25,
-            "Holding a chilled setpoint on shore or vessel power: compressor cycling and often unloaded, ventilation and humidity control as set.",
-            v => { v[SetpointChilled] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldChilled(v); Telemetry(v, 0.85, 0.9); }),
+            "Holding a chilled setpoint on shore or vessel power: compressor cycling and often unloaded, ventilation " +
+            "and humidity control as set.",
+            v =>
+            {
+                v[SetpointChilled] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldChilled(v);
+                Telemetry(v, 0.85, 0.9);
+            }),
         new ReeferMode("steady_frozen", 25,
-            "Holding a frozen setpoint on shore or vessel power: compressor mostly on with the economiser, fans at low speed, vents closed.",
-            v => { v[SetpointFrozen] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldFrozen(v); Telemetry(v, 0.85, 0.9); }),
+            "Holding a frozen setpoint on shore or vessel power: compressor mostly on with the economiser, fans at " +
+            "low speed, vents closed.",
+            v =>
+            {
+                v[SetpointFrozen] = true; ShorePower(v); Ambient(v); v.Draw(InTransit, 0.6); HoldFrozen(v);
+                Telemetry(v, 0.85, 0.9);
+            }),
         new ReeferMode("defrost_cycle", 8,
-            "A timed evaporator defrost: compressor and fans stopped, defrost heater on until the coil reaches its termination temperature.",
+            "A timed evaporator defrost: compressor and fans stopped, defrost heater on until the coil reaches its " +
+            "termination temperature.",
             Defrost),
         new ReeferMode("door_open_loading", 7,
-            "Doors open at a depot while cargo is loaded or inspected: refrigeration mostly stopped, air above setpoint.",
+            "Doors open at a depot while cargo is loaded or inspected: refrigeration mostly stopped, air above " +
+            "setpoint.",
             DoorOpenLoading),
         new ReeferMode("genset_road_transit", 15,
-            "On a truck chassis powered by a clip-on generator set, holding a chilled or frozen setpoint; weaker remote link.",
+            "On a truck chassis powered by a clip-on generator set, holding a chilled or frozen setpoint; weaker " +
+            "remote link.",
             v =>
             {
                 bool frozen = Setpoint(v, 0.5);
@@ -38,7 +52,8 @@ public static class ReeferModes
                 Telemetry(v, 0.35, 0.97);
             }),
         new ReeferMode("unpowered_transfer", 5,
-            "Unplugged for a short move between stack, truck and vessel: no power, everything stopped, the logger on its battery.",
+            "Unplugged for a short move between stack, truck and vessel: no power, everything stopped, the logger on " +
+            "its battery.",
             UnpoweredTransfer));
 
     /// <summary>The mode called <paramref name="name"/>.</summary>
@@ -167,7 +182,9 @@ public static class ReeferModes
         v.Draw(ReturnTempAboveSetpoint, returnAbove);
     }
 
-    /// <summary>Rare harmless glitches that real logs also contain, so the model does not treat them as impossible.</summary>
+    /// <summary>
+    /// Rare harmless glitches that real logs also contain, so the model does not treat them as impossible.
+    /// </summary>
     private static void Nuisance(FlagVector v)
     {
         if (v.Rng.Chance(0.006)) { v[AmbientSensorFault] = true; v[AlarmSensor] = true; }

@@ -62,7 +62,9 @@ public static class AtomicFile
         var seen = new HashSet<string>(StringComparer.OrdinalIgnoreCase);
         for (int k = 0; k < targets.Length; k++)
             if (!targets[k].Device && !seen.Add(targets[k].Path))
-                throw new EmitException("two outputs are the same file", "give each output its own name and folder (names that differ only in letter case clash on some file systems)", files[k].Path);
+                throw new EmitException("two outputs are the same file",
+                    "give each output its own name and folder (names that differ only in letter case clash on some " +
+                    "file systems)", files[k].Path);
         var temps = new string?[targets.Length];
         try
         {
@@ -119,7 +121,8 @@ public static class AtomicFile
         foreach (var input in inputs)
             if (input is not null and not "-" && string.Equals(Resolved(input), o, comparison))
                 throw new EmitException("the output is also an input of this command",
-                    "write to another file: emit never replaces a file it is reading, even when allowed to replace files", output);
+                    "write to another file: emit never replaces a file it is reading, even when allowed to replace " +
+                    "files", output);
     }
 
     private static string Resolved(string path)
@@ -148,23 +151,27 @@ public static class AtomicFile
         {
             string? final;
             try { final = File.ResolveLinkTarget(full, returnFinalTarget: true)?.FullName; }
-            catch (IOException e) { throw new EmitException($"cannot follow the link: {e.Message}", "replace the link with a file name", path); }
+            catch (IOException e) { throw new EmitException($"cannot follow the link: {e.Message}",
+                "replace the link with a file name", path); }
             if (final is null || SpecialFile.KindOf(final, followLinks: false) == SpecialFileKind.Missing)
-                throw new EmitException("the output is a link to a missing file", "remove the link or name another file", path);
+                throw new EmitException("the output is a link to a missing file",
+                    "remove the link or name another file", path);
             full = final;
             kind = SpecialFile.KindOf(full, followLinks: false);
         }
         switch (kind)
         {
             case SpecialFileKind.Missing:
-                if (File.Exists(Path.GetDirectoryName(full))) throw new EmitException("the output's folder is a file", "name a file in a folder", path);
+                if (File.Exists(Path.GetDirectoryName(full)))
+                throw new EmitException("the output's folder is a file", "name a file in a folder", path);
                 return new Target(full, false);
             case SpecialFileKind.Directory:
                 throw new EmitException("the output is a folder", "name a file, not a folder", path);
             case SpecialFileKind.CharacterDevice:
                 return new Target(full, true);
             case SpecialFileKind.Other:
-                throw new EmitException("the output is a special file (a FIFO, socket or block device)", "name a regular file, or - for standard output where the command allows it", path);
+                throw new EmitException("the output is a special file (a FIFO, socket or block device)",
+                    "name a regular file, or - for standard output where the command allows it", path);
         }
         if (!force)
         {
@@ -172,10 +179,13 @@ public static class AtomicFile
             try { own = WrittenLedger.Matches(full); }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException)
             {
-                throw new EmitException($"cannot read the existing file to check who wrote it: {e.Message}", $"move it away, or allow replacing it ({Setting.Force.Ref()})", path);
+                throw new EmitException($"cannot read the existing file to check who wrote it: {e.Message}",
+                    $"move it away, or allow replacing it ({Setting.Force.Ref()})", path);
             }
             if (!own)
-                throw new EmitException("would replace a file that emit did not write (or that was changed after emit wrote it)", $"move it away, choose another name, or allow replacing it ({Setting.Force.Ref()})", path);
+                throw new EmitException(
+                    "would replace a file that emit did not write (or that was changed after emit wrote it)",
+                    $"move it away, choose another name, or allow replacing it ({Setting.Force.Ref()})", path);
         }
         return new Target(full, false);
     }
@@ -204,13 +214,17 @@ public static class AtomicFile
         return parts.Length == 0 ? full : Path.Combine(current, parts[^1]);
     }
 
-    /// <summary>A temporary name beside <paramref name="full"/>, unique to this process and call; stale ones of dead processes are removed first.</summary>
+    /// <summary>
+    /// A temporary name beside <paramref name="full"/>, unique to this process and call; stale ones of dead processes
+    /// are removed first.
+    /// </summary>
     private static string TempName(string full)
     {
         var dir = Path.GetDirectoryName(full)!;
         var prefix = "." + Path.GetFileName(full) + ".";
         StaleTemps.Remove(dir, prefix);
-        return Path.Combine(dir, prefix + Environment.ProcessId + "." + Guid.NewGuid().ToString("N")[..8] + StaleTemps.Suffix);
+        return Path.Combine(dir,
+            prefix + Environment.ProcessId + "." + Guid.NewGuid().ToString("N")[..8] + StaleTemps.Suffix);
     }
 
     private static void WriteDevice(string path, Action<Stream> write)
@@ -225,7 +239,9 @@ public static class AtomicFile
     }
 
     private static EmitException CannotWrite(Exception e, string path) =>
-        e is EmitException ee ? ee : new EmitException($"cannot write: {e.Message}", "check the folder exists, is writable and has space", path, inner: e);
+        e is EmitException ee ? ee
+        : new EmitException($"cannot write: {e.Message}", "check the folder exists, is writable and has space", path,
+            inner: e);
 
     private static void TryDelete(string path)
     {
@@ -233,6 +249,8 @@ public static class AtomicFile
         catch (Exception e) when (e is IOException or UnauthorizedAccessException) { }
     }
 
-    /// <summary>Tests only: called before each temporary file is created, so a test can make a write fail midway.</summary>
+    /// <summary>
+    /// Tests only: called before each temporary file is created, so a test can make a write fail midway.
+    /// </summary>
     internal static Action<string>? BeforeTempWrite;
 }

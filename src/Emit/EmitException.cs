@@ -7,7 +7,12 @@ namespace Emit;
 /// </summary>
 public sealed class EmitException : Exception
 {
-    public EmitException(string problem, string? hint = null, string? file = null, long? line = null, long? column = null, Exception? inner = null)
+    /// <summary>
+    /// A user error: <paramref name="problem"/> and an optional <paramref name="hint"/>, at an optional position in a
+    /// file.
+    /// </summary>
+    public EmitException(string problem, string? hint = null, string? file = null, long? line = null,
+        long? column = null, Exception? inner = null)
         : base(problem, inner)
     {
         _problem = problem;
@@ -26,15 +31,21 @@ public sealed class EmitException : Exception
     /// <summary>What the user can do about it, or null; settings named by their project-file keys.</summary>
     public string? Hint => _hint is null ? null : Settings.Render(_hint);
 
+    /// <summary>The file the error is in, or null.</summary>
     public string? File { get; }
+    /// <summary>The 1-based line in <see cref="File"/>, or null.</summary>
     public long? Line { get; }
+    /// <summary>The 1-based column in <see cref="File"/>, or null.</summary>
     public long? Column { get; }
 
     /// <summary>A copy of this error that names <paramref name="file"/> when it did not name a file yet.</summary>
     public EmitException InFile(string file) =>
         File is null ? new EmitException(_problem, _hint, file, Line, Column, InnerException) : this;
 
-    /// <summary>A copy of this error placed at <paramref name="line"/> and <paramref name="column"/> of <paramref name="file"/> when it had no place yet.</summary>
+    /// <summary>
+    /// A copy of this error placed at <paramref name="line"/> and <paramref name="column"/> of <paramref name="file"/>
+    /// when it had no place yet.
+    /// </summary>
     public EmitException At(string file, long line, long? column) =>
         Line is null ? new EmitException(_problem, _hint, File ?? file, line, column, InnerException) : this;
 
@@ -54,5 +65,6 @@ public sealed class EmitException : Exception
         return text.Replace('\n', ' ').Replace('\r', ' ');
     }
 
+    /// <summary>The one-line message, as <see cref="OneLine"/> gives it.</summary>
     public override string Message => OneLine();
 }

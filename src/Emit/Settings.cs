@@ -31,7 +31,9 @@ public static class Settings
     /// <summary>A reference to <paramref name="setting"/> for a message, rendered by <see cref="Render"/>.</summary>
     public static string Ref(this Setting setting) => $"{Open}{(int)setting}{Close}";
 
-    /// <summary><paramref name="text"/> with every setting reference replaced by <paramref name="name"/>'s text for it.</summary>
+    /// <summary>
+    /// <paramref name="text"/> with every setting reference replaced by <paramref name="name"/>'s text for it.
+    /// </summary>
     public static string Render(string text, Func<Setting, string>? name = null)
     {
         if (text.IndexOf(Open) < 0) return text;

@@ -7,8 +7,13 @@ namespace Emit;
 /// </summary>
 public static class StaleTemps
 {
+    /// <summary>Suffix of emit's temporary files.</summary>
     public const string Suffix = ".emit-tmp";
 
+    /// <summary>
+    /// Deletes the temporary files in <paramref name="folder"/> whose names start with <paramref name="prefix"/> and
+    /// whose writing process is gone.
+    /// </summary>
     public static void Remove(string folder, string prefix)
     {
         IEnumerable<string> candidates;

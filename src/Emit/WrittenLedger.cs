@@ -11,9 +11,12 @@ namespace Emit;
 /// </summary>
 public static class WrittenLedger
 {
+    /// <summary>Name of the ledger file in each folder emit writes to.</summary>
     public const string FileName = ".emit-written";
 
-    /// <summary>True when <paramref name="path"/> is recorded in its folder's ledger with its current content's hash.</summary>
+    /// <summary>
+    /// True when <paramref name="path"/> is recorded in its folder's ledger with its current content's hash.
+    /// </summary>
     public static bool Matches(string path)
     {
         var full = Path.GetFullPath(path);

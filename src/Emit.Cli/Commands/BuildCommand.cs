@@ -3,7 +3,9 @@ using Emit.Project;
 
 namespace Emit.Cli.Commands;
 
-/// <summary><c>emit build PROJECT</c>: generates every scorer a project file lists, as <c>emit compile</c> would.</summary>
+/// <summary>
+/// <c>emit build PROJECT</c>: generates every scorer a project file lists, as <c>emit compile</c> would.
+/// </summary>
 public sealed class BuildCommand : ICliCommand
 {
     private readonly Argument<FileInfo> _project = new Argument<FileInfo>("PROJECT")
@@ -15,7 +17,8 @@ public sealed class BuildCommand : ICliCommand
 
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("build", "Generate every scorer listed in a project file; nothing is written unless all of them compile")
+        var cmd = new Command("build",
+            "Generate every scorer listed in a project file; nothing is written unless all of them compile")
         {
             _project, _force,
         };

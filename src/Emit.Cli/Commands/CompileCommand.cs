@@ -25,11 +25,13 @@ public sealed class CompileCommand : ICliCommand
         "--target", "Output languages, comma-separated", Targets.All.Select(t => t.Name).ToArray(), "c");
 
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
-        "--numeric", "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)", NumericChoices.All, "f32");
+        "--numeric", "Arithmetic of the generated scorer: f32, f64 or fixed (integer only, with a proved error bound)",
+        NumericChoices.All, "f32");
 
     private readonly Option<string?> _name = new("--name")
     {
-        Description = "Scorer name, a C identifier (default: from the model file name); files are NAME.h, NAME.c, NAME.cs",
+        Description = "Scorer name, a C identifier (default: from the model file name); files are NAME.h, NAME.c, " +
+            "NAME.cs",
     };
 
     private readonly Option<string> _namespace = new("--namespace")
@@ -74,7 +76,8 @@ public sealed class CompileCommand : ICliCommand
     {
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest, _optimize, _alarmFilter, _priors })
+        foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest,
+            _optimize, _alarmFilter, _priors })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -82,18 +85,24 @@ public sealed class CompileCommand : ICliCommand
         {
             var mode = parse.GetValue(_numeric)!.Value;
             if (mode != NumericMode.Fixed && _fixed.GivenOption(parse) is { } given)
-                throw new EmitException($"{given} applies to --numeric fixed only", "add --numeric fixed or leave the option out");
+                throw new EmitException($"{given} applies to --numeric fixed only",
+                    "add --numeric fixed or leave the option out");
             var models = parse.GetValue(_model)!;
             var priors = ClassifyCommand.ParsePriors(parse.GetValue(_priors));
             if (models.Length == 1 && priors is not null)
-                throw new EmitException("--priors applies to a classifier (several models)", "give two or more models, or leave --priors out");
+                throw new EmitException("--priors applies to a classifier (several models)",
+                    "give two or more models, or leave --priors out");
             if (models.Length > 1)
-                return RunClassifier(ctx, models.Select(m => m.FullName).ToArray(), priors, new CompileOptions(
-                    parse.GetValue(_target)!, mode, parse.GetValue(_name) ?? Naming.ScorerNameFromFile(models[0].FullName),
+            {
+                var options = new CompileOptions(
+                    parse.GetValue(_target)!, mode,
+                    parse.GetValue(_name) ?? Naming.ScorerNameFromFile(models[0].FullName),
                     parse.GetValue(_namespace)!, parse.GetValue(_selfTest), parse.GetValue(_templates)?.FullName,
                     mode == NumericMode.Fixed ? _fixed.Read(parse) : null, parse.GetValue(_optimize),
-                    AlarmFilterOption.Read(parse, _alarmFilter)), parse.GetValue(_out)!, parse.GetValue(_force),
-                    parse.GetValue(_name) is not null);
+                    AlarmFilterOption.Read(parse, _alarmFilter));
+                return RunClassifier(ctx, models.Select(m => m.FullName).ToArray(), priors, options,
+                    parse.GetValue(_out)!, parse.GetValue(_force), parse.GetValue(_name) is not null);
+            }
             return Run(ctx,
                 models[0].FullName,
                 parse.GetValue(_target)!,
@@ -115,17 +124,20 @@ public sealed class CompileCommand : ICliCommand
         string outDir, bool force, bool named)
     {
         if (!named)
-            throw new EmitException("a classifier needs a name", "give --name NAME (files NAME.h, NAME.c, NAME.cs and NAME_1 ... per model)");
+            throw new EmitException("a classifier needs a name",
+                "give --name NAME (files NAME.h, NAME.c, NAME.cs and NAME_1 ... per model)");
         var models = modelPaths.Select(ModelLoader.Load).ToArray();
-        var compiled = ClassifierCompiler.Build(models, modelPaths.Select(Path.GetFileName).ToArray()!, priors, options);
+        var labels = modelPaths.Select(p => Path.GetFileName(p)).ToArray();
+        var compiled = ClassifierCompiler.Build(models, labels, priors, options);
         foreach (var path in OutputFolder.Write(outDir, compiled.AllFiles, force))
             ctx.Out.WriteLine($"wrote {path}");
         return CliApp.Ok;
     }
 
-    private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name, string ns,
-        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions, OptimizeFor optimize,
-        Emit.Detection.AlarmFilterSpec? filter, bool force)
+    private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name,
+        string ns,
+        string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions,
+        OptimizeFor optimize, Emit.Detection.AlarmFilterSpec? filter, bool force)
     {
         name ??= Naming.ScorerNameFromFile(modelPath);
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize, filter);

@@ -9,7 +9,8 @@ namespace Emit.Cli.Commands;
 
 /// <summary>
 /// <c>emit explain MODEL --input DATA [--top K]</c>: for each vector, the K units whose flip lowers the free energy
-/// most (ΔF_i = F(v with unit i flipped) − F(v), most negative first); CSV <c>index,rank,unit,name,delta_free_energy</c>
+/// most (ΔF_i = F(v with unit i flipped) − F(v), most negative first); CSV
+/// <c>index,rank,unit,name,delta_free_energy</c>
 /// (docs/explain.md).
 /// </summary>
 public sealed class ExplainCommand : ICliCommand
@@ -17,15 +18,31 @@ public sealed class ExplainCommand : ICliCommand
     /// <summary>Units listed per vector unless --top says otherwise.</summary>
     public const int DefaultTop = 3;
 
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "The model (.json or .npz)" }.MustExist();
-    private readonly Option<string> _input = new("--input", "-i") { HelpName = "DATA", Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
-    private readonly Option<int> _top = new("--top") { HelpName = "K", Description = $"Units listed per vector (default {DefaultTop}; at most the model's visible units)", DefaultValueFactory = _ => DefaultTop };
-    private readonly Option<string?> _output = new("--output", "-o") { HelpName = "FILE", Description = "CSV file to write (default: standard output; - also means standard output)" };
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "The model (.json or .npz)" }.MustExist();
+    private readonly Option<string> _input = new("--input", "-i")
+    {
+        HelpName = "DATA",
+        Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
+        Required = true,
+    };
+    private readonly Option<int> _top = new("--top")
+    {
+        HelpName = "K",
+        Description = $"Units listed per vector (default {DefaultTop}; at most the model's visible units)",
+        DefaultValueFactory = _ => DefaultTop,
+    };
+    private readonly Option<string?> _output = new("--output", "-o")
+    {
+        HelpName = "FILE",
+        Description = "CSV file to write (default: standard output; - also means standard output)",
+    };
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("explain", "For each vector, the units whose flip lowers the free energy most: the flags that look most out of place")
+        var cmd = new Command("explain",
+            "For each vector, the units whose flip lowers the free energy most: the flags that look most out of place")
         {
             _model, _input, _top, _output, _force,
         };
@@ -41,13 +58,15 @@ public sealed class ExplainCommand : ICliCommand
             using var reader = VectorReader.Open(parse.GetRequiredValue(_input), model.Visible, ctx.In);
             VectorNames.Check(model, reader);
             var names = !model.Names.IsEmpty ? model.Names : reader.Names;
-            TextOutput.Write(parse.GetValue(_output), parse.GetValue(_force), ctx.Out, w => Write(explainer, names, top, reader, w));
+            TextOutput.Write(parse.GetValue(_output), parse.GetValue(_force), ctx.Out,
+                w => Write(explainer, names, top, reader, w));
             return CliApp.Ok;
         });
         return cmd;
     }
 
-    private static void Write(UnitFlipExplainer explainer, IReadOnlyList<string> names, int top, VectorReader reader, TextWriter w)
+    private static void Write(UnitFlipExplainer explainer, IReadOnlyList<string> names, int top, VectorReader reader,
+        TextWriter w)
     {
         w.WriteLine("index,rank,unit,name,delta_free_energy");
         var units = new byte[explainer.Model.Visible];

@@ -7,13 +7,18 @@ using Emit.Quantize;
 
 namespace Emit.Cli.Commands;
 
-/// <summary><c>emit inspect MODEL [--json]</c>: kind, sizes, parameter statistics, hidden input ranges, table sizes, SHA-256.</summary>
+/// <summary>
+/// <c>emit inspect MODEL [--json]</c>: kind, sizes, parameter statistics, hidden input ranges, table sizes, SHA-256.
+/// </summary>
 public sealed class InspectCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
-    private readonly Option<bool> _json = new("--json") { Description = "Write the report as JSON to standard output instead of text" };
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<bool> _json =
+        new("--json") { Description = "Write the report as JSON to standard output instead of text" };
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
-        "--numeric", "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
+        "--numeric",
+        "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
                      "the predicted flash, stack and run-time dependencies of the generated C", NumericChoices.All);
 
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
@@ -25,7 +30,9 @@ public sealed class InspectCommand : ICliCommand
 
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("inspect", "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and SHA-256")
+        var cmd = new Command("inspect",
+            "Describe a model: kind, sizes, parameter statistics, each hidden unit's input range, table sizes and " +
+            "SHA-256")
         {
             _model, _json, _numeric, _optimize,
         };
@@ -44,7 +51,8 @@ public sealed class InspectCommand : ICliCommand
                 if (fixedOptions is not null) plan = FixedPointPlanner.Build(model, fixedOptions);
                 if (mode is { } m)
                 {
-                    var options = new CompileOptions(["c"], m, "model", Fixed: fixedOptions, Optimize: parse.GetValue(_optimize));
+                    var options = new CompileOptions(["c"], m, "model", Fixed: fixedOptions,
+                        Optimize: parse.GetValue(_optimize));
                     ScorerPlan scorer = plan is null ? FloatScorerPlan.Build(model, options, Path.GetFileName(path))
                         : FixedScorerPlan.Build(model, options, Path.GetFileName(path), plan);
                     footprint = FootprintModel.Predict(scorer);
@@ -63,21 +71,29 @@ public sealed class InspectCommand : ICliCommand
 
     private static string N(double x) => x.ToString("G6", CultureInfo.InvariantCulture);
 
-    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint)
+    private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan,
+        ScorerFootprint? footprint)
     {
         o.WriteLine($"model          {path}");
         o.WriteLine($"sha256         {m.Sha256}");
         o.WriteLine($"kind           {m.Kind.ToText()}");
         o.WriteLine($"units          {m.Visible} visible, {m.Hidden} hidden" + (m.Names.IsEmpty ? "" : " (named)"));
-        if (m.Kind != ModelKind.Rbm) o.WriteLine($"links          {m.VisibleLinks.Length} visible-visible" + (m.Kind == ModelKind.General ? $", {m.HiddenLinks.Length} hidden-hidden" : ""));
+        if (m.Kind != ModelKind.Rbm)
+            o.WriteLine(
+                $"links          {m.VisibleLinks.Length} visible-visible" +
+                (m.Kind == ModelKind.General ? $", {m.HiddenLinks.Length} hidden-hidden" : ""));
         o.WriteLine($"threshold      {(m.Threshold is { } t ? N(t) : "none")}");
-        o.WriteLine($"log partition  {(m.LogPartition is { } z ? $"{N(z.Value)} ({z.Method}, stderr {N(z.Stderr)})" : "none")}");
+        o.WriteLine(
+            "log partition  " +
+            $"{(m.LogPartition is { } z ? $"{N(z.Value)} ({z.Method}, stderr {N(z.Stderr)})" : "none")}");
         o.WriteLine();
         o.WriteLine("parameters      count       min         max         mean        std         mean|x|");
         void Row(string name, ValueSummary v)
         {
             if (v.Count == 0) return;
-            o.WriteLine($"{name,-15} {v.Count,-11} {N(v.Min),-11} {N(v.Max),-11} {N(v.Mean),-11} {N(v.Std),-11} {N(v.MeanAbs)}");
+            o.WriteLine(
+                $"{name,-15} {v.Count,-11} {N(v.Min),-11} {N(v.Max),-11} {N(v.Mean),-11} {N(v.Std),-11} " +
+                $"{N(v.MeanAbs)}");
         }
         Row("weights", s.Weights);
         Row("visible_bias", s.VisibleBias);
@@ -94,25 +110,38 @@ public sealed class InspectCommand : ICliCommand
         {
             o.WriteLine();
             o.WriteLine($"footprint      {fp.Reference}, {CompileOptions.DefaultSelfTestVectors} self-test vectors");
-            o.WriteLine($"  flash        {fp.FlashBytes} bytes predicted (code {fp.Figures.CodeBytes}, tables {fp.Figures.TableBytes})");
-            o.WriteLine($"  stack        {fp.StackBytes} bytes worst case predicted ({fp.Figures.LibraryStackAllowance} of them for library calls)");
-            o.WriteLine($"  run time     {(fp.LibmFunctions.Count == 0 ? "no libm function" : string.Join(", ", fp.LibmFunctions) + " (libm: link with -lm)")}; " +
-                        "a compiler may call memcpy and memset");
+            o.WriteLine(
+                $"  flash        {fp.FlashBytes} bytes predicted (code {fp.Figures.CodeBytes}, tables " +
+                $"{fp.Figures.TableBytes})");
+            o.WriteLine(
+                $"  stack        {fp.StackBytes} bytes worst case predicted ({fp.Figures.LibraryStackAllowance} of " +
+                "them for library calls)");
+            var libm = fp.LibmFunctions.Count == 0
+                ? "no libm function"
+                : string.Join(", ", fp.LibmFunctions) + " (libm: link with -lm)";
+            o.WriteLine($"  run time     {libm}; a compiler may call memcpy and memset");
         }
         if (plan is null) return;
         o.WriteLine();
-        o.WriteLine($"fixed point    {plan.WeightType.ToText()} weights, {plan.Accumulator.ToText()} accumulator ({plan.AccumulatorReason})");
+        o.WriteLine(
+            $"fixed point    {plan.WeightType.ToText()} weights, {plan.Accumulator.ToText()} accumulator " +
+            $"({plan.AccumulatorReason})");
         o.WriteLine($"  energy       {plan.EnergyFormat} (real = value / 2^{plan.EnergyFractionBits})");
         o.WriteLine($"  weights      {plan.WeightFormatSummary}");
         o.WriteLine($"  accumulators {plan.AccumulatorFormatSummary}");
         if (!plan.Lateral.IsEmpty) o.WriteLine($"  lateral      {plan.LateralFormat}");
-        o.WriteLine($"  softplus     {plan.Table.Segments} segments over [0, {N(plan.Table.Range)}], entries {plan.Table.EntryFormat}, {plan.TableBytes} bytes");
+        o.WriteLine(
+            $"  softplus     {plan.Table.Segments} segments over [0, {N(plan.Table.Range)}], entries " +
+            $"{plan.Table.EntryFormat}, {plan.TableBytes} bytes");
         o.WriteLine($"  rounding     half away from zero; no division, no left shift of negative values");
-        o.WriteLine($"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all binary vectors");
+        o.WriteLine(
+            $"  error bound  {plan.ErrorBound.ToString("R", CultureInfo.InvariantCulture)} nats, worst case over all " +
+            "binary vectors");
         o.WriteLine($"  table bytes  weights {plan.WeightBytes}, softplus table {plan.TableBytes}");
     }
 
-    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan, ScorerFootprint? footprint) => JsonOut.Write(o, w =>
+    private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan,
+        ScorerFootprint? footprint) => JsonOut.Write(o, w =>
     {
         w.WriteStartObject();
         w.WriteString("model", path);
@@ -194,7 +223,13 @@ public sealed class InspectCommand : ICliCommand
             w.WriteString("rounding", "half away from zero");
             w.WriteNumber("error_bound", plan.ErrorBound);
             w.WriteStartObject("error_parts");
-            void Part(string name, ErrorInterval e) { w.WriteStartArray(name); w.WriteNumberValue(e.Lo); w.WriteNumberValue(e.Hi); w.WriteEndArray(); }
+            void Part(string name, ErrorInterval e)
+            {
+                w.WriteStartArray(name);
+                w.WriteNumberValue(e.Lo);
+                w.WriteNumberValue(e.Hi);
+                w.WriteEndArray();
+            }
             Part("visible_bias", plan.Error.VisibleBias);
             Part("lateral", plan.Error.Lateral);
             Part("hidden_inputs", plan.Error.HiddenInputs);

@@ -9,15 +9,24 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit logz MODEL --method exact [--json] [--store]</c>: the log partition function.</summary>
 public sealed class LogzCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
     private readonly Option<Chosen<LogZMethod>> _method = CliOptions.Choice(
-        "--method", "How to compute log Z: exact (enumeration) or ais (annealed importance sampling, for larger models)",
+        "--method",
+        "How to compute log Z: exact (enumeration) or ais (annealed importance sampling, for larger models)",
         [("exact", LogZMethod.Exact), ("ais", LogZMethod.Ais)], "exact");
-    private readonly Option<int> _chains = CliOptions.Number("--chains", "AIS: independent chains", 1, int.MaxValue, new AisOptions().Chains);
-    private readonly Option<int> _steps = CliOptions.Number("--steps", "AIS: annealing steps from the base model to the model", 1, int.MaxValue, new AisOptions().Steps);
-    private readonly Option<ulong> _seed = CliOptions.Number("--seed", "AIS: random seed (same seed, same result)", ulong.MinValue, ulong.MaxValue, new AisOptions().Seed);
-    private readonly Option<bool> _json = new("--json") { Description = "Write the result as JSON to standard output instead of text" };
-    private readonly Option<bool> _store = new("--store") { Description = "Also write the result into MODEL's log_partition, replacing MODEL (JSON models only)" };
+    private readonly Option<int> _chains = CliOptions.Number("--chains", "AIS: independent chains", 1, int.MaxValue,
+        new AisOptions().Chains);
+    private readonly Option<int> _steps = CliOptions.Number("--steps",
+        "AIS: annealing steps from the base model to the model", 1, int.MaxValue, new AisOptions().Steps);
+    private readonly Option<ulong> _seed = CliOptions.Number("--seed", "AIS: random seed (same seed, same result)",
+        ulong.MinValue, ulong.MaxValue, new AisOptions().Seed);
+    private readonly Option<bool> _json =
+        new("--json") { Description = "Write the result as JSON to standard output instead of text" };
+    private readonly Option<bool> _store = new("--store")
+    {
+        Description = "Also write the result into MODEL's log_partition, replacing MODEL (JSON models only)",
+    };
 
     /// <summary>Above this many states a progress bar is shown on stderr.</summary>
     public const long ProgressStates = 1L << 20;
@@ -43,7 +52,8 @@ public sealed class LogzCommand : ICliCommand
                 : Exact(ctx, model);
             if (store)
             {
-                ModelJson.WriteFile(model.With(model.Threshold, new LogPartition(logZ, method, stderr)), path, force: true);
+                ModelJson.WriteFile(model.With(model.Threshold, new LogPartition(logZ, method, stderr)), path,
+                    force: true);
                 ctx.Error.WriteLine($"emit: stored log_partition in {path}");
             }
             if (parse.GetValue(_json))
@@ -74,7 +84,9 @@ public sealed class LogzCommand : ICliCommand
     {
         long states = ExactLogPartition.States(model);
         if (states > EstimateStates)
-            ctx.Error.WriteLine($"emit: exact log Z visits {states} states; estimated {ExactLogPartition.EstimateSeconds(model):F0} s on {Environment.ProcessorCount} cores");
+            ctx.Error.WriteLine(
+                $"emit: exact log Z visits {states} states; estimated {ExactLogPartition.EstimateSeconds(model):F0} " +
+                $"s on {Environment.ProcessorCount} cores");
         var r = states > ProgressStates && ctx.ErrorIsConsole && !Console.IsErrorRedirected
             ? WithProgressBar(model, states)
             : ExactLogPartition.Compute(model);
@@ -85,7 +97,8 @@ public sealed class LogzCommand : ICliCommand
     {
         var r = AisLogPartition.Estimate(model, options);
         // "states" for AIS: the chain states visited (chains × steps).
-        return (r.LogPartition, r.Stderr, "ais", (long)r.Chains * r.Steps, r.Seconds, $"{r.Chains} chains × {r.Steps} steps");
+        return (r.LogPartition, r.Stderr, "ais", (long)r.Chains * r.Steps, r.Seconds,
+            $"{r.Chains} chains × {r.Steps} steps");
     }
 
     private static LogPartitionResult WithProgressBar(BoltzmannModel model, long states)

@@ -12,14 +12,26 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class ScoreCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true, HelpName = "DATA" };
+    private readonly Argument<FileInfo> _model =
+        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Option<string> _input = new("--input", "-i")
+    {
+        Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
+        Required = true,
+        HelpName = "DATA",
+    };
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<string?> _output = new("--output", "-o") { Description = "CSV file to write, or - for standard output (the default)", HelpName = "FILE" };
+    private readonly Option<string?> _output = new("--output", "-o")
+    {
+        Description = "CSV file to write, or - for standard output (the default)",
+        HelpName = "FILE",
+    };
 
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("score", "Score vectors with the double-precision reference: free energy, log-probability (when the model has log Z) and the unusual flag (when it has a threshold)")
+        var cmd = new Command("score",
+            "Score vectors with the double-precision reference: free energy, log-probability (when the model has log " +
+            "Z) and the unusual flag (when it has a threshold)")
         {
             _model, _input, _output, _force,
         };
@@ -55,7 +67,9 @@ public sealed class ScoreCommand : ICliCommand
             {
                 // A free energy outside double precision has no meaningful score or decision: an error, not a row.
                 if (!double.IsFinite(f[r]))
-                    throw new EmitException($"vector {index}: the free energy is {(double.IsNaN(f[r]) ? "not a number" : "beyond double precision")}",
+                    throw new EmitException(
+                        $"vector {index}: the free energy is " +
+                        $"{(double.IsNaN(f[r]) ? "not a number" : "beyond double precision")}",
                         "the model's parameters are too large to score; scale them down", reader.Source);
                 line.Clear().Append(index++).Append(',').Append(f[r].ToString("R", fmt));
                 if (logP) line.Append(',').Append(scorer.LogProbability(f[r]).ToString("R", fmt));

@@ -9,51 +9,105 @@ namespace Emit.Cli.Commands;
 
 /// <summary>
 /// <c>emit verify MODEL --input DATA</c>: builds the generated scorer on each target (or checks existing sources with
-/// <c>--generated DIR</c>: first that they are exactly what emit generates from the model with the options and templates
-/// their manifest records), runs it over the vectors and compares every result with the reference scorer. Exit 0 when
-/// every target passes, 1 when one fails, 2 for bad input or a missing toolchain.
+/// <c>--generated DIR</c>: first that they are exactly what emit generates from the model with the options and
+/// templates their manifest records), runs it over the vectors and compares every result with the reference scorer.
+/// Exit 0 when every target passes, 1 when one fails, 2 for bad input or a missing toolchain.
 /// </summary>
 public sealed class VerifyCommand : ICliCommand
 {
     private readonly Argument<FileInfo[]> _model = new Argument<FileInfo[]>("MODEL")
     {
-        Description = "Model file (.json or .npz); several models: generate and check the classifier over them, as compile does",
+        Description = "Model file (.json or .npz); several models: generate and check the classifier over them, " +
+            "as compile does",
         Arity = new ArgumentArity(1, 64),
     }.MustExist();
     private readonly Option<string?> _priors = new("--priors")
     {
         HelpName = "P1,P2,...",
-        Description = "With several models: the classifier's prior weights, comma-separated, in model order (default: equal)",
+        Description = "With several models: the classifier's prior weights, comma-separated, in model order " +
+            "(default: equal)",
     };
-    private readonly Option<string> _input = new("--input", "-i") { Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input", Required = true };
+    private readonly Option<string> _input = new("--input", "-i")
+    {
+        Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
+        Required = true,
+    };
 
     private readonly Option<string[]> _target = CliOptions.ChoiceList(
         "--target", "Where to run the generated code, comma-separated", Runners.All.Select(r => r.Name).ToArray(), "c");
 
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
-        "--numeric", "Arithmetic of the scorer to check (default: as stamped in --generated sources, else f32)", NumericChoices.All);
+        "--numeric", "Arithmetic of the scorer to check (default: as stamped in --generated sources, else f32)",
+        NumericChoices.All);
     private readonly FixedPointOptionSet _fixed = new();
-    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated") { Description = "Check the sources emit compile wrote to this folder instead of generating them", HelpName = "DIR" }.MustExist();
-    private readonly Option<string?> _name = new("--name") { Description = "Scorer name (default: the one scorer in --generated, else from the model file name)" };
-    private readonly Option<bool> _allowModelChange = new("--allow-model-change") { Description = "With --generated: compare the numbers even when the sources were generated from another model (otherwise exit 1 without running them)" };
-    private readonly Option<bool> _failOnDecision = new("--fail-on-decision-mismatch") { Description = "Fail a target on any decision that differs from the reference, even one within the error bound" };
-    private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates") { Description = "With --generated: the templates folder the sources were compiled with, when they used custom templates", HelpName = "DIR" }.MustExist();
+    private readonly Option<DirectoryInfo> _generated = new Option<DirectoryInfo>("--generated")
+    {
+        Description = "Check the sources emit compile wrote to this folder instead of generating them",
+        HelpName = "DIR",
+    }.MustExist();
+    private readonly Option<string?> _name = new("--name")
+    {
+        Description = "Scorer name (default: the one scorer in --generated, else from the model file name)",
+    };
+    private readonly Option<bool> _allowModelChange = new("--allow-model-change")
+    {
+        Description = "With --generated: compare the numbers even when the sources were generated from another model " +
+            "(otherwise exit 1 without running them)",
+    };
+    private readonly Option<bool> _failOnDecision = new("--fail-on-decision-mismatch")
+    {
+        Description = "Fail a target on any decision that differs from the reference, even one within the error bound",
+    };
+    private readonly Option<DirectoryInfo> _templates = new Option<DirectoryInfo>("--templates")
+    {
+        Description = "With --generated: the templates folder the sources were compiled with, when they used custom " +
+            "templates",
+        HelpName = "DIR",
+    }.MustExist();
     private readonly Option<string?> _alarmFilter = AlarmFilterOption.Create(
-        "Also emit and check the K-of-N alarm filter (default: as recorded in --generated sources' manifest, else none)");
+        "Also emit and check the K-of-N alarm filter (default: as recorded in --generated sources' manifest, " +
+        "else none)");
     private readonly Option<bool> _force = CliOptions.Force();
-    private readonly Option<FileInfo?> _report = new("--report") { Description = "Also write the JSON report to this file (see docs/verify-report.md)", HelpName = "FILE" };
-    private readonly Option<FileInfo?> _junit = new("--junit") { Description = "Also write a JUnit XML report to this file, one testcase per target", HelpName = "FILE" };
-    private readonly Option<FileInfo?> _plot = new("--plot") { Description = "Also write a PNG histogram of the errors per target to this file", HelpName = "FILE" };
-    private readonly Option<string?> _cc = new("--cc") { Description = "Host C compiler for target c (default: $CC, else cc)" };
-    private readonly Option<string> _cflags = new("--cflags") { Description = "Extra flags for the host C compile, after the strict ones", DefaultValueFactory = _ => "" };
-    private readonly Option<int> _timeout = CliOptions.Number("--timeout", "Seconds allowed for each build and each run of generated code", 1, 86400, (int)RunnerSettings.DefaultTimeout.TotalSeconds);
-    private readonly Option<DirectoryInfo?> _work = new("--work") { Description = "Build in this folder and keep it (default: a temporary folder, deleted)", HelpName = "DIR" };
+    private readonly Option<FileInfo?> _report = new("--report")
+    {
+        Description = "Also write the JSON report to this file (see docs/verify-report.md)",
+        HelpName = "FILE",
+    };
+    private readonly Option<FileInfo?> _junit = new("--junit")
+    {
+        Description = "Also write a JUnit XML report to this file, one testcase per target",
+        HelpName = "FILE",
+    };
+    private readonly Option<FileInfo?> _plot = new("--plot")
+    {
+        Description = "Also write a PNG histogram of the errors per target to this file",
+        HelpName = "FILE",
+    };
+    private readonly Option<string?> _cc =
+        new("--cc") { Description = "Host C compiler for target c (default: $CC, else cc)" };
+    private readonly Option<string> _cflags = new("--cflags")
+    {
+        Description = "Extra flags for the host C compile, after the strict ones",
+        DefaultValueFactory = _ => "",
+    };
+    private readonly Option<int> _timeout = CliOptions.Number("--timeout",
+        "Seconds allowed for each build and each run of generated code", 1, 86400,
+        (int)RunnerSettings.DefaultTimeout.TotalSeconds);
+    private readonly Option<DirectoryInfo?> _work = new("--work")
+    {
+        Description = "Build in this folder and keep it (default: a temporary folder, deleted)",
+        HelpName = "DIR",
+    };
 
     public Command Build(CliContext ctx)
     {
-        var cmd = new Command("verify", "Run the generated scorer on host C, .NET and an emulated Cortex-M3 and compare it with the reference scorer");
+        var cmd = new Command("verify",
+            "Run the generated scorer on host C, .NET and an emulated Cortex-M3 and compare it with the reference " +
+            "scorer");
         cmd.Arguments.Add(_model);
-        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange, _failOnDecision, _templates, _alarmFilter, _priors, _report, _junit, _plot, _force, _cc, _cflags, _timeout, _work })
+        foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange,
+            _failOnDecision, _templates, _alarmFilter, _priors, _report, _junit, _plot, _force, _cc, _cflags, _timeout,
+            _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.SetAction(parse => Run(ctx, parse));
@@ -66,7 +120,8 @@ public sealed class VerifyCommand : ICliCommand
         var modelPath = modelFiles[0].FullName;
         var priors = ClassifyCommand.ParsePriors(parse.GetValue(_priors));
         if (modelFiles.Length == 1 && priors is not null)
-            throw new EmitException("--priors applies to a classifier (several models)", "give two or more models, or leave --priors out");
+            throw new EmitException("--priors applies to a classifier (several models)",
+                "give two or more models, or leave --priors out");
         bool force = parse.GetValue(_force);
         foreach (var output in new[] { parse.GetValue(_report), parse.GetValue(_junit), parse.GetValue(_plot) })
         {
@@ -75,12 +130,14 @@ public sealed class VerifyCommand : ICliCommand
             AtomicFile.Precheck(output.FullName, force);
         }
         NumericMode? mode = parse.GetValue(_numeric)?.Value;
-        bool fixedGiven = new Option[] { _fixed.Weights, _fixed.Accumulator, _fixed.SoftplusTable }.Any(o => parse.GetResult(o) is { Implicit: false });
+        bool fixedGiven = new Option[] { _fixed.Weights, _fixed.Accumulator, _fixed.SoftplusTable }.Any(
+            o => parse.GetResult(o) is { Implicit: false });
         int timeout = parse.GetValue(_timeout);
         if (parse.GetValue(_generated) is null)
             foreach (var option in new Option[] { _allowModelChange, _templates })
                 if (parse.GetResult(option) is { Implicit: false })
-                    throw new EmitException($"{option.Name} applies to existing sources only", "add --generated DIR, or leave the option out");
+                    throw new EmitException($"{option.Name} applies to existing sources only",
+                        "add --generated DIR, or leave the option out");
         var model = ModelLoader.Load(modelPath);
         var request = new VerifyRequest
         {
@@ -90,7 +147,8 @@ public sealed class VerifyCommand : ICliCommand
             Stdin = ctx.In,
             Targets = parse.GetValue(_target)!,
             Numeric = mode,
-            Fixed = fixedGiven || mode == NumericMode.Fixed && parse.GetValue(_generated) is null ? _fixed.Read(parse) : null,
+            Fixed = fixedGiven || mode == NumericMode.Fixed && parse.GetValue(_generated) is null ? _fixed.Read(parse)
+            : null,
             GeneratedDirectory = parse.GetValue(_generated)?.FullName,
             AlarmFilter = AlarmFilterOption.Read(parse, _alarmFilter),
             MoreModels = modelFiles.Skip(1).Select(f => (ModelLoader.Load(f.FullName), f.Name)).ToArray(),
@@ -99,7 +157,8 @@ public sealed class VerifyCommand : ICliCommand
             AllowModelChange = parse.GetValue(_allowModelChange),
             FailOnDecisionMismatch = parse.GetValue(_failOnDecision),
             TemplatesDirectory = parse.GetValue(_templates)?.FullName,
-            Settings = new RunnerSettings(parse.GetValue(_cc), parse.GetValue(_cflags) ?? "", TimeSpan.FromSeconds(timeout)),
+            Settings = new RunnerSettings(parse.GetValue(_cc), parse.GetValue(_cflags) ?? "",
+                TimeSpan.FromSeconds(timeout)),
             WorkDirectory = parse.GetValue(_work)?.FullName,
         };
         var report = Verifier.Run(request);

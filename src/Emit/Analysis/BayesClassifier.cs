@@ -13,26 +13,33 @@ public sealed class BayesClassifier
     private readonly ReferenceScorer[] _scorers;
     private readonly double[] _offset; // log π_k − log Z_k
 
-    /// <param name="models">The models, at least two, all with the same number of visible units and a stored log Z.</param>
+    /// <param name="models">The models, at least two, all with the same number of visible units and a stored log
+    /// Z.</param>
     /// <param name="labels">A name per model, for messages.</param>
     /// <param name="priors">Prior weights (positive; normalised here), or null for equal priors.</param>
-    public BayesClassifier(IReadOnlyList<BoltzmannModel> models, IReadOnlyList<string> labels, IReadOnlyList<double>? priors = null)
+    public BayesClassifier(IReadOnlyList<BoltzmannModel> models, IReadOnlyList<string> labels,
+        IReadOnlyList<double>? priors = null)
     {
-        if (models.Count < 2) throw new EmitException("Bayes' rule needs at least two models", "give one model per class");
+        if (models.Count < 2)
+            throw new EmitException("Bayes' rule needs at least two models", "give one model per class");
         if (labels.Count != models.Count) throw new ArgumentException("one label per model", nameof(labels));
         for (int k = 1; k < models.Count; k++)
             if (models[k].Visible != models[0].Visible)
-                throw new EmitException($"{labels[k]} has {models[k].Visible} visible units and {labels[0]} has {models[0].Visible}",
+                throw new EmitException(
+                    $"{labels[k]} has {models[k].Visible} visible units and {labels[0]} has {models[0].Visible}",
                     "every model must describe the same status flags", labels[k]);
         for (int k = 0; k < models.Count; k++)
             if (models[k].LogPartition is null)
-                throw new EmitException("the model has no log_partition, so p(v) is unknown", "run emit logz MODEL --store first", labels[k]);
+                throw new EmitException("the model has no log_partition, so p(v) is unknown",
+                    "run emit logz MODEL --store first", labels[k]);
         if (priors is not null)
         {
             if (priors.Count != models.Count)
-                throw new EmitException($"{priors.Count} priors for {models.Count} models", "give one prior per model, in the same order");
+                throw new EmitException($"{priors.Count} priors for {models.Count} models",
+                    "give one prior per model, in the same order");
             if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
-                throw new EmitException("every prior must be a positive finite number", "priors are relative weights, e.g. 0.9,0.1");
+                throw new EmitException("every prior must be a positive finite number",
+                    "priors are relative weights, e.g. 0.9,0.1");
         }
         // log π_k = log w_k − log Σ_m w_m, the sum taken in log space: w = 1e308, 1e308 would overflow a plain Σ.
         var logW = models.Select((_, k) => Math.Log(priors?[k] ?? 1.0)).ToArray();
@@ -78,7 +85,8 @@ public sealed class BayesClassifier
             // An infinite free energy (parameters near DBL_MAX) would make every posterior NaN: refuse it instead.
             if (!double.IsFinite(logNorm))
                 throw new EmitException(
-                    $"vector {firstIndex + r} (index column) has a free energy that is not a finite number under at least one model, so its posteriors are undefined",
+                    $"vector {firstIndex + r} (index column) has a free energy that is not a finite number under at " +
+                    "least one model, so its posteriors are undefined",
                     "the models' parameters are too large for double precision; check them with emit inspect");
             for (int k = 0; k < Classes; k++) row[k] = Math.Exp(row[k] - logNorm);
         }

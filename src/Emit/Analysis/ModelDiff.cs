@@ -17,7 +17,10 @@ public static class ModelDiff
     /// <summary>How many indexes of changed decisions (and unit-name changes) a report lists.</summary>
     public const int Listed = 20;
 
-    /// <summary>Compares <paramref name="oldModel"/> and <paramref name="newModel"/> on every vector of <paramref name="reader"/>.</summary>
+    /// <summary>
+    /// Compares <paramref name="oldModel"/> and <paramref name="newModel"/> on every vector of
+    /// <paramref name="reader"/>.
+    /// </summary>
     public static ModelDiffReport Compare(BoltzmannModel oldModel, BoltzmannModel newModel, VectorReader reader)
     {
         if (oldModel.Visible != newModel.Visible)
@@ -68,15 +71,19 @@ public static class ModelDiff
                 if (changed.Count < Listed) changed.Add(n);
             }
         }
-        if (n == 0) throw new EmitException("the vector file holds no vectors", "give at least one vector", reader.Source);
+        if (n == 0)
+            throw new EmitException("the vector file holds no vectors", "give at least one vector", reader.Source);
         double? correlation = m2Old > 0 && m2New > 0 ? coMoment / Math.Sqrt(m2Old * m2New) : null;
         double? logZDelta = logP ? newModel.LogPartition!.Value - oldModel.LogPartition!.Value : null;
         return new ModelDiffReport(
-            new ModelDiffReport.Side(oldModel.Sha256, oldModel.Kind, oldModel.Visible, oldModel.Hidden, tOld, oldModel.LogPartition?.Value),
-            new ModelDiffReport.Side(newModel.Sha256, newModel.Kind, newModel.Visible, newModel.Hidden, tNew, newModel.LogPartition?.Value),
+            new ModelDiffReport.Side(oldModel.Sha256, oldModel.Kind, oldModel.Visible, oldModel.Hidden, tOld,
+                oldModel.LogPartition?.Value),
+            new ModelDiffReport.Side(newModel.Sha256, newModel.Kind, newModel.Visible, newModel.Hidden, tNew,
+                newModel.LogPartition?.Value),
             renamed, n, sumDelta / n, Math.Sqrt(sumSq / n), maxAbs, maxIndex, correlation,
             // log p = −F − log Z, so Δlog p = −ΔF − Δlog Z and its mean follows from the mean of ΔF.
             logZDelta is { } dz ? -(sumDelta / n) - dz : null,
-            decisions ? new ModelDiffReport.DecisionCounts(bothUsual, bothUnusual, newlyUnusual, noLonger, changed) : null);
+            decisions ? new ModelDiffReport.DecisionCounts(bothUsual, bothUnusual, newlyUnusual, noLonger, changed)
+            : null);
     }
 }

@@ -10,7 +10,8 @@ namespace Emit.Detection;
 public static class AlarmRateSearch
 {
     /// <summary>The threshold, and the filter's run over the log there.</summary>
-    public static (double Threshold, AlarmFilterRun Run) ForTarget(IReadOnlyList<double> log, AlarmFilterSpec filter, double periodSeconds, double alarmsPerDay)
+    public static (double Threshold, AlarmFilterRun Run) ForTarget(IReadOnlyList<double> log, AlarmFilterSpec filter,
+        double periodSeconds, double alarmsPerDay)
     {
         ArgumentNullException.ThrowIfNull(filter);
         if (log.Count == 0) throw new EmitException("the normal log is empty");

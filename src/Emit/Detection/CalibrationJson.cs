@@ -5,6 +5,9 @@ namespace Emit.Detection;
 /// <summary>The calibration as one JSON object (field list in docs/calibrate.md).</summary>
 public static class CalibrationJson
 {
+    /// <summary>
+    /// Writes the calibration report <paramref name="r"/> of the data named in <paramref name="s"/> as JSON.
+    /// </summary>
     public static void Write(Utf8JsonWriter w, CalibrationReport r, CalibrationSource s)
     {
         ArgumentNullException.ThrowIfNull(w);
@@ -63,7 +66,8 @@ public static class CalibrationJson
             Interval(w, "alarms_per_1000_rows_interval", f.PerThousandRowsInterval);
             Nullable(w, "sample_period_seconds", f.SamplePeriodSeconds);
             Nullable(w, "alarms_per_day", f.PerDay);
-            if (f.PerDayInterval is { } pdi) Interval(w, "alarms_per_day_interval", pdi); else w.WriteNull("alarms_per_day_interval");
+            if (f.PerDayInterval is { } pdi)
+                Interval(w, "alarms_per_day_interval", pdi); else w.WriteNull("alarms_per_day_interval");
             Nullable(w, "target_alarms_per_day", f.TargetPerDay);
             w.WriteString("assumption", CalibrationText.IndependenceNote);
             w.WriteEndObject();
@@ -81,7 +85,8 @@ public static class CalibrationJson
                 w.WriteStartObject();
                 w.WriteString("name", e.Names[i]);
                 w.WriteNumber("reports", e.Lengths[i]);
-                if (e.ReportsUntilRaised[i] is { } u) w.WriteNumber("reports_until_raised", u); else w.WriteNull("reports_until_raised");
+                if (e.ReportsUntilRaised[i] is { } u)
+                    w.WriteNumber("reports_until_raised", u); else w.WriteNull("reports_until_raised");
                 w.WriteEndObject();
             }
             w.WriteEndArray();

@@ -11,12 +11,15 @@ namespace Emit.Detection;
 /// </summary>
 public static class CalibrationMetadata
 {
-    /// <summary>A copy of <paramref name="model"/> with the report's threshold and the calibration in its metadata.</summary>
+    /// <summary>
+    /// A copy of <paramref name="model"/> with the report's threshold and the calibration in its metadata.
+    /// </summary>
     /// <param name="model">The model calibrated.</param>
     /// <param name="report">The calibration.</param>
     /// <param name="dataSha256">Lower-case hex SHA-256 of the normal data file's bytes.</param>
     /// <param name="dataName">The normal data file's name (no folder), or null.</param>
-    public static BoltzmannModel Apply(BoltzmannModel model, CalibrationReport report, string dataSha256, string? dataName)
+    public static BoltzmannModel Apply(BoltzmannModel model, CalibrationReport report, string dataSha256,
+        string? dataName)
     {
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(report);
@@ -55,7 +58,8 @@ public static class CalibrationMetadata
             WriteIndented = true,
             Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping,
         }).Replace("\r\n", "\n").Replace("\n", "\n  ");
-        return new BoltzmannModel(model.Kind, model.Visible, model.Hidden, model.VisibleBias, model.HiddenBias, model.Weights,
+        return new BoltzmannModel(model.Kind, model.Visible, model.Hidden, model.VisibleBias, model.HiddenBias,
+            model.Weights,
             model.VisibleLinks, model.HiddenLinks, model.Names, report.Threshold, model.LogPartition, text);
     }
 }

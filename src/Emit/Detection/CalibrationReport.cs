@@ -1,18 +1,26 @@
+using System.Diagnostics.CodeAnalysis;
+
 namespace Emit.Detection;
 
-/// <summary>The result of <see cref="Calibrator.Run"/>: the threshold and everything that says how good it is.</summary>
+/// <summary>
+/// The result of <see cref="Calibrator.Run"/>: the threshold and everything that says how good it is.
+/// </summary>
 public sealed class CalibrationReport
 {
     /// <summary>The threshold; a vector is unusual when F &gt; it.</summary>
     public required double Threshold { get; init; }
 
-    /// <summary>"conformal" (the k-th smallest normal free energy) or "target_alarms_per_day" (searched on the log).</summary>
+    /// <summary>
+    /// "conformal" (the k-th smallest normal free energy) or "target_alarms_per_day" (searched on the log).
+    /// </summary>
     public required string Method { get; init; }
 
     /// <summary>The false-alarm rate A asked for (conformal method), or null.</summary>
     public double? FalseAlarm { get; init; }
 
-    /// <summary>The rank k = ⌈(n + 1)(1 − A)⌉ of the threshold among the normal free energies (conformal method), or null.</summary>
+    /// <summary>
+    /// The rank k = ⌈(n + 1)(1 − A)⌉ of the threshold among the normal free energies (conformal method), or null.
+    /// </summary>
     public long? Rank { get; init; }
 
     /// <summary>n: normal vectors calibrated on.</summary>
@@ -24,7 +32,9 @@ public sealed class CalibrationReport
     /// <summary>Flagged / NormalVectors.</summary>
     public double FalseAlarmRate => Flagged / (double)NormalVectors;
 
-    /// <summary>The exact (Clopper–Pearson) interval of the true false-alarm rate, from Flagged of NormalVectors.</summary>
+    /// <summary>
+    /// The exact (Clopper–Pearson) interval of the true false-alarm rate, from Flagged of NormalVectors.
+    /// </summary>
     public required RateInterval FalseAlarmInterval { get; init; }
 
     /// <summary>Warnings about the data (e.g. n·A &lt; 10); empty when there are none.</summary>
@@ -49,5 +59,6 @@ public sealed class CalibrationReport
     public IReadOnlyList<double>? AnomalyEnergies { get; init; }
 
     /// <summary>The caution that goes with every calibration.</summary>
+    [SuppressMessage("Performance", "CA1822", Justification = "part of the report, read beside its other facts")]
     public string Caution => DetectionCaution.Text;
 }

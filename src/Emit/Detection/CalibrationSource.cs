@@ -6,4 +6,5 @@ namespace Emit.Detection;
 /// <param name="NormalName">The normal data file's name.</param>
 /// <param name="NormalSha256">SHA-256 of the normal data file's bytes.</param>
 /// <param name="AnomaliesName">The anomaly data file's name, or null.</param>
-public sealed record CalibrationSource(string ModelName, string CalibratedSha256, string NormalName, string NormalSha256, string? AnomaliesName);
+public sealed record CalibrationSource(string ModelName, string CalibratedSha256, string NormalName,
+    string NormalSha256, string? AnomaliesName);

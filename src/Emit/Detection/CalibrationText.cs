@@ -7,31 +7,48 @@ public static class CalibrationText
 {
     /// <summary>What the interval of a filtered alarm rate rests on, and where it fails.</summary>
     public const string IndependenceNote =
-        "the interval treats each row as an independent chance of raising an alarm; rows of a real log are correlated " +
+        "the interval treats each row as an independent chance of raising an alarm; rows of a real log are " +
+        "correlated " +
         "(faults and transients last several reports), so the true uncertainty is larger than stated";
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
+    /// <summary>
+    /// Writes the calibration report <paramref name="r"/> of the data named in <paramref name="s"/> as text.
+    /// </summary>
     public static void Write(TextWriter o, CalibrationReport r, CalibrationSource s)
     {
         ArgumentNullException.ThrowIfNull(o);
         ArgumentNullException.ThrowIfNull(r);
         ArgumentNullException.ThrowIfNull(s);
-        o.WriteLine($"emit calibrate {s.ModelName}: {r.NormalVectors} normal vectors from {s.NormalName} (reference scorer, double precision)");
+        o.WriteLine(
+            $"emit calibrate {s.ModelName}: {r.NormalVectors} normal vectors from {s.NormalName} (reference scorer, " +
+            "double precision)");
         if (r.Method == "conformal")
-            o.WriteLine($"  method              conformal: the k-th smallest normal free energy, k = ceil((n+1)(1-A)) = {r.Rank} for A = {R(r.FalseAlarm!.Value)}");
+            o.WriteLine(
+                "  method              conformal: the k-th smallest normal free energy, k = ceil((n+1)(1-A)) = " +
+                $"{r.Rank} for A = {R(r.FalseAlarm!.Value)}");
         else
-            o.WriteLine($"  method              searched so that the {r.Filter!.Filter} filter raises at most {R(r.Filter.TargetPerDay!.Value)} alarms per day on the normal log");
+            o.WriteLine(
+                $"  method              searched so that the {r.Filter!.Filter} filter raises at most " +
+                $"{R(r.Filter.TargetPerDay!.Value)} alarms per day on the normal log");
         o.WriteLine($"  threshold           {R(r.Threshold)} (a vector is unusual when F(v) > threshold)");
         o.WriteLine($"  flagged             {r.Flagged} of {r.NormalVectors} normal vectors ({Pct(r.FalseAlarmRate)})");
-        o.WriteLine($"  false-alarm rate    {Pct(r.FalseAlarmRate)}, exact {Conf(r.FalseAlarmInterval)} interval [{Pct(r.FalseAlarmInterval.Low)}, {Pct(r.FalseAlarmInterval.High)}] (Clopper-Pearson)");
+        o.WriteLine(
+            $"  false-alarm rate    {Pct(r.FalseAlarmRate)}, exact {Conf(r.FalseAlarmInterval)} interval " +
+            $"[{Pct(r.FalseAlarmInterval.Low)}, {Pct(r.FalseAlarmInterval.High)}] (Clopper-Pearson)");
         if (r.Method == "conformal")
-            o.WriteLine($"                      guarantee: a new normal vector exchangeable with these exceeds the threshold with probability <= A = {R(r.FalseAlarm!.Value)}");
+            o.WriteLine(
+                "                      guarantee: a new normal vector exchangeable with these exceeds the threshold " +
+                $"with probability <= A = {R(r.FalseAlarm!.Value)}");
         foreach (var w in r.Warnings) o.WriteLine("  warning: " + w);
         if (r.Anomalies is { } a)
         {
-            o.WriteLine($"  anomalies           {a.Detected} of {a.Vectors} vectors in {s.AnomaliesName} detected ({Pct(a.DetectionRate)}, " +
-                        $"exact {Conf(a.DetectionInterval)} interval [{Pct(a.DetectionInterval.Low)}, {Pct(a.DetectionInterval.High)}])");
+            o.WriteLine(
+                $"  anomalies           {a.Detected} of {a.Vectors} vectors in {s.AnomaliesName} detected " +
+                $"({Pct(a.DetectionRate)}, " +
+                        $"exact {Conf(a.DetectionInterval)} interval [{Pct(a.DetectionInterval.Low)}, " +
+                        $"{Pct(a.DetectionInterval.High)}])");
             o.WriteLine($"  ROC AUC             {a.RocAuc.ToString("0.0000", Inv)} (ties counted half)");
         }
         o.WriteLine("  conformal thresholds at standard rates:");
@@ -54,10 +71,17 @@ public static class CalibrationText
         {
             var run = f.Run;
             o.WriteLine($"  alarm filter {f.Filter} over {s.NormalName} as one time-ordered log of {run.Rows} rows:");
-            o.WriteLine($"                      {run.Unusual} unusual rows, the alarm raised {run.Raised} times, on at {run.RowsInAlarm} rows");
-            o.WriteLine($"                      {G(f.PerThousandRows)} alarms per 1000 rows, exact {Conf(f.PerThousandRowsInterval)} interval [{G(f.PerThousandRowsInterval.Low)}, {G(f.PerThousandRowsInterval.High)}]");
+            o.WriteLine(
+                $"                      {run.Unusual} unusual rows, the alarm raised {run.Raised} times, on at " +
+                $"{run.RowsInAlarm} rows");
+            o.WriteLine(
+                $"                      {G(f.PerThousandRows)} alarms per 1000 rows, exact " +
+                $"{Conf(f.PerThousandRowsInterval)} interval [{G(f.PerThousandRowsInterval.Low)}, " +
+                $"{G(f.PerThousandRowsInterval.High)}]");
             if (f.PerDay is { } pd && f.PerDayInterval is { } pdi)
-                o.WriteLine($"                      {G(pd)} alarms per day at one row every {G(f.SamplePeriodSeconds!.Value)} s, exact {Conf(pdi)} interval [{G(pdi.Low)}, {G(pdi.High)}]");
+                o.WriteLine(
+                    $"                      {G(pd)} alarms per day at one row every " +
+                    $"{G(f.SamplePeriodSeconds!.Value)} s, exact {Conf(pdi)} interval [{G(pdi.Low)}, {G(pdi.High)}]");
             o.WriteLine("                      note: " + IndependenceNote);
         }
         if (r.Episodes is { } e)

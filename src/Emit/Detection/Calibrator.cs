@@ -21,12 +21,15 @@ public static class Calibrator
     /// <summary>The false-alarm rates of the rate table.</summary>
     public static readonly IReadOnlyList<double> TableRates = [0.1, 0.01, 0.001];
 
-    /// <summary>Below this many expected false alarms in the calibration set (n·A) the threshold is flagged as resting on few values.</summary>
+    /// <summary>
+    /// Below this many expected false alarms in the calibration set (n·A) the threshold is flagged as resting on few
+    /// values.
+    /// </summary>
     public const double FewExpectedAlarms = 10;
 
     /// <summary>
-    /// Calibrates <paramref name="model"/> (file name <paramref name="modelName"/>) on free energies it gave, and builds
-    /// the calibrated model and the report's sources: the one call a program needs.
+    /// Calibrates <paramref name="model"/> (file name <paramref name="modelName"/>) on free energies it gave, and
+    /// builds the calibrated model and the report's sources: the one call a program needs.
     /// </summary>
     public static CalibrationOutcome Calibrate(BoltzmannModel model, string modelName, CalibrationRequest request,
         string normalName, string normalSha256, string? anomaliesName = null)
@@ -34,7 +37,8 @@ public static class Calibrator
         ArgumentNullException.ThrowIfNull(model);
         var report = Run(request);
         var calibrated = CalibrationMetadata.Apply(model, report, normalSha256, normalName);
-        return new CalibrationOutcome(report, calibrated, new CalibrationSource(modelName, calibrated.Sha256, normalName, normalSha256, anomaliesName));
+        return new CalibrationOutcome(report, calibrated,
+            new CalibrationSource(modelName, calibrated.Sha256, normalName, normalSha256, anomaliesName));
     }
 
     /// <summary>Calibrates and reports.</summary>
@@ -59,9 +63,11 @@ public static class Calibrator
         if (request.TargetAlarmsPerDay is { } target)
         {
             if (request.FalseAlarm is not null)
-                throw new EmitException("both a false-alarm rate and a target of alarms per day were given", "give one: the threshold comes from either");
+                throw new EmitException("both a false-alarm rate and a target of alarms per day were given",
+                    "give one: the threshold comes from either");
             if (request.Filter is null || request.SamplePeriodSeconds is null)
-                throw new EmitException("a target of alarms per day needs an alarm filter and a sample period", "give both, e.g. an alarm filter 3/5 and a sample period 5m");
+                throw new EmitException("a target of alarms per day needs an alarm filter and a sample period",
+                    "give both, e.g. an alarm filter 3/5 and a sample period 5m");
             var (t, run) = AlarmRateSearch.ForTarget(normal, request.Filter, request.SamplePeriodSeconds.Value, target);
             threshold = t;
             method = "target_alarms_per_day";
@@ -69,13 +75,19 @@ public static class Calibrator
         }
         else
         {
-            double a = request.FalseAlarm ?? throw new EmitException("no false-alarm rate was given", "give the rate of false alarms to allow, e.g. 0.01");
+            double a = request.FalseAlarm
+                ?? throw new EmitException("no false-alarm rate was given",
+                    "give the rate of false alarms to allow, e.g. 0.01");
             rank = ConformalThreshold.Rank(normal.Count, a);
             threshold = sorted[rank.Value - 1];
             method = "conformal";
             if (normal.Count * a < FewExpectedAlarms)
-                warnings.Add($"n·A = {normal.Count} × {ConformalThreshold.Text(a)} = {(normal.Count * a).ToString("0.##", System.Globalization.CultureInfo.InvariantCulture)} < {FewExpectedAlarms}: " +
-                             "the threshold rests on the few largest normal free energies and moves a lot from one calibration set to another; give more normal data");
+                warnings.Add(
+                    $"n·A = {normal.Count} × {ConformalThreshold.Text(a)} = " +
+                    $"{(normal.Count * a).ToString("0.##", System.Globalization.CultureInfo.InvariantCulture)} < " +
+                    $"{FewExpectedAlarms}: " +
+                             "the threshold rests on the few largest normal free energies and moves a lot from one " +
+                             "calibration set to another; give more normal data");
             if (spec is not null)
                 filter = Filtered(request, spec, AlarmFilter.Run(normal, threshold, spec), null);
         }
@@ -107,7 +119,8 @@ public static class Calibrator
             var names = request.EpisodeNames ?? eps.Select((_, i) => "episode " + (i + 1)).ToList();
             var until = eps.Select(e => AlarmFilter.ReportsUntilRaised(e, threshold, f)).ToList();
             var raised = until.Where(u => u is not null).Select(u => (double)u!.Value).ToList();
-            episodes = new EpisodeResult(f, names, eps.Select(e => e.Count).ToList(), until, raised.Count > 0 ? raised.Average() : null);
+            episodes = new EpisodeResult(f, names, eps.Select(e => e.Count).ToList(), until,
+                raised.Count > 0 ? raised.Average() : null);
         }
 
         return new CalibrationReport
@@ -129,7 +142,8 @@ public static class Calibrator
         };
     }
 
-    private static FilterResult Filtered(CalibrationRequest request, AlarmFilterSpec spec, AlarmFilterRun run, double? target)
+    private static FilterResult Filtered(CalibrationRequest request, AlarmFilterSpec spec, AlarmFilterRun run,
+        double? target)
     {
         var perRow = ClopperPearson.Interval(run.Raised, run.Rows, request.Confidence);
         double rate = run.Raised / (double)run.Rows;
@@ -141,7 +155,8 @@ public static class Calibrator
             perDay = rate * rowsPerDay;
             perDayInterval = perRow.Scale(rowsPerDay);
         }
-        return new FilterResult(spec, run, rate * 1000, perRow.Scale(1000), request.SamplePeriodSeconds, perDay, perDayInterval, target);
+        return new FilterResult(spec, run, rate * 1000, perRow.Scale(1000), request.SamplePeriodSeconds, perDay,
+            perDayInterval, target);
     }
 
     /// <summary>The number of values ≤ x in an ascending array.</summary>
@@ -159,6 +174,7 @@ public static class Calibrator
     private static void CheckFinite(IReadOnlyList<double> xs, string what)
     {
         for (int k = 0; k < xs.Count; k++)
-            if (!double.IsFinite(xs[k])) throw new EmitException($"the free energy of {what} vector {k} is not a finite number");
+            if (!double.IsFinite(xs[k]))
+                throw new EmitException($"the free energy of {what} vector {k} is not a finite number");
     }
 }

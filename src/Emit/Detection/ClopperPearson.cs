@@ -17,8 +17,10 @@ public static class ClopperPearson
     public static RateInterval Interval(long successes, long trials, double confidence = DefaultConfidence)
     {
         if (trials < 1) throw new EmitException("a rate needs at least one trial");
-        if (successes < 0 || successes > trials) throw new EmitException($"{successes} successes out of {trials} trials is impossible");
-        if (!(confidence > 0 && confidence < 1)) throw new EmitException($"confidence {confidence} is not between 0 and 1");
+        if (successes < 0 || successes > trials)
+            throw new EmitException($"{successes} successes out of {trials} trials is impossible");
+        if (!(confidence > 0 && confidence < 1))
+            throw new EmitException($"confidence {confidence} is not between 0 and 1");
         double alpha = 1 - confidence;
         double x = successes, n = trials;
         double low = successes == 0 ? 0 : Quantile(x, n - x + 1, alpha / 2);

@@ -17,8 +17,10 @@ public static class ConformalThreshold
         long k = (n + 1) - (long)decimal.Floor((n + 1) * a);
         if (k > n)
             throw new EmitException(
-                $"{n} normal vectors are too few for a false-alarm rate of {Text(falseAlarm)}: the threshold would be the {k}-th smallest free energy",
-                $"a false-alarm rate of {Text(falseAlarm)} needs at least {MinimumVectors(falseAlarm)} normal vectors; give more data or a larger rate");
+                $"{n} normal vectors are too few for a false-alarm rate of {Text(falseAlarm)}: the threshold would " +
+                $"be the {k}-th smallest free energy",
+                $"a false-alarm rate of {Text(falseAlarm)} needs at least {MinimumVectors(falseAlarm)} normal " +
+                "vectors; give more data or a larger rate");
         return k;
     }
 
@@ -41,15 +43,20 @@ public static class ConformalThreshold
         return sorted[k - 1];
     }
 
-    /// <summary>As <see cref="Threshold(IReadOnlyList{double}, double)"/> on energies already sorted ascending.</summary>
-    public static double ThresholdOfSorted(IReadOnlyList<double> sorted, double falseAlarm) => sorted[(int)(Rank(sorted.Count, falseAlarm) - 1)];
+    /// <summary>
+    /// As <see cref="Threshold(IReadOnlyList{double}, double)"/> on energies already sorted ascending.
+    /// </summary>
+    public static double ThresholdOfSorted(IReadOnlyList<double> sorted, double falseAlarm) =>
+        sorted[(int)(Rank(sorted.Count, falseAlarm) - 1)];
 
     private static decimal CheckRate(double falseAlarm)
     {
         if (!(falseAlarm > 0 && falseAlarm < 1) || !double.IsFinite(falseAlarm))
-            throw new EmitException($"false-alarm rate {Text(falseAlarm)} is not between 0 and 1", "give a rate like 0.01 (one in a hundred normal reports)");
+            throw new EmitException($"false-alarm rate {Text(falseAlarm)} is not between 0 and 1",
+                "give a rate like 0.01 (one in a hundred normal reports)");
         if (falseAlarm < 1e-12)
-            throw new EmitException($"false-alarm rate {Text(falseAlarm)} is too small to calibrate from data", "use a rate of at least 1e-12");
+            throw new EmitException($"false-alarm rate {Text(falseAlarm)} is too small to calibrate from data",
+                "use a rate of at least 1e-12");
         return (decimal)falseAlarm;
     }
 

@@ -10,7 +10,9 @@ public static class EnergyLog
 {
     private const int BatchRows = 4096;
 
-    /// <summary>Reads <paramref name="reader"/> to the end and scores each vector with <paramref name="model"/>.</summary>
+    /// <summary>
+    /// Reads <paramref name="reader"/> to the end and scores each vector with <paramref name="model"/>.
+    /// </summary>
     public static double[] Score(BoltzmannModel model, VectorReader reader)
     {
         ArgumentNullException.ThrowIfNull(model);
@@ -40,8 +42,12 @@ public static class EnergyLog
         return Score(model, reader);
     }
 
-    /// <summary>As <see cref="ScoreFile"/>, with the lower-case hex SHA-256 of the file's bytes (standard input is read into memory).</summary>
-    public static (double[] Energies, string Sha256) ScoreFileHashed(BoltzmannModel model, string path, Stream? stdin = null)
+    /// <summary>
+    /// As <see cref="ScoreFile"/>, with the lower-case hex SHA-256 of the file's bytes (standard input is read into
+    /// memory).
+    /// </summary>
+    public static (double[] Energies, string Sha256) ScoreFileHashed(BoltzmannModel model, string path,
+        Stream? stdin = null)
     {
         ArgumentNullException.ThrowIfNull(model);
         if (path == VectorReader.StdinPath)
@@ -64,5 +70,6 @@ public static class EnergyLog
     }
 
     /// <summary>The name a data path has in reports: the file name, or <c>stdin</c>.</summary>
-    public static string DisplayName(string path) => path == VectorReader.StdinPath ? VectorReader.StdinName : Path.GetFileName(path);
+    public static string DisplayName(string path) =>
+        path == VectorReader.StdinPath ? VectorReader.StdinName : Path.GetFileName(path);
 }

@@ -4,8 +4,10 @@ namespace Emit.Detection;
 /// <param name="Filter">The filter (1/1 when none was given).</param>
 /// <param name="Names">A name per episode.</param>
 /// <param name="Lengths">Reports per episode.</param>
-/// <param name="ReportsUntilRaised">Per episode, the reports up to and including the one that raised the alarm, or null when it was never raised.</param>
-/// <param name="MeanReportsUntilRaised">The mean over the episodes where the alarm was raised, or null when it never was.</param>
+/// <param name="ReportsUntilRaised">Per episode, the reports up to and including the one that raised the alarm, or null
+/// when it was never raised.</param>
+/// <param name="MeanReportsUntilRaised">The mean over the episodes where the alarm was raised, or null when it never
+/// was.</param>
 public sealed record EpisodeResult(
     AlarmFilterSpec Filter,
     IReadOnlyList<string> Names,

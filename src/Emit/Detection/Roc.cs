@@ -60,7 +60,9 @@ public static class Roc
 
     private static void Check(IReadOnlyList<double> normal, IReadOnlyList<double> anomalies)
     {
-        if (normal.Count == 0 || anomalies.Count == 0) throw new EmitException("a ROC curve needs normal and anomalous vectors");
-        if (normal.Any(x => !double.IsFinite(x)) || anomalies.Any(x => !double.IsFinite(x))) throw new EmitException("a free energy is not a finite number");
+        if (normal.Count == 0 || anomalies.Count == 0)
+            throw new EmitException("a ROC curve needs normal and anomalous vectors");
+        if (normal.Any(x => !double.IsFinite(x)) || anomalies.Any(x => !double.IsFinite(x)))
+            throw new EmitException("a free energy is not a finite number");
     }
 }

@@ -16,17 +16,20 @@ public static class SamplePeriod
     {
         ArgumentNullException.ThrowIfNull(text);
         var t = text.Trim();
-        (string Suffix, double Seconds)[] units = [("ms", 0.001), ("s", 1), ("m", 60), ("h", 3600), ("d", SecondsPerDay)];
+        (string Suffix, double Seconds)[] units = [("ms", 0.001), ("s", 1), ("m", 60), ("h", 3600),
+            ("d", SecondsPerDay)];
         foreach (var (suffix, seconds) in units)
         {
             if (!t.EndsWith(suffix, StringComparison.Ordinal)) continue;
             var number = t[..^suffix.Length].TrimEnd();
             if (number.EndsWith('m')) continue; // "5ms" also ends in "s"; the "ms" entry comes first
-            if (double.TryParse(number, NumberStyles.AllowDecimalPoint, CultureInfo.InvariantCulture, out double x) && x > 0 && double.IsFinite(x * seconds))
+            if (double.TryParse(number, NumberStyles.AllowDecimalPoint, CultureInfo.InvariantCulture, out double x)
+                && x > 0 && double.IsFinite(x * seconds))
                 return x * seconds;
             break;
         }
-        throw new EmitException($"sample period \"{text}\" is not a duration", "write a positive number and a unit: 250ms, 30s, 5m, 1h or 1d");
+        throw new EmitException($"sample period \"{text}\" is not a duration",
+            "write a positive number and a unit: 250ms, 30s, 5m, 1h or 1d");
     }
 
     /// <summary>Rows per day at a period of <paramref name="seconds"/>.</summary>

@@ -11,7 +11,8 @@ namespace Emit.Detection;
 /// <item>rbm and lateral: ΔF_i = −s (b_i + Σ_{k≠i} L_ik v_k) − Σ_j [softplus(a_j + s W_ij) − softplus(a_j)],
 /// O(hidden + links of i) per unit after one O(visible · hidden) pass for a.</item>
 /// <item>general: the visible part as above; the hidden part is the exact log-sum over all 2^hidden hidden states
-/// with fields a + s W_i, O(2^hidden · hidden) per unit (hidden ≤ <see cref="ReferenceScorer.MaxGeneralHidden"/>).</item>
+/// with fields a + s W_i, O(2^hidden · hidden) per unit (hidden ≤
+/// <see cref="ReferenceScorer.MaxGeneralHidden"/>).</item>
 /// </list>
 /// Thread-safe.
 /// </summary>
@@ -22,6 +23,7 @@ public sealed class UnitFlipExplainer
     private readonly (int Other, double W)[][] _neighbours;
     private readonly double[]? _hiddenPairs;
 
+    /// <summary>An explainer for <paramref name="model"/> (its hidden layer summed out once per call).</summary>
     public UnitFlipExplainer(BoltzmannModel model)
     {
         ArgumentNullException.ThrowIfNull(model);
@@ -49,6 +51,7 @@ public sealed class UnitFlipExplainer
         }
     }
 
+    /// <summary>The model explained.</summary>
     public BoltzmannModel Model => _model;
 
     /// <summary>ΔF_i for every visible unit of <paramref name="units"/> (one byte per unit, nonzero = on).</summary>
@@ -85,13 +88,17 @@ public sealed class UnitFlipExplainer
         return deltas;
     }
 
-    /// <summary>The <paramref name="top"/> units with the most negative ΔF, most negative first (ties: lower unit first).</summary>
+    /// <summary>
+    /// The <paramref name="top"/> units with the most negative ΔF, most negative first (ties: lower unit first).
+    /// </summary>
     public IReadOnlyList<UnitFlip> Top(ReadOnlySpan<byte> units, int top)
     {
         if (top < 1) throw new EmitException($"top = {top} is less than 1");
         var d = Deltas(units);
-        return Enumerable.Range(0, d.Length).OrderBy(i => d[i]).ThenBy(i => i).Take(top).Select(i => new UnitFlip(i, d[i])).ToList();
+        return Enumerable.Range(0, d.Length).OrderBy(i => d[i]).ThenBy(i => i).Take(top)
+            .Select(i => new UnitFlip(i, d[i])).ToList();
     }
 
-    private double HiddenLogSum(double[] fields) => new GrayCodeSum((double[])fields.Clone(), _hiddenPairs, [], []).LogSumExp(parallel: false);
+    private double HiddenLogSum(double[] fields) =>
+        new GrayCodeSum((double[])fields.Clone(), _hiddenPairs, [], []).LogSumExp(parallel: false);
 }

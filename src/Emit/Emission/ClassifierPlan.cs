@@ -8,7 +8,8 @@ namespace Emit.Emission;
 /// A classifier over several models of the same units (<c>emit compile MODEL1 MODEL2 ... --name NAME</c>): one scorer
 /// per model (<see cref="Models"/>, named <c>NAME_1</c>, <c>NAME_2</c>, ...) and the constants that turn their free
 /// energies into scores[k] = −F_k(v) − log Z_k + log π_k (π normalised to sum to 1): the log of the joint
-/// probability of class k and input v, whose argmax is Bayes' choice. In fixed mode every model has the same energy format and the
+/// probability of class k and input v, whose argmax is Bayes' choice. In fixed mode every model has the same energy
+/// format and the
 /// constants are integers of it; <see cref="ScoreBound"/> bounds |score − exact score| (docs/fixed-point.md §8).
 /// </summary>
 public sealed class ClassifierPlan

@@ -25,8 +25,11 @@ public sealed record CompileOptions(
     /// <summary>The fixed-point options in effect (the defaults when none were given).</summary>
     public FixedPointOptions FixedOptions => Fixed ?? new FixedPointOptions();
 
+    /// <summary>Namespace of generated C# when none is given.</summary>
     public const string DefaultNamespace = "Emit.Generated";
+    /// <summary>Self-test vectors compiled into the scorer when no count is given.</summary>
     public const int DefaultSelfTestVectors = 8;
+    /// <summary>The most self-test vectors allowed (each is a table row in flash).</summary>
     public const int MaxSelfTestVectors = 4096;
 
     /// <summary>
@@ -39,9 +42,11 @@ public sealed record CompileOptions(
         if (Numeric == NumericMode.Fixed)
         {
             var f = FixedOptions;
-            text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+            text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} " +
+                $"--softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
             if (f.EnergyFractionBitsLimit is { } limit)
-                text += $" --energy-fraction-bits-limit {limit.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+                text += " --energy-fraction-bits-limit " +
+                        limit.ToString(System.Globalization.CultureInfo.InvariantCulture);
         }
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";

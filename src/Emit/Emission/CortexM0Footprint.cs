@@ -17,10 +17,16 @@ namespace Emit.Emission;
 /// </summary>
 public static class CortexM0Footprint
 {
-    /// <summary>Stack allowed for library helpers (the deepest of them pushes five registers, 20 bytes, and may call one more that pushes two).</summary>
+    /// <summary>
+    /// Stack allowed for library helpers (the deepest of them pushes five registers, 20 bytes, and may call one more
+    /// that pushes two).
+    /// </summary>
     public const int LibraryStackAllowance = 32;
 
-    /// <summary>Predicts the footprint of <c>emit compile --numeric fixed</c> output with <paramref name="selfTestVectors"/> embedded inputs.</summary>
+    /// <summary>
+    /// Predicts the footprint of <c>emit compile --numeric fixed</c> output with <paramref name="selfTestVectors"/>
+    /// embedded inputs.
+    /// </summary>
     public static Footprint Predict(FixedPointPlan plan, int selfTestVectors = CompileOptions.DefaultSelfTestVectors,
         OptimizeFor optimize = OptimizeFor.Speed)
     {
@@ -61,10 +67,14 @@ public static class CortexM0Footprint
         int frame = h == 0 ? (links > 0 ? (wide ? 96 : 56) : 24)
             : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? (pairs ? 192 : 144) : 64) + (pairs ? 16 : 0);
         int caller = Math.Max((packed + 7) / 8 * 8 + 32, 24);
-        return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
+        return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance,
+            LibraryStackAllowance);
     }
 
-    /// <summary>Bytes of a table of <paramref name="count"/> elements of <paramref name="size"/> bytes, rounded up to a word (8 bytes for 64-bit elements).</summary>
+    /// <summary>
+    /// Bytes of a table of <paramref name="count"/> elements of <paramref name="size"/> bytes, rounded up to a word (8
+    /// bytes for 64-bit elements).
+    /// </summary>
     private static long Table(long count, int size)
     {
         int align = size == 8 ? 8 : 4;

@@ -14,15 +14,20 @@ namespace Emit.Emission;
 /// </summary>
 public static class CortexM4FFootprint
 {
-    /// <summary>Stack allowed for the library functions the float scorer calls (expf/logf, or the soft-double routines).</summary>
+    /// <summary>
+    /// Stack allowed for the library functions the float scorer calls (expf/logf, or the soft-double routines).
+    /// </summary>
     public const int LibraryStackAllowance = 96;
 
-    /// <summary>Predicts the footprint of <c>emit compile --numeric f32|f64</c> C output for <paramref name="plan"/>.</summary>
+    /// <summary>
+    /// Predicts the footprint of <c>emit compile --numeric f32|f64</c> C output for <paramref name="plan"/>.
+    /// </summary>
     public static Footprint Predict(FloatScorerPlan plan)
     {
         bool f64 = plan.Mode == NumericMode.F64;
         int e = f64 ? 8 : 4;
-        int v = plan.Visible, h = plan.Hidden, links = plan.LinkCount, packed = plan.PackedBytes, s = plan.SelfTest.Count;
+        int v = plan.Visible, h = plan.Hidden, links = plan.LinkCount, packed = plan.PackedBytes,
+            s = plan.SelfTest.Count;
         long tables = Table(v, e) + Table((long)s * packed, 1) + 2 * Table(s, e);
         if (h > 0)
         {
@@ -48,12 +53,14 @@ public static class CortexM4FFootprint
         int frame = (h == 0 ? 0 : h * e) + (plan.IsGeneral ? 2 * (h + 1) * e + 2 * plan.GrayBlockBits * e + 16 : 0)
                     + (f64 ? FrameF64 : FrameF32);
         int caller = (packed + 7) / 8 * 8 + 16;
-        return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance, LibraryStackAllowance);
+        return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance,
+            LibraryStackAllowance);
     }
 
     // Code and frame bytes measured with Debian's arm-none-eabi-gcc 12.2 on the codegen cases of the tests and the demo
     // model (CortexM4FTests prints the table; docs/generated-code.md, "Costs in the float modes").
-    private const int NoHiddenF32 = 230, NoHiddenF64 = 260, RbmF32 = 430, RbmF64 = 550, GeneralF32 = 930, GeneralF64 = 1100;
+    private const int NoHiddenF32 = 230, NoHiddenF64 = 260, RbmF32 = 430, RbmF64 = 550, GeneralF32 = 930,
+        GeneralF64 = 1100;
     private const int FrameF32 = 80, FrameF64 = 128;
 
     private static long Table(long count, int size)

@@ -23,9 +23,13 @@ public sealed class FixedScorerPlan : ScorerPlan
     /// <summary>The quantization plan the scorer executes.</summary>
     public FixedPointPlan Fixed { get; }
 
+    /// <summary>Width of the integer accumulator.</summary>
     public AccumulatorType Accumulator => Fixed.Accumulator;
+    /// <summary>Width of the stored weights.</summary>
     public WeightType WeightType => Fixed.WeightType;
+    /// <summary>Bits of the accumulator (32 or 64).</summary>
     public int AccumulatorBits => Fixed.Accumulator.Bits();
+    /// <summary>Bits of a stored weight (8, 16 or 32).</summary>
     public int WeightBits => Fixed.WeightType.Bits();
 
     /// <summary>E: fraction bits of the energy; real free energy = value / 2^E.</summary>
@@ -46,14 +50,18 @@ public sealed class FixedScorerPlan : ScorerPlan
     /// <summary>The common f_j when every hidden unit has the same (the scorer then needs no per-unit table).</summary>
     public int? UniformFractionBits { get; private set; }
 
-    /// <summary>Quantized lateral weights in the order of <see cref="ScorerPlan.LinkOther"/> (format <see cref="FixedPointPlan.LateralFormat"/>).</summary>
+    /// <summary>
+    /// Quantized lateral weights in the order of <see cref="ScorerPlan.LinkOther"/> (format
+    /// <see cref="FixedPointPlan.LateralFormat"/>).
+    /// </summary>
     public ImmutableArray<long> LinkWeight { get; private set; }
 
     /// <summary>general: M in format E as a full symmetric H×H matrix with zero diagonal; empty otherwise.</summary>
     public ImmutableArray<long> HiddenPairs { get; private set; }
 
     /// <inheritdoc/>
-    public override int RowsPerAddition => Options.Optimize == OptimizeFor.Speed && WeightBits < AccumulatorBits ? 4 : 1;
+    public override int RowsPerAddition =>
+        Options.Optimize == OptimizeFor.Speed && WeightBits < AccumulatorBits ? 4 : 1;
 
     /// <summary>
     /// The threshold in energy units: floor(t · 2^E), so for every integer f, f &gt; this exactly when f / 2^E &gt; t;
@@ -82,27 +90,36 @@ public sealed class FixedScorerPlan : ScorerPlan
     /// <summary>The range check of an intermediate by name (see docs/fixed-point.md §5).</summary>
     public RangeCheck Check(string name) => Fixed.Checks.First(c => c.Name == name);
 
-    /// <summary>The hull of a per-hidden-unit check over all units ("accumulator" → every "hidden[j].accumulator").</summary>
+    /// <summary>
+    /// The hull of a per-hidden-unit check over all units ("accumulator" → every "hidden[j].accumulator").
+    /// </summary>
     public IntRange? UnitCheckHull(string name)
     {
         IntRange? hull = null;
         foreach (var c in Fixed.Checks)
         {
-            if (!c.Name.StartsWith("hidden[", StringComparison.Ordinal) || !c.Name.EndsWith("]." + name, StringComparison.Ordinal)) continue;
+            if (!c.Name.StartsWith("hidden[", StringComparison.Ordinal)
+                || !c.Name.EndsWith("]." + name, StringComparison.Ordinal)) continue;
             hull = hull is { } h ? h.Hull(c.Range) : c.Range;
         }
         return hull;
     }
 
     /// <summary>A named check's range, or null when the plan has none.</summary>
-    public IntRange? TryCheck(string name) => Fixed.Checks.FirstOrDefault(c => c.Name == name) is { Name: not null } c ? c.Range : null;
+    public IntRange? TryCheck(string name) =>
+        Fixed.Checks.FirstOrDefault(c => c.Name == name) is { Name: not null } c ? c.Range : null;
 
-    /// <summary>Plans a scorer (or lays out a given fixed-point plan); throws <see cref="EmitException"/> when the model cannot be compiled.</summary>
-    public static FixedScorerPlan Build(BoltzmannModel model, CompileOptions options, string modelLabel, FixedPointPlan? plan = null)
+    /// <summary>
+    /// Plans a scorer (or lays out a given fixed-point plan); throws <see cref="EmitException"/> when the model cannot
+    /// be compiled.
+    /// </summary>
+    public static FixedScorerPlan Build(BoltzmannModel model, CompileOptions options, string modelLabel,
+        FixedPointPlan? plan = null)
     {
         if (options.Numeric != NumericMode.Fixed) throw new ArgumentException("fixed mode only", nameof(options));
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
-            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
+            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range",
+                $"use 1 to {CompileOptions.MaxSelfTestVectors}");
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
         plan ??= FixedPointPlanner.Build(model, options.FixedOptions);
@@ -116,10 +133,13 @@ public sealed class FixedScorerPlan : ScorerPlan
         {
             var u = plan.Units[j];
             // The generated code derives both shifts from f_j; make sure that is what the plan means.
-            if (u.TableShift != f[j] - plan.Table.StepFractionBits || u.EnergyShift != f[j] - plan.EnergyFractionBits || u.TableShift < 0)
+            if (u.TableShift != f[j] - plan.Table.StepFractionBits || u.EnergyShift != f[j] - plan.EnergyFractionBits
+                || u.TableShift < 0)
                 throw new InvalidOperationException($"hidden unit {j}: shifts do not follow from its fraction bits");
             if (f[j] < sbyte.MinValue || f[j] > sbyte.MaxValue)
-                throw new EmitException($"hidden unit {j} needs {f[j]} fraction bits, outside what the generated table stores", "rescale the model's weights");
+                throw new EmitException(
+                    $"hidden unit {j} needs {f[j]} fraction bits, outside what the generated table stores",
+                    "rescale the model's weights");
         }
         s.UnitFractionBits = f;
         s.UniformFractionBits = h > 0 && f.All(x => x == f[0]) ? f[0] : null;
@@ -167,7 +187,8 @@ public sealed class FixedScorerPlan : ScorerPlan
             var units = vectors[k];
             var packed = SelfTestVectors.Pack(units);
             long exact = sim.FreeEnergyPacked(packed);
-            var label = k < labels.Length ? labels[k] : "pseudo-random sample " + (k - labels.Length + 1).ToString(CultureInfo.InvariantCulture);
+            var label = k < labels.Length ? labels[k] : "pseudo-random sample " +
+                (k - labels.Length + 1).ToString(CultureInfo.InvariantCulture);
             cases.Add(new SelfTestCase(units, packed, exact / sim.Scale, 0, label, exact));
         }
         return cases;

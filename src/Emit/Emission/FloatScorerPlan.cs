@@ -16,17 +16,22 @@ public sealed class FloatScorerPlan : ScorerPlan
     /// <summary>Most hidden units a generated general-model scorer enumerates (2^16 states per input).</summary>
     public const int MaxGeneralHidden = 16;
 
-    private FloatScorerPlan(BoltzmannModel model, CompileOptions options, string modelLabel) : base(model, options, modelLabel)
+    private FloatScorerPlan(BoltzmannModel model, CompileOptions options, string modelLabel) : base(model, options,
+        modelLabel)
     {
     }
 
     /// <inheritdoc/>
     public override int RowsPerAddition => 2;
 
+    /// <summary>Visible biases b, rounded to the mode.</summary>
     public ImmutableArray<double> VisibleBias { get; private set; }
+    /// <summary>Hidden biases c, rounded to the mode.</summary>
     public ImmutableArray<double> HiddenBias { get; private set; }
 
-    /// <summary>W row-major, one row of <see cref="ScorerPlan.Hidden"/> values per visible unit, rounded to the mode.</summary>
+    /// <summary>
+    /// W row-major, one row of <see cref="ScorerPlan.Hidden"/> values per visible unit, rounded to the mode.
+    /// </summary>
     public ImmutableArray<double> Weights { get; private set; }
 
     /// <summary>L in the order of <see cref="ScorerPlan.LinkOther"/>, rounded to the mode.</summary>
@@ -35,9 +40,12 @@ public sealed class FloatScorerPlan : ScorerPlan
     /// <summary>general: M as a full symmetric H×H matrix with zero diagonal.</summary>
     public ImmutableArray<double> HiddenPairs { get; private set; }
 
+    /// <summary>The decision threshold on F(v), rounded to the mode, or null when the model has none.</summary>
     public double? Threshold { get; private set; }
 
-    /// <summary>Plans a scorer; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.</summary>
+    /// <summary>
+    /// Plans a scorer; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.
+    /// </summary>
     public static FloatScorerPlan Build(BoltzmannModel model, CompileOptions options, string modelLabel)
     {
         var mode = options.Numeric;
@@ -45,7 +53,8 @@ public sealed class FloatScorerPlan : ScorerPlan
         CheckGeneralHidden(model);
         CheckHiddenStack(model);
         if (options.SelfTestVectors < 1 || options.SelfTestVectors > CompileOptions.MaxSelfTestVectors)
-            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range", $"use 1 to {CompileOptions.MaxSelfTestVectors}");
+            throw new EmitException($"{Setting.SelfTestVectors.Ref()} {options.SelfTestVectors} is out of range",
+                $"use 1 to {CompileOptions.MaxSelfTestVectors}");
 
         var plan = new FloatScorerPlan(model, options, modelLabel);
         ImmutableArray<double> Rounded(ImmutableArray<double> values, string what)
@@ -58,7 +67,8 @@ public sealed class FloatScorerPlan : ScorerPlan
         plan.HiddenBias = Rounded(model.HiddenBias, "hidden_bias");
         plan.Weights = Rounded(model.Weights, "weights");
 
-        plan.LinkWeight = [.. plan.LinksByHigher.Select(l => Literals.Round(l.W, mode, $"visible_links weight {l.I},{l.J}"))];
+        plan.LinkWeight = [
+            .. plan.LinksByHigher.Select(l => Literals.Round(l.W, mode, $"visible_links weight {l.I},{l.J}"))];
 
         if (model.Kind == ModelKind.General)
         {
@@ -96,9 +106,11 @@ public sealed class FloatScorerPlan : ScorerPlan
             double stored = Literals.Round(expected, mode, $"self-test vector {k}'s free energy");
             // the generated code's error, the reference's own error, the rounding of the stored expected value, and
             // the rounding of the difference computed by the check
-            double tol = FloatErrorBound.ForVector(model, mode, units) + FloatErrorBound.Reference(model, units) + Math.Abs(stored - expected);
+            double tol = FloatErrorBound.ForVector(model, mode, units) + FloatErrorBound.Reference(model, units) +
+                Math.Abs(stored - expected);
             tol = Literals.UpwardValue(tol * (1 + 4 * u), mode);
-            var label = k < labels.Length ? labels[k] : "pseudo-random sample " + (k - labels.Length + 1).ToString(CultureInfo.InvariantCulture);
+            var label = k < labels.Length ? labels[k] : "pseudo-random sample " +
+                (k - labels.Length + 1).ToString(CultureInfo.InvariantCulture);
             cases.Add(new SelfTestCase(units, SelfTestVectors.Pack(units), stored, tol, label));
         }
         return cases;

@@ -1,14 +1,18 @@
 using Emit.Quantize;
 namespace Emit.Emission;
 
-/// <summary>The footprint of a planned scorer on its mode's reference core (<see cref="CortexM0Footprint"/> in fixed mode, <see cref="CortexM4FFootprint"/> in float modes).</summary>
+/// <summary>
+/// The footprint of a planned scorer on its mode's reference core (<see cref="CortexM0Footprint"/> in fixed mode,
+/// <see cref="CortexM4FFootprint"/> in float modes).
+/// </summary>
 public static class FootprintModel
 {
     /// <summary>Reference core and compiler of fixed mode.</summary>
     public const string FixedReference = "Cortex-M0, arm-none-eabi-gcc -mcpu=cortex-m0 -mthumb -Os";
 
     /// <summary>Reference core and compiler of the float modes.</summary>
-    public const string FloatReference = "Cortex-M4F, arm-none-eabi-gcc -mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 -mfloat-abi=hard -Os";
+    public const string FloatReference = "Cortex-M4F, arm-none-eabi-gcc -mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 " +
+        "-mfloat-abi=hard -Os";
 
     /// <summary>The predicted footprint and dependencies of <paramref name="plan"/>'s C output.</summary>
     public static ScorerFootprint Predict(ScorerPlan plan)
@@ -54,7 +58,8 @@ public static class FootprintModel
     {
         int energy = plan.Models[0].Mode == NumericMode.F32 ? 4
             : plan.Models[0] is FixedScorerPlan f && f.Accumulator == AccumulatorType.Int32 ? 4 : 8;
-        return new FeatureFootprint(ClassifierCodeBase + (ClassifierCodePerModel + energy) * plan.Count, energy * plan.Count);
+        return new FeatureFootprint(ClassifierCodeBase + (ClassifierCodePerModel + energy) * plan.Count,
+            energy * plan.Count);
     }
 
     /// <summary>The alarm filter's extra cost on the mode's reference core, or null without a filter.</summary>
@@ -62,7 +67,9 @@ public static class FootprintModel
         ? new FeatureFootprint(plan.Mode == NumericMode.Fixed ? FilterCodeBytesM0 : FilterCodeBytesM4F, FilterRamBytes)
         : null;
 
-    /// <summary>The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units.</summary>
+    /// <summary>
+    /// The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units.
+    /// </summary>
     public static IReadOnlyList<string> LibmFunctions(ScorerPlan plan)
     {
         if (plan.Mode == NumericMode.Fixed || !plan.HasHidden) return [];

@@ -12,7 +12,9 @@ namespace Emit.Emission;
 /// </summary>
 public static class Literals
 {
-    /// <summary>The value as the mode stores it (round to nearest even for f32); refuses values the mode cannot hold.</summary>
+    /// <summary>
+    /// The value as the mode stores it (round to nearest even for f32); refuses values the mode cannot hold.
+    /// </summary>
     public static double Round(double value, NumericMode mode, string what)
     {
         if (!double.IsFinite(value)) throw new EmitException($"{what} is not a finite number");
@@ -20,7 +22,9 @@ public static class Literals
         {
             float f = (float)value;
             if (!float.IsFinite(f))
-                throw new EmitException($"{what} = {value.ToString("R", CultureInfo.InvariantCulture)} does not fit in a 32-bit float", $"use {Setting.Numeric.Ref()} f64");
+                throw new EmitException(
+                    $"{what} = {value.ToString("R", CultureInfo.InvariantCulture)} does not fit in a 32-bit float",
+                    $"use {Setting.Numeric.Ref()} f64");
             return f;
         }
         return value;
@@ -35,7 +39,8 @@ public static class Literals
     };
 
     /// <summary>A binary32 literal: <c>0.100000001f</c>, <c>-0.0f</c>, <c>1.0f</c>, <c>1.00000001e-07f</c>.</summary>
-    public static string Float(float value) => WithPoint(Finite(value).ToString("G9", CultureInfo.InvariantCulture)) + "f";
+    public static string Float(float value) =>
+        WithPoint(Finite(value).ToString("G9", CultureInfo.InvariantCulture)) + "f";
 
     /// <summary>A binary64 literal: <c>0.10000000000000001</c>, <c>1.0</c>, <c>-2.5e-300</c>.</summary>
     public static string Double(double value) => WithPoint(Finite(value).ToString("G17", CultureInfo.InvariantCulture));
@@ -69,7 +74,10 @@ public static class Literals
     /// compile), and a non-finite table entry or bound means an earlier check failed.
     /// </summary>
     private static T Finite<T>(T value) where T : System.Numerics.IFloatingPointIeee754<T> =>
-        T.IsFinite(value) ? value : throw new EmitException($"{value.ToString(null, CultureInfo.InvariantCulture)} cannot be written as a literal of generated code", "the model's values are too large for this numeric mode");
+        T.IsFinite(value) ? value
+        : throw new EmitException(
+            $"{value.ToString(null, CultureInfo.InvariantCulture)} cannot be written as a literal of generated code",
+            "the model's values are too large for this numeric mode");
 
     private static string WithPoint(string text)
     {

@@ -52,7 +52,9 @@ public static partial class Naming
         "_Bool", "_Complex", "_Imaginary",
     };
 
-    /// <summary>C++ keywords and alternative tokens (ISO/IEC 14882:2020 [lex.key], [lex.digraph]) not already C99 keywords.</summary>
+    /// <summary>
+    /// C++ keywords and alternative tokens (ISO/IEC 14882:2020 [lex.key], [lex.digraph]) not already C99 keywords.
+    /// </summary>
     public static readonly IReadOnlySet<string> CppKeywords = new HashSet<string>(StringComparer.Ordinal)
     {
         "alignas", "alignof", "asm", "bool", "catch", "char8_t", "char16_t", "char32_t", "class", "concept",
@@ -100,28 +102,37 @@ public static partial class Naming
     public static void CheckScorerName(string name)
     {
         if (!IsCIdentifier(name))
-            throw new EmitException($"name \"{CommentText(name)}\" is not a C identifier", "use letters, digits and _ only, not starting with a digit");
+            throw new EmitException($"name \"{CommentText(name)}\" is not a C identifier",
+                "use letters, digits and _ only, not starting with a digit");
         // The name is also the macro prefix in upper case: "_x" gives _X_VISIBLE, reserved by C99 §7.1.3 (a leading _
         // and an upper-case letter); "x_" gives X__VISIBLE, and a "__" anywhere is reserved in C++ ([lex.name]),
         // which the header supports.
         if (name[0] == '_')
-            throw new EmitException($"name \"{name}\" starts with _, which makes reserved identifiers in C ({MacroPrefix(name)}_VISIBLE; C99 7.1.3)", "start the name with a letter");
+            throw new EmitException(
+                $"name \"{name}\" starts with _, which makes reserved identifiers in C ({MacroPrefix(name)}_VISIBLE; " +
+                "C99 7.1.3)", "start the name with a letter");
         if (name.Contains("__", StringComparison.Ordinal) || name.EndsWith('_'))
-            throw new EmitException($"name \"{name}\" makes identifiers with \"__\", which C++ reserves", "use single _ between words and none at the end");
+            throw new EmitException($"name \"{name}\" makes identifiers with \"__\", which C++ reserves",
+                "use single _ between words and none at the end");
         if (name.Length > MaxScorerNameLength)
             throw new EmitException(
-                $"name \"{name}\" has {name.Length} characters; {name}_free_energy_units would not be distinct from other external identifiers within the {ExternalSignificant} characters C99 guarantees (5.2.4.1)",
+                $"name \"{name}\" has {name.Length} characters; {name}_free_energy_units would not be distinct from " +
+                $"other external identifiers within the {ExternalSignificant} characters C99 guarantees (5.2.4.1)",
                 $"use at most {MaxScorerNameLength} characters");
     }
 
-    /// <summary>Checks a C# namespace given with <c>--namespace</c>: dot-separated identifiers, none a C# keyword.</summary>
+    /// <summary>
+    /// Checks a C# namespace given with <c>--namespace</c>: dot-separated identifiers, none a C# keyword.
+    /// </summary>
     public static void CheckNamespace(string ns)
     {
         if (ns.Length > MaxNamespaceLength)
-            throw new EmitException($"namespace has {ns.Length} characters, more than {MaxNamespaceLength}", "use a shorter namespace such as Emit.Generated");
+            throw new EmitException($"namespace has {ns.Length} characters, more than {MaxNamespaceLength}",
+                "use a shorter namespace such as Emit.Generated");
         foreach (var part in ns.Split('.'))
             if (!IsCIdentifier(part) || CSharpKeywords.Contains(part))
-                throw new EmitException($"namespace \"{CommentText(ns)}\" is not a C# namespace name", "use dot-separated identifiers such as Emit.Generated");
+                throw new EmitException($"namespace \"{CommentText(ns)}\" is not a C# namespace name",
+                    "use dot-separated identifiers such as Emit.Generated");
     }
 
     /// <summary>
@@ -171,10 +182,12 @@ public static partial class Naming
     /// <summary>
     /// Identifiers derived from unit names, one per unit, valid and unique: C macro suffixes in upper case
     /// (<c>PUMP_A_TEMP</c>) and C# member names in PascalCase (<c>PumpATemp</c>). A name with no letter or digit
-    /// becomes <c>UNIT_i</c> / <c>UnitI</c>; a clash gets <c>_2</c>, <c>_3</c>... (first come, first served, in unit order).
+    /// becomes <c>UNIT_i</c> / <c>UnitI</c>; a clash gets <c>_2</c>, <c>_3</c>... (first come, first served, in unit
+    /// order).
     /// <paramref name="reserved"/> lists names already taken in the same scope.
     /// </summary>
-    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names, IEnumerable<string> reserved) =>
+    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names,
+        IEnumerable<string> reserved) =>
         UnitIdentifiers(names, reserved, UnitIdentifierLength);
 
     /// <summary>
@@ -185,8 +198,12 @@ public static partial class Naming
     /// </summary>
     public const int UnitIdentifierLength = InternalSignificant - MaxScorerNameLength - 6;
 
-    /// <summary>As <see cref="UnitIdentifiers(IReadOnlyList{string}, IEnumerable{string})"/>, with identifiers cut to <paramref name="maxLength"/> characters.</summary>
-    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names, IEnumerable<string> reserved, int maxLength)
+    /// <summary>
+    /// As <see cref="UnitIdentifiers(IReadOnlyList{string}, IEnumerable{string})"/>, with identifiers cut to
+    /// <paramref name="maxLength"/> characters.
+    /// </summary>
+    public static (IReadOnlyList<string> C, IReadOnlyList<string> CSharp) UnitIdentifiers(IReadOnlyList<string> names,
+        IEnumerable<string> reserved, int maxLength)
     {
         var takenC = new HashSet<string>(StringComparer.Ordinal);
         var takenCs = new HashSet<string>(reserved, StringComparer.Ordinal);
@@ -198,7 +215,8 @@ public static partial class Naming
             if (upper.Length == 0) upper = "UNIT_" + i.ToString(CultureInfo.InvariantCulture);
             upper = Cut(upper, maxLength);
             c.Add(Unique(upper, takenC, "_", maxLength));
-            cs.Add(Unique(Cut(AvoidKeyword(PascalWords(upper.ToLowerInvariant(), "Unit")), maxLength), takenCs, "_", maxLength));
+            cs.Add(Unique(Cut(AvoidKeyword(PascalWords(upper.ToLowerInvariant(), "Unit")), maxLength), takenCs, "_",
+                maxLength));
         }
         return (c, cs);
     }
@@ -261,7 +279,8 @@ public static partial class Naming
                 if (sb.Length > 0)
                 {
                     char prev = sb[^1];
-                    if ((prev == '*' && ch == '/') || (prev == '/' && (ch == '*' || ch == '/')) || (prev == '?' && ch == '?'))
+                    if ((prev == '*' && ch == '/') || (prev == '/' && (ch == '*' || ch == '/'))
+                        || (prev == '?' && ch == '?'))
                         sb.Append(' ');
                 }
                 sb.Append(ch);
@@ -274,7 +293,8 @@ public static partial class Naming
             sb.Length = MaxCommentLength - 3;
             sb.Append("...");
         }
-        // A comment ending in "*" or "/" could join with the closing "*/" or a following "/"; a trailing space could hide it.
+        // A comment ending in "*" or "/" could join with the closing "*/" or a following "/"; a trailing space could
+        // hide it.
         var result = sb.ToString();
         if (result.EndsWith('*') || result.EndsWith('/')) result += " ";
         return result.TrimStart();

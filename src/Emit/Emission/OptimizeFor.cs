@@ -6,14 +6,18 @@ namespace Emit.Emission;
 /// </summary>
 public enum OptimizeFor
 {
-    /// <summary>Weight rows added four at a time, inner loops in fixed-length blocks that compilers vectorize.</summary>
+    /// <summary>
+    /// Weight rows added four at a time, inner loops in fixed-length blocks that compilers vectorize.
+    /// </summary>
     Speed,
 
     /// <summary>One row at a time in plain loops: the least code, for flash-limited parts such as Cortex-M0.</summary>
     Size,
 }
 
-/// <summary>Text forms of <see cref="OptimizeFor"/> as used on the command line, in project files and banners.</summary>
+/// <summary>
+/// Text forms of <see cref="OptimizeFor"/> as used on the command line, in project files and banners.
+/// </summary>
 public static class OptimizeForNames
 {
     /// <summary>"speed" or "size".</summary>

@@ -14,13 +14,18 @@ public static class OutputFolder
     public static IReadOnlyList<string> Write(string folder, IReadOnlyList<GeneratedFile> files, bool force) =>
         WriteAll([(folder, files)], force);
 
-    /// <summary>Writes a compiled scorer's sources and its manifest (<c>NAME.emit.json</c>) as one step; returns the paths written.</summary>
+    /// <summary>
+    /// Writes a compiled scorer's sources and its manifest (<c>NAME.emit.json</c>) as one step; returns the paths
+    /// written.
+    /// </summary>
     public static IReadOnlyList<string> Write(string folder, CompiledScorer compiled, bool force) =>
         WriteAll([(folder, compiled.AllFiles)], force);
 
     /// <summary>Writes several folders' files as one step; returns the paths written.</summary>
-    public static IReadOnlyList<string> WriteAll(IReadOnlyList<(string Folder, IReadOnlyList<GeneratedFile> Files)> groups, bool force) =>
+    public static IReadOnlyList<string> WriteAll(
+        IReadOnlyList<(string Folder, IReadOnlyList<GeneratedFile> Files)> groups, bool force) =>
         AtomicFile.WriteAll(
-            groups.SelectMany(g => g.Files.Select(f => (Path.Combine(g.Folder, f.FileName), Utf8NoBom.GetBytes(f.Text)))).ToArray(),
+            groups.SelectMany(
+                g => g.Files.Select(f => (Path.Combine(g.Folder, f.FileName), Utf8NoBom.GetBytes(f.Text)))).ToArray(),
             force);
 }

@@ -10,7 +10,8 @@ public static class ScorerCompiler
     /// Plans the scorer once and lets each requested target lay it out. <paramref name="modelLabel"/> names the
     /// model in banners (a file name, not a path, so output does not depend on where the model lies).
     /// </summary>
-    public static IReadOnlyList<GeneratedFile> Compile(BoltzmannModel model, string modelLabel, CompileOptions options) =>
+    public static IReadOnlyList<GeneratedFile> Compile(BoltzmannModel model, string modelLabel,
+        CompileOptions options) =>
         Build(model, modelLabel, options).Files;
 
     /// <summary>
@@ -21,11 +22,15 @@ public static class ScorerCompiler
     {
         Naming.CheckScorerName(options.Name);
         Naming.CheckNamespace(options.Namespace);
-        if (options.Targets.Count == 0) throw new EmitException("no target given", $"use {Setting.Targets.Ref()} with one or more of: {Targets.NameList}");
+        if (options.Targets.Count == 0)
+            throw new EmitException("no target given",
+                $"use {Setting.Targets.Ref()} with one or more of: {Targets.NameList}");
         var emitters = new List<ITargetEmitter>();
         foreach (var name in options.Targets)
         {
-            var emitter = Targets.Find(name) ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"", $"use one or more of: {Targets.NameList}");
+            var emitter = Targets.Find(name)
+                ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"",
+                    $"use one or more of: {Targets.NameList}");
             if (!emitters.Contains(emitter)) emitters.Add(emitter);
         }
         ScorerPlan plan = options.Numeric == NumericMode.Fixed
@@ -33,10 +38,13 @@ public static class ScorerCompiler
             : FloatScorerPlan.Build(model, options, modelLabel);
         var templates = new TemplateRenderer(options.TemplatesDirectory);
         var files = emitters.SelectMany(e => e.Emit(plan, templates).Select(f => (e.Name, f))).ToArray();
-        return new CompiledScorer(plan, emitters.Select(e => e.Name).ToArray(), files, TemplatesRead(files.Select(f => f.f)));
+        return new CompiledScorer(plan, emitters.Select(e => e.Name).ToArray(), files,
+            TemplatesRead(files.Select(f => f.f)));
     }
 
-    /// <summary>Every template behind the files, once each, in the order first read, with the SHA-256 of its text as read.</summary>
+    /// <summary>
+    /// Every template behind the files, once each, in the order first read, with the SHA-256 of its text as read.
+    /// </summary>
     private static IReadOnlyList<TemplateUse> TemplatesRead(IEnumerable<GeneratedFile> files)
     {
         var used = new List<TemplateUse>();
@@ -45,7 +53,8 @@ public static class ScorerCompiler
             int slash = t.Name.IndexOf('/');
             string target = t.Name[..slash], file = t.Name[(slash + 1)..];
             if (used.Any(u => u.Target == target && u.File == file)) continue;
-            var sha = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(t.Text)));
+            var sha = Convert.ToHexStringLower(
+                System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(t.Text)));
             used.Add(new TemplateUse(target, file, t.IsOverride, sha));
         }
         return used;

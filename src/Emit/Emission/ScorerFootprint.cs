@@ -18,13 +18,15 @@ public sealed record ScorerFootprint(string Reference, Footprint Figures, IReadO
     /// <summary>The header's paragraphs stating the figures and the dependencies.</summary>
     public IReadOnlyList<string> Statement =>
     [
-        $"Predicted cost on {Reference}: flash {FlashBytes} bytes ({Figures.CodeBytes} code + {Figures.TableBytes} tables), " +
+        $"Predicted cost on {Reference}: flash {FlashBytes} bytes ({Figures.CodeBytes} code + {Figures.TableBytes} " +
+            "tables), " +
         $"worst-case stack {StackBytes} bytes (including {Figures.LibraryStackAllowance} for library calls). " +
         "Estimates from emit's footprint model (docs/generated-code.md, \"Costs\"), checked in emit's tests against " +
         "arm-none-eabi-size and -fstack-usage.",
         LibmFunctions.Count == 0
             ? "Run-time dependencies: no libm function; a compiler may emit calls to memcpy and memset."
-            : $"Run-time dependencies: {string.Join(", ", LibmFunctions)} from the C maths library (link with -lm where it is " +
+            : $"Run-time dependencies: {string.Join(", ", LibmFunctions)} from the C maths library (link with -lm " +
+            "where it is " +
               "separate); a compiler may emit calls to memcpy and memset.",
     ];
 }

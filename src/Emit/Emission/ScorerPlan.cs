@@ -42,13 +42,19 @@ public abstract class ScorerPlan
     /// <summary>The filter's history mask: the low N bits of a 32-bit word (0 without a filter).</summary>
     public long FilterMask => AlarmFilter is { N: var n } ? (long)(uint.MaxValue >> (32 - n)) : 0;
 
-    /// <summary>Refuses a general model with more than <see cref="FloatScorerPlan.MaxGeneralHidden"/> hidden units, with the reason.</summary>
+    /// <summary>
+    /// Refuses a general model with more than <see cref="FloatScorerPlan.MaxGeneralHidden"/> hidden units, with the
+    /// reason.
+    /// </summary>
     private protected static void CheckGeneralHidden(BoltzmannModel model)
     {
         if (model.Kind == ModelKind.General && model.Hidden > FloatScorerPlan.MaxGeneralHidden)
             throw new EmitException(
-                $"a general model's free energy sums over all 2^{model.Hidden} hidden states for every input, too slow for generated code",
-                $"generated code allows hidden <= {FloatScorerPlan.MaxGeneralHidden} for kind general (2^{FloatScorerPlan.MaxGeneralHidden} states); retrain with fewer hidden units or without hidden links");
+                $"a general model's free energy sums over all 2^{model.Hidden} hidden states for every input, too " +
+                "slow for generated code",
+                $"generated code allows hidden <= {FloatScorerPlan.MaxGeneralHidden} for kind general " +
+                $"(2^{FloatScorerPlan.MaxGeneralHidden} states); retrain with fewer hidden units or without hidden " +
+                "links");
     }
 
     /// <summary>
@@ -64,20 +70,27 @@ public abstract class ScorerPlan
     {
         if (model.Hidden > MaxHidden)
             throw new EmitException(
-                $"the generated scorer keeps one accumulator per hidden unit on the stack; {model.Hidden} hidden units need " +
+                $"the generated scorer keeps one accumulator per hidden unit on the stack; {model.Hidden} hidden " +
+                "units need " +
                 $"{(long)model.Hidden * 8} bytes of stack in the worst case",
                 $"generated code allows hidden <= {MaxHidden} (128 KiB of accumulators); see docs/generated-code.md");
     }
 
+    /// <summary>The model the scorer is planned for.</summary>
     public BoltzmannModel Model { get; }
+    /// <summary>The compile options the plan follows.</summary>
     public CompileOptions Options { get; }
+    /// <summary>The numeric mode (f32, f64 or fixed).</summary>
     public NumericMode Mode => Options.Numeric;
 
     /// <summary>The model's file name (not path), as given; sanitise before printing.</summary>
     public string ModelLabel { get; }
 
+    /// <summary>Visible units: the length of an input vector.</summary>
     public int Visible => Model.Visible;
+    /// <summary>Hidden units.</summary>
     public int Hidden => Model.Hidden;
+    /// <summary>Bytes of a packed input (eight units per byte, unit 0 in the low bit of byte 0).</summary>
     public int PackedBytes => (Model.Visible + 7) / 8;
 
     /// <summary>Mask of the used bits of the last packed byte; 0xFF when all eight are units.</summary>
@@ -88,7 +101,9 @@ public abstract class ScorerPlan
     /// LinkStart[i] .. LinkStart[i+1]−1 of <see cref="LinkOther"/> (and of the mode's link weights).
     /// </summary>
     public ImmutableArray<int> LinkStart { get; }
+    /// <summary>The lower unit of each lateral link, grouped as <see cref="LinkStart"/> says.</summary>
     public ImmutableArray<int> LinkOther { get; }
+    /// <summary>Number of lateral links.</summary>
     public int LinkCount => LinkOther.Length;
 
     /// <summary>The higher unit of each link, in the order of <see cref="LinkOther"/>.</summary>
@@ -100,6 +115,7 @@ public abstract class ScorerPlan
     /// <summary>|F_generated(v) − F_exact(v)| &lt;= this for every input (nats).</summary>
     public double ErrorBound { get; private protected set; }
 
+    /// <summary>Inputs and expected results of the boot self-test compiled into the scorer.</summary>
     public IReadOnlyList<SelfTestCase> SelfTest { get; private protected set; } = [];
 
     /// <summary>general: log2 of the Gray-code block size (scores are recomputed at every block start).</summary>
@@ -117,7 +133,9 @@ public abstract class ScorerPlan
     /// <summary>Unit names as one-line comment text (empty list when the model has no names).</summary>
     public IReadOnlyList<string> UnitComments { get; } = [];
 
-    /// <summary>The model's unit names as given (empty when it has none); a dialect makes identifiers of them.</summary>
+    /// <summary>
+    /// The model's unit names as given (empty when it has none); a dialect makes identifiers of them.
+    /// </summary>
     public IReadOnlyList<string> UnitNames => Model.Names;
 
     /// <summary>The comment naming visible unit i: "i: name" or "unit i".</summary>
@@ -129,7 +147,9 @@ public abstract class ScorerPlan
     /// <summary>True when the model has hidden units.</summary>
     public bool HasHidden => Model.Hidden > 0;
 
-    /// <summary>True for kind general (links between hidden units: the hidden part is a log-sum-exp over all states).</summary>
+    /// <summary>
+    /// True for kind general (links between hidden units: the hidden part is a log-sum-exp over all states).
+    /// </summary>
     public bool IsGeneral => Model.Kind == ModelKind.General;
 
     /// <summary>True when the model has lateral links between visible units.</summary>
@@ -145,7 +165,9 @@ public abstract class ScorerPlan
     public OptimizeFor Optimize => Options.Optimize;
 
     /// <summary>The largest count any table index runs to (decides the width of index types).</summary>
-    public long LargestCount => new[] { Visible, (long)Hidden + 1, (long)Visible * Hidden, (long)Hidden * Hidden, LinkCount, (long)SelfTest.Count * PackedBytes }.Max();
+    public long LargestCount =>
+        new[] { Visible, (long)Hidden + 1, (long)Visible * Hidden, (long)Hidden * Hidden, LinkCount,
+            (long)SelfTest.Count * PackedBytes }.Max();
 
     /// <summary>
     /// Weight rows added per accumulator update in fixed mode, the same in every target: four (acc += r0 + r1 + r2 +
@@ -156,6 +178,7 @@ public abstract class ScorerPlan
     /// </summary>
     public abstract int RowsPerAddition { get; }
 
+    /// <summary>Version of emit written into every generated file (major.minor.patch).</summary>
     public static string ToolVersion
     {
         get
@@ -185,11 +208,14 @@ public abstract class ScorerPlan
         yield return line;
     }
 
-    /// <summary>The lines of the banner every generated file starts with (no timestamp: regeneration is byte-stable).</summary>
+    /// <summary>
+    /// The lines of the banner every generated file starts with (no timestamp: regeneration is byte-stable).
+    /// </summary>
     public IReadOnlyList<string> BannerLines(string fileName, string target) =>
     [
         $"{fileName}: generated by emit {ToolVersion} -- do not edit; regenerate with emit compile.",
-        $"model: {Naming.CommentText(ModelLabel)} (kind {Model.Kind.ToText()}, {Model.Visible} visible, {Model.Hidden} hidden)",
+        $"model: {Naming.CommentText(ModelLabel)} (kind {Model.Kind.ToText()}, {Model.Visible} visible, " +
+        $"{Model.Hidden} hidden)",
         $"model sha256: {Model.Sha256}",
         .. OptionLines(target),
         $"layout: optimized for {Options.Optimize.ToText()} (the results do not depend on it)",

@@ -6,4 +6,5 @@ namespace Emit.Emission;
 /// code must return exactly (from <see cref="Emit.Quantize.FixedPointSimulator"/>); <see cref="Expected"/> is then
 /// that integer in nats and <see cref="Tolerance"/> is 0.
 /// </summary>
-public sealed record SelfTestCase(byte[] Units, byte[] Packed, double Expected, double Tolerance, string Label, long? ExactExpected = null);
+public sealed record SelfTestCase(byte[] Units, byte[] Packed, double Expected, double Tolerance, string Label,
+    long? ExactExpected = null);

@@ -43,7 +43,8 @@ public static class SelfTestVectors
     }
 
     /// <summary>SplitMix64 step mapped to [0, 1) with 53 bits.</summary>
-    private static double NextUnit(ref ulong state) => (Reference.Xoshiro256.SplitMix64(ref state) >> 11) * (1.0 / (1UL << 53));
+    private static double NextUnit(ref ulong state) =>
+        (Reference.Xoshiro256.SplitMix64(ref state) >> 11) * (1.0 / (1UL << 53));
 
     /// <summary>Bit i of the result is unit i: byte i/8, bit i%8 (the generated code's packed layout).</summary>
     public static byte[] Pack(ReadOnlySpan<byte> units)

@@ -37,8 +37,10 @@ public sealed record SourceManifest
     /// <summary>rbm, lateral or general.</summary>
     public required string ModelKind { get; init; }
 
+    /// <summary>Visible units of the model.</summary>
     public required int Visible { get; init; }
 
+    /// <summary>Hidden units of the model.</summary>
     public required int Hidden { get; init; }
 
     /// <summary>
@@ -47,12 +49,16 @@ public sealed record SourceManifest
     /// </summary>
     public required IReadOnlyList<string> Targets { get; init; }
 
+    /// <summary>The numeric mode compiled.</summary>
     public required NumericMode Numeric { get; init; }
 
+    /// <summary>The scorer name (file names and identifiers derive from it).</summary>
     public required string Name { get; init; }
 
+    /// <summary>Namespace of the generated C#.</summary>
     public required string Namespace { get; init; }
 
+    /// <summary>Self-test vectors compiled in.</summary>
     public required int SelfTestVectors { get; init; }
 
     /// <summary>True when a templates folder overrode shipped templates (<see cref="Templates"/> says which).</summary>

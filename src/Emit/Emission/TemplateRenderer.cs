@@ -16,11 +16,14 @@ public sealed class TemplateRenderer
 {
     private readonly string? _overrideDirectory;
 
-    /// <summary>A renderer reading overrides from <paramref name="overrideDirectory"/> (null: shipped templates only).</summary>
+    /// <summary>
+    /// A renderer reading overrides from <paramref name="overrideDirectory"/> (null: shipped templates only).
+    /// </summary>
     public TemplateRenderer(string? overrideDirectory)
     {
         if (overrideDirectory is not null && !Directory.Exists(overrideDirectory))
-            throw new EmitException("templates folder does not exist", "give a folder holding c/ and csharp/ template files", overrideDirectory);
+            throw new EmitException("templates folder does not exist",
+                "give a folder holding c/ and csharp/ template files", overrideDirectory);
         _overrideDirectory = overrideDirectory;
     }
 
@@ -35,7 +38,8 @@ public sealed class TemplateRenderer
         if (!Directory.Exists(dir)) return;
         foreach (var file in Directory.GetFiles(dir, "*.sbn").Order(StringComparer.Ordinal))
             if (!known.Contains(Path.GetFileName(file)))
-                throw new EmitException("unknown template file name", $"the {target} target uses {string.Join(", ", known)}", file);
+                throw new EmitException("unknown template file name",
+                    $"the {target} target uses {string.Join(", ", known)}", file);
     }
 
     /// <summary>Renders template <c>TARGET/FILE</c> with <paramref name="model"/> as <c>m</c>.</summary>
@@ -46,7 +50,8 @@ public sealed class TemplateRenderer
     /// Renders template <c>TARGET/FILE</c> with the globals <paramref name="register"/> puts on the script object;
     /// returns the text and every template read (the main one first, then its includes).
     /// </summary>
-    public (string Text, IReadOnlyList<UsedTemplate> Templates) Render(string target, string file, Action<ScriptObject> register)
+    public (string Text, IReadOnlyList<UsedTemplate> Templates) Render(string target, string file,
+        Action<ScriptObject> register)
     {
         var loader = new Loader(this, target);
         var main = loader.Read(target + "/" + file);
@@ -78,7 +83,8 @@ public sealed class TemplateRenderer
         }
         catch (ScriptRuntimeException e)
         {
-            throw new EmitException($"template error: {e.OriginalMessage}", "fix the template", e.Span.FileName ?? main.Source,
+            throw new EmitException($"template error: {e.OriginalMessage}", "fix the template",
+                e.Span.FileName ?? main.Source,
                 e.Span.Start.Line + 1, e.Span.Start.Column + 1);
         }
     }
@@ -89,7 +95,8 @@ public sealed class TemplateRenderer
         if (template.HasErrors)
         {
             var first = template.Messages.First(m => m.Type == ParserMessageType.Error);
-            throw new EmitException($"template error: {first.Message}", "fix the template", t.Source, first.Span.Start.Line + 1, first.Span.Start.Column + 1);
+            throw new EmitException($"template error: {first.Message}", "fix the template", t.Source,
+                first.Span.Start.Line + 1, first.Span.Start.Column + 1);
         }
         return template;
     }
@@ -101,13 +108,15 @@ public sealed class TemplateRenderer
             var path = Path.Combine(_overrideDirectory, name);
             if (File.Exists(path))
             {
-                try { return new UsedTemplate(name, path, File.ReadAllText(path).Replace("\r\n", "\n", StringComparison.Ordinal)); }
+                try { return new UsedTemplate(name, path,
+                    File.ReadAllText(path).Replace("\r\n", "\n", StringComparison.Ordinal)); }
                 catch (IOException e) { throw new EmitException($"cannot read template: {e.Message}", null, path); }
             }
         }
         var resource = "templates/" + name;
         using var stream = Assembly.GetExecutingAssembly().GetManifestResourceStream(resource)
-                           ?? throw new InvalidOperationException($"shipped template {resource} is missing from the assembly");
+                           ?? throw new InvalidOperationException(
+                               $"shipped template {resource} is missing from the assembly");
         using var reader = new StreamReader(stream);
         return new UsedTemplate(name, resource, reader.ReadToEnd());
     }
@@ -131,14 +140,17 @@ public sealed class TemplateRenderer
         public string GetPath(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templateName)
         {
             if (templateName.Contains('/') || templateName.Contains('\\') || templateName.Contains(".."))
-                throw new EmitException($"template error: include \"{templateName}\" names a folder", "include files of the same target folder by file name",
+                throw new EmitException($"template error: include \"{templateName}\" names a folder",
+                    "include files of the same target folder by file name",
                     callerSpan.FileName, callerSpan.Start.Line + 1, callerSpan.Start.Column + 1);
             return target + "/" + templateName;
         }
 
-        public string Load(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templatePath) => Read(templatePath).Text;
+        public string Load(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templatePath) =>
+            Read(templatePath).Text;
 
-        public ValueTask<string?> LoadAsync(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan, string templatePath) =>
+        public ValueTask<string?> LoadAsync(TemplateContext context, Scriban.Parsing.SourceSpan callerSpan,
+            string templatePath) =>
             ValueTask.FromResult<string?>(Load(context, callerSpan, templatePath));
     }
 }

@@ -16,5 +16,6 @@ public static class CFlags
     public const string CortexM3 = "-mcpu=cortex-m3 -mthumb -mfloat-abi=soft -ffp-contract=off";
 
     /// <summary>Splits a flag string at spaces (no quoting).</summary>
-    public static IReadOnlyList<string> Split(string flags) => flags.Split((char[])[' ', '\t', '\n'], StringSplitOptions.RemoveEmptyEntries);
+    public static IReadOnlyList<string> Split(string flags) =>
+        flags.Split((char[])[' ', '\t', '\n'], StringSplitOptions.RemoveEmptyEntries);
 }

@@ -7,13 +7,19 @@ namespace Emit.Harness;
 /// </summary>
 public sealed class CSharpRunner : ITargetRunner
 {
+    /// <inheritdoc/>
     public string Name => "csharp";
+    /// <inheritdoc/>
     public string Description => "generated C# built with dotnet build in a temporary project";
+    /// <inheritdoc/>
     public string Language => "csharp";
 
+    /// <inheritdoc/>
     public void CheckTools(RunnerSettings settings) => CSharpProject.RequireDotnet(Name);
 
-    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings, string workDirectory, out string failure)
+    /// <inheritdoc/>
+    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
+        string workDirectory, out string failure)
     {
         var files = new Dictionary<string, string>
         {
@@ -24,6 +30,7 @@ public sealed class CSharpRunner : ITargetRunner
             files[Path.GetFileName(f)] = File.ReadAllText(f);
         var dll = CSharpProject.Build(workDirectory, files, new CSharpProject.Settings(), settings.Limit, out failure);
         if (dll is null) return null;
-        return ProcessSession.Start(CSharpProject.RequireDotnet(Name), [dll], workDirectory, layout, settings.Limit, "the C# harness", out failure);
+        return ProcessSession.Start(CSharpProject.RequireDotnet(Name), [dll], workDirectory, layout, settings.Limit,
+            "the C# harness", out failure);
     }
 }

@@ -4,9 +4,9 @@ namespace Emit.Harness;
 
 /// <summary>
 /// Target <c>cortex-m3</c>: the generated C cross-compiled with <c>arm-none-eabi-gcc</c> (strict flags, Cortex-M3, soft
-/// float) and run on qemu's mps2-an385 machine with newlib's semihosting library. The inputs are compiled into the image
-/// in batches; each image prints its results through semihosting and its exit status becomes qemu's. Every qemu run has
-/// the outer time limit, and a fault ends it with status <see cref="HarnessTemplates.FaultStatus"/>.
+/// float) and run on qemu's mps2-an385 machine with newlib's semihosting library. The inputs are compiled into the
+/// image in batches; each image prints its results through semihosting and its exit status becomes qemu's. Every qemu
+/// run has the outer time limit, and a fault ends it with status <see cref="HarnessTemplates.FaultStatus"/>.
 /// </summary>
 public sealed class CortexM3Runner : ITargetRunner
 {
@@ -16,14 +16,19 @@ public sealed class CortexM3Runner : ITargetRunner
     /// <summary>Most inputs in one image.</summary>
     public const int MaxImageInputs = 4096;
 
+    /// <inheritdoc/>
     public string Name => "cortex-m3";
-    public string Description => "generated C99 cross-compiled for Cortex-M3 and run on qemu-system-arm (mps2-an385) with semihosting";
+    /// <inheritdoc/>
+    public string Description =>
+        "generated C99 cross-compiled for Cortex-M3 and run on qemu-system-arm (mps2-an385) with semihosting";
+    /// <inheritdoc/>
     public string Language => "c";
 
     internal static readonly Tool Gcc = new("arm-none-eabi-gcc", "gcc-arm-none-eabi", "cross compiler");
     internal static readonly Tool Qemu = new("qemu-system-arm", "qemu-system-arm", "emulator");
     internal const string NewlibPackage = "libnewlib-arm-none-eabi";
 
+    /// <inheritdoc/>
     public void CheckTools(RunnerSettings settings)
     {
         var gcc = Gcc.Require(Name);
@@ -36,18 +41,23 @@ public sealed class CortexM3Runner : ITargetRunner
     }
 
     /// <summary>Inputs per image for a model with <paramref name="packedBytes"/> bytes per input.</summary>
-    public static int ImageInputs(int packedBytes) => Math.Clamp(MaxImageInputBytes / Math.Max(1, packedBytes), 1, MaxImageInputs);
+    public static int ImageInputs(int packedBytes) =>
+        Math.Clamp(MaxImageInputBytes / Math.Max(1, packedBytes), 1, MaxImageInputs);
 
-    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings, string workDirectory, out string failure)
+    /// <inheritdoc/>
+    public IScorerSession? Start(ScorerSources sources, HarnessLayout layout, RunnerSettings settings,
+        string workDirectory, out string failure)
     {
         var gcc = Gcc.Require(Name);
         var qemu = Qemu.Require(Name);
         Directory.CreateDirectory(workDirectory);
         File.WriteAllText(Path.Combine(workDirectory, "emit-startup.c"), HarnessTemplates.Startup("emit-startup.c"));
-        File.WriteAllText(Path.Combine(workDirectory, "emit-cortex-m3.ld"), HarnessTemplates.LinkerScript("emit-cortex-m3.ld"));
+        File.WriteAllText(Path.Combine(workDirectory, "emit-cortex-m3.ld"),
+            HarnessTemplates.LinkerScript("emit-cortex-m3.ld"));
         var session = new Session(gcc, qemu, sources, layout, settings, workDirectory);
         if (!session.Compile(sources.SourceFile, "emit-scorer.o", "the generated C", out failure)
-            || !session.Compile(Path.Combine(workDirectory, "emit-startup.c"), "emit-startup.o", "the start-up code", out failure))
+            || !session.Compile(Path.Combine(workDirectory, "emit-startup.c"), "emit-startup.o", "the start-up code",
+                out failure))
             return null;
         var companions = sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal)).ToArray();
         for (int k = 0; k < companions.Length; k++)
@@ -56,7 +66,8 @@ public sealed class CortexM3Runner : ITargetRunner
         return session;
     }
 
-    private sealed class Session(string gcc, string qemu, ScorerSources sources, HarnessLayout layout, RunnerSettings settings, string dir) : IScorerSession
+    private sealed class Session(string gcc, string qemu, ScorerSources sources, HarnessLayout layout,
+        RunnerSettings settings, string dir) : IScorerSession
     {
         private int _images;
 
@@ -70,7 +81,8 @@ public sealed class CortexM3Runner : ITargetRunner
 
         public bool Compile(string source, string obj, string what, out string failure)
         {
-            var r = ExternalProcess.Run(gcc, [.. CompileFlags(), "-c", source, "-o", Path.Combine(dir, obj)], settings.Limit, dir);
+            var r = ExternalProcess.Run(gcc, [.. CompileFlags(), "-c", source, "-o", Path.Combine(dir, obj)],
+                settings.Limit, dir);
             failure = r.Ok ? "" : r.TimedOut
                 ? $"arm-none-eabi-gcc did not finish within {settings.Limit.TotalSeconds:F0} s"
                 : $"{what} does not compile with arm-none-eabi-gcc {CFlags.CortexM3} {CFlags.Strict} -O2:\n{r.Tail()}";
@@ -83,7 +95,8 @@ public sealed class CortexM3Runner : ITargetRunner
             for (int start = 0; start < rows; start += per)
             {
                 int n = Math.Min(per, rows - start);
-                if (!RunImage(packed.Slice(start * layout.PackedBytes, n * layout.PackedBytes), n, results.Slice(start, n), out failure))
+                if (!RunImage(packed.Slice(start * layout.PackedBytes, n * layout.PackedBytes), n,
+                    results.Slice(start, n), out failure))
                     return false;
             }
             failure = "";
@@ -94,7 +107,8 @@ public sealed class CortexM3Runner : ITargetRunner
         {
             int image = ++_images;
             var main = $"emit-harness-main-{image}.c";
-            File.WriteAllText(Path.Combine(dir, main), HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows, _decisions));
+            File.WriteAllText(Path.Combine(dir, main),
+                HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows, _decisions));
             var obj = $"emit-harness-main-{image}.o";
             if (!Compile(Path.Combine(dir, main), obj, "the harness main", out failure)) return false;
             var elf = Path.Combine(dir, $"emit-image-{image}.elf");
@@ -116,7 +130,8 @@ public sealed class CortexM3Runner : ITargetRunner
                 settings.Limit, dir);
             if (run.TimedOut)
             {
-                failure = $"qemu did not finish image {image} within {settings.Limit.TotalSeconds:F0} s (the image hangs)";
+                failure = $"qemu did not finish image {image} within {settings.Limit.TotalSeconds:F0} s (the image " +
+                    "hangs)";
                 return false;
             }
             if (run.ExitCode != 0)
@@ -139,7 +154,8 @@ public sealed class CortexM3Runner : ITargetRunner
             var end = "end " + rows.ToString(CultureInfo.InvariantCulture);
             if (lines.Length != rows + 2 || lines[^1] != end)
             {
-                failure = $"image {image} printed {lines.Length - 1} lines for {rows} inputs (last: \"{HarnessLayout.Shorten(lines[^1])}\")";
+                failure = $"image {image} printed {lines.Length - 1} lines for {rows} inputs (last: " +
+                    $"\"{HarnessLayout.Shorten(lines[^1])}\")";
                 return false;
             }
             for (int r = 0; r < rows; r++)

@@ -7,8 +7,11 @@ namespace Emit.Harness;
 /// </summary>
 public sealed class ErrorHistogram
 {
+    /// <summary>Decimal exponent of the lowest bin edge.</summary>
     public const int MinExponent = -18;
+    /// <summary>Decimal exponent of the highest bin edge.</summary>
     public const int MaxExponent = 3;
+    /// <summary>Bins in each decade.</summary>
     public const int BinsPerDecade = 4;
 
     private readonly long[] _counts = new long[(MaxExponent - MinExponent) * BinsPerDecade];
@@ -22,6 +25,7 @@ public sealed class ErrorHistogram
     /// <summary>Errors of 10^MaxExponent or more, infinite, or not a number.</summary>
     public long Above { get; private set; }
 
+    /// <summary>Number of bins between 10^MinExponent and 10^MaxExponent.</summary>
     public int BinCount => _counts.Length;
 
     /// <summary>Count of bin <paramref name="k"/>: errors in [LowerEdge(k), LowerEdge(k + 1)).</summary>
@@ -30,6 +34,7 @@ public sealed class ErrorHistogram
     /// <summary>Lower edge of bin <paramref name="k"/> as a power of ten.</summary>
     public static double LowerExponent(int k) => MinExponent + k / (double)BinsPerDecade;
 
+    /// <summary>Every error counted: exact, below, in the bins and above.</summary>
     public long Total => Exact + Below + Above + _counts.Sum();
 
     internal void Add(double error)

@@ -6,8 +6,11 @@ namespace Emit.Harness;
 /// <summary>Runs external programs (compilers, dotnet, qemu) with captured output and an outer time limit.</summary>
 public static class ExternalProcess
 {
-    /// <summary>Start information with redirected streams, arguments passed one by one (no shell), and quiet dotnet.</summary>
-    public static ProcessStartInfo StartInfo(string program, IEnumerable<string> args, string? workDir, bool redirectInput)
+    /// <summary>
+    /// Start information with redirected streams, arguments passed one by one (no shell), and quiet dotnet.
+    /// </summary>
+    public static ProcessStartInfo StartInfo(string program, IEnumerable<string> args, string? workDir,
+        bool redirectInput)
     {
         var psi = new ProcessStartInfo(program)
         {
@@ -27,10 +30,11 @@ public static class ExternalProcess
     }
 
     /// <summary>
-    /// Runs <paramref name="program"/> to completion, feeding <paramref name="stdin"/> when given. A program still running
-    /// after <paramref name="timeout"/> is killed with its children and reported as timed out.
+    /// Runs <paramref name="program"/> to completion, feeding <paramref name="stdin"/> when given. A program still
+    /// running after <paramref name="timeout"/> is killed with its children and reported as timed out.
     /// </summary>
-    public static ProcessResult Run(string program, IEnumerable<string> args, TimeSpan timeout, string? workDir = null, string? stdin = null)
+    public static ProcessResult Run(string program, IEnumerable<string> args, TimeSpan timeout, string? workDir = null,
+        string? stdin = null)
     {
         var watch = Stopwatch.StartNew();
         using var p = new Process { StartInfo = StartInfo(program, args, workDir, stdin is not null) };
@@ -40,7 +44,8 @@ public static class ExternalProcess
         }
         catch (System.ComponentModel.Win32Exception e)
         {
-            throw new EmitException($"cannot start {program}: {e.Message}", "check that the program exists and is executable");
+            throw new EmitException($"cannot start {program}: {e.Message}",
+                "check that the program exists and is executable");
         }
         var stdoutTask = p.StandardOutput.ReadToEndAsync();
         var stderrTask = p.StandardError.ReadToEndAsync();
@@ -59,7 +64,8 @@ public static class ExternalProcess
         bool timedOut = !p.WaitForExit(timeout);
         if (timedOut) Kill(p);
         p.WaitForExit();
-        return new ProcessResult(timedOut ? -1 : p.ExitCode, stdoutTask.Result, stderrTask.Result, timedOut, watch.Elapsed.TotalSeconds);
+        return new ProcessResult(timedOut ? -1 : p.ExitCode, stdoutTask.Result, stderrTask.Result, timedOut,
+            watch.Elapsed.TotalSeconds);
     }
 
     /// <summary>Kills a process and its children, ignoring one that has already exited.</summary>

@@ -7,7 +7,8 @@ namespace Emit.Harness;
 /// </summary>
 /// <param name="Feature">The feature's name as the reports spell it: <c>filter</c>, <c>explain</c>, <c>stream</c>,
 /// <c>classify</c>.</param>
-/// <param name="Checks">Results compared with the reference (one per input, step or walk; the feature says which).</param>
+/// <param name="Checks">Results compared with the reference (one per input, step or walk; the feature says
+/// which).</param>
 /// <param name="Mismatches">Compared results that disagreed beyond what the feature's stated bound allows.</param>
 /// <param name="Detail">One line on what was compared and against what (for the reports).</param>
 /// <param name="Failures">Why the feature failed, one sentence each (the first few mismatches); empty when it passed.

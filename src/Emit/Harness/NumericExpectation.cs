@@ -7,12 +7,13 @@ namespace Emit.Harness;
 
 /// <summary>
 /// What a generated scorer in one numeric mode must deliver, and how to read its results: the width and scale of its
-/// result, the error bound it is held to (and how that bound is derived), the bit-exact integer simulator in fixed mode,
-/// and the allowance for the threshold's own rounding.
+/// result, the error bound it is held to (and how that bound is derived), the bit-exact integer simulator in fixed
+/// mode, and the allowance for the threshold's own rounding.
 /// </summary>
 public sealed class NumericExpectation
 {
-    private NumericExpectation(NumericMode mode, string weights, int energyBytes, double scale, double errorBound, string basis, FixedPointSimulator? simulator, double? threshold, double thresholdAllowance)
+    private NumericExpectation(NumericMode mode, string weights, int energyBytes, double scale, double errorBound,
+        string basis, FixedPointSimulator? simulator, double? threshold, double thresholdAllowance)
     {
         Mode = mode;
         Weights = weights;
@@ -25,6 +26,7 @@ public sealed class NumericExpectation
         ThresholdAllowance = thresholdAllowance;
     }
 
+    /// <summary>The numeric mode of the generated code.</summary>
     public NumericMode Mode { get; }
 
     /// <summary>How coefficients are stored: f32 or f64 in the float modes, int8/int16/int32 in fixed mode.</summary>
@@ -45,7 +47,9 @@ public sealed class NumericExpectation
     /// <summary>One sentence saying how <see cref="ErrorBound"/> is derived.</summary>
     public string BoundBasis { get; }
 
-    /// <summary>Fixed mode: the bit-exact simulation of the generated integer arithmetic; null in the float modes.</summary>
+    /// <summary>
+    /// Fixed mode: the bit-exact simulation of the generated integer arithmetic; null in the float modes.
+    /// </summary>
     public FixedPointSimulator? Simulator { get; }
 
     /// <summary>The model's threshold (nats), or null.</summary>
@@ -54,9 +58,12 @@ public sealed class NumericExpectation
     /// <summary>How far the threshold in generated code may lie from the model's (its rounding to the mode).</summary>
     public double ThresholdAllowance { get; }
 
+    /// <summary>True in fixed mode, where results must also match the bit-exact simulator.</summary>
     public bool IsFixed => Simulator is not null;
 
-    /// <summary>Plans the expectation; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.</summary>
+    /// <summary>
+    /// Plans the expectation; throws <see cref="EmitException"/> when the model cannot be compiled in this mode.
+    /// </summary>
     public static NumericExpectation For(BoltzmannModel model, NumericMode mode, FixedPointOptions? fixedOptions)
     {
         var inv = CultureInfo.InvariantCulture;
@@ -65,20 +72,28 @@ public sealed class NumericExpectation
         {
             double generated = FloatErrorBound.Worst(model, mode);
             double allowance = model.Threshold is { } t ? Math.Abs(Literals.Round(t, mode, "threshold") - t) : 0;
-            var basis = $"{mode.ToText()} forward error analysis of the generated code ({generated.ToString("G3", inv).ToLowerInvariant()} nats: " +
-                        $"unit roundoff {FloatErrorBound.UnitRoundoff(mode).ToString("G3", inv).ToLowerInvariant()}, exp/log within {FloatErrorBound.LibmUlps.ToString(inv)} ulps, " +
-                        $"all units on) plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
-            return new NumericExpectation(mode, mode.ToText(), mode == NumericMode.F32 ? 4 : 8, 1.0, generated + reference, basis, null, model.Threshold, allowance);
+            var basis = $"{mode.ToText()} forward error analysis of the generated code " +
+                $"({generated.ToString("G3", inv).ToLowerInvariant()} nats: " +
+                        $"unit roundoff {FloatErrorBound.UnitRoundoff(mode).ToString("G3", inv).ToLowerInvariant()}, " +
+                        $"exp/log within {FloatErrorBound.LibmUlps.ToString(inv)} ulps, " +
+                        "all units on) plus the reference scorer's own bound " +
+                        $"({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
+            return new NumericExpectation(mode, mode.ToText(), mode == NumericMode.F32 ? 4 : 8, 1.0,
+                generated + reference, basis, null, model.Threshold, allowance);
         }
         var options = fixedOptions ?? new FixedPointOptions();
         options.Validate();
         var plan = FixedPointPlanner.Build(model, options);
-        var fixedBasis = $"proved worst-case bound of the integer plan ({plan.ErrorBound.ToString("G3", inv).ToLowerInvariant()} nats: {options.Weights.ToText()} weights, " +
-                         $"{plan.Accumulator.ToText()} accumulator, {options.SoftplusTableSize.ToString(inv)}-segment softplus table) " +
-                         $"plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} nats)";
+        var fixedBasis = "proved worst-case bound of the integer plan " +
+            $"({plan.ErrorBound.ToString("G3", inv).ToLowerInvariant()} nats: {options.Weights.ToText()} weights, " +
+                         $"{plan.Accumulator.ToText()} accumulator, " +
+                         $"{options.SoftplusTableSize.ToString(inv)}-segment softplus table) " +
+                         $"plus the reference scorer's own bound ({reference.ToString("G3", inv).ToLowerInvariant()} " +
+                         "nats)";
         // The generated threshold is floor(t·2^E) (FixedScorerPlan.ThresholdUnits), so an integer result f is above it
         // exactly when f / 2^E > t: the threshold adds nothing to the bound.
-        return new NumericExpectation(mode, options.Weights.ToText(), plan.Accumulator.Bits() / 8, plan.EnergyScale, plan.ErrorBound + reference,
+        return new NumericExpectation(mode, options.Weights.ToText(), plan.Accumulator.Bits() / 8, plan.EnergyScale,
+            plan.ErrorBound + reference,
             fixedBasis, new FixedPointSimulator(plan), model.Threshold, 0);
     }
 

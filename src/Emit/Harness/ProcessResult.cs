@@ -9,7 +9,8 @@ public sealed record ProcessResult(int ExitCode, string Out, string Err, bool Ti
     /// <summary>The last lines of standard error and output, for a one-paragraph failure reason.</summary>
     public string Tail(int maxLines = 12)
     {
-        var lines = (Err + "\n" + Out).Split('\n', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
+        var lines = (Err + "\n" + Out).Split('\n',
+            StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
         return string.Join("\n", lines.Take(maxLines));
     }
 }

@@ -35,8 +35,12 @@ internal sealed class ProcessSession : IScorerSession
 
     public int? SelfTestFailures { get; private set; }
 
-    /// <summary>Starts <paramref name="program"/> and reads its first line; null with a reason when it does not start as a harness.</summary>
-    public static ProcessSession? Start(string program, IEnumerable<string> args, string workDir, HarnessLayout layout, TimeSpan timeout, string what, out string failure)
+    /// <summary>
+    /// Starts <paramref name="program"/> and reads its first line; null with a reason when it does not start as a
+    /// harness.
+    /// </summary>
+    public static ProcessSession? Start(string program, IEnumerable<string> args, string workDir, HarnessLayout layout,
+        TimeSpan timeout, string what, out string failure)
     {
         var p = new Process { StartInfo = ExternalProcess.StartInfo(program, args, workDir, redirectInput: true) };
         try
@@ -58,7 +62,8 @@ internal sealed class ProcessSession : IScorerSession
         if (timedOut)
         {
             ExternalProcess.Kill(p);
-            failure = $"{what} did not answer within {timeout.TotalSeconds:F0} s (stopped before its first line; the self-test or the scorer hangs)";
+            failure = $"{what} did not answer within {timeout.TotalSeconds:F0} s (stopped before its first line; the " +
+                "self-test or the scorer hangs)";
         }
         else if (header is null) failure = session.Ended("before its first line");
         else selfTest = layout.ReadHeader(header, out failure);
@@ -108,7 +113,8 @@ internal sealed class ProcessSession : IScorerSession
             {
                 _broken = true;
                 ExternalProcess.Kill(_process);
-                failure = $"{_what} did not answer within {_timeout.TotalSeconds:F0} s (stopped after {r} of {rows} inputs of this batch)";
+                failure = $"{_what} did not answer within {_timeout.TotalSeconds:F0} s (stopped after {r} of {rows} " +
+                    "inputs of this batch)";
                 return false;
             }
             if (line is null)
@@ -147,7 +153,8 @@ internal sealed class ProcessSession : IScorerSession
         string err;
         lock (_stderr) err = _stderr.ToString().Trim();
         var status = _process.ExitCode;
-        var what = status >= 128 ? $"was killed by signal {status - 128}" : status < 0 ? $"was killed by signal {-status}" : $"exited with status {status}";
+        var what = status >= 128 ? $"was killed by signal {status - 128}" : status < 0
+            ? $"was killed by signal {-status}" : $"exited with status {status}";
         var reason = $"{_what} {what} {when}";
         if (err.Length > 0) reason += ": " + string.Join(" | ", err.Split('\n').Take(8));
         return reason;

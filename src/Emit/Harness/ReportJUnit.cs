@@ -5,12 +5,13 @@ using System.Xml;
 namespace Emit.Harness;
 
 /// <summary>
-/// The JUnit XML report CI servers read: one <c>testsuites</c> holding one <c>testsuite</c> with one <c>testcase</c> per
-/// target; a failed target has a <c>failure</c> element whose message is the first reason and whose text lists them all.
-/// The model and its SHA-256 go into the suite's <c>properties</c>.
+/// The JUnit XML report CI servers read: one <c>testsuites</c> holding one <c>testsuite</c> with one <c>testcase</c>
+/// per target; a failed target has a <c>failure</c> element whose message is the first reason and whose text lists them
+/// all. The model and its SHA-256 go into the suite's <c>properties</c>.
 /// </summary>
 public static class ReportJUnit
 {
+    /// <summary>Writes <paramref name="report"/> as JUnit XML, one test case per target.</summary>
     public static void Write(VerifyReport report, Stream output)
     {
         var inv = CultureInfo.InvariantCulture;
@@ -52,7 +53,8 @@ public static class ReportJUnit
             if (!t.Passed)
             {
                 w.WriteStartElement("failure");
-                w.WriteAttributeString("message", Clean(t.Failures.FirstOrDefault() ?? "failed").Split('\n')[0]);
+                var first = t.Failures.Count > 0 ? t.Failures[0] : "failed";
+                w.WriteAttributeString("message", Clean(first).Split('\n')[0]);
                 w.WriteAttributeString("type", "emit.verify.mismatch");
                 w.WriteString(Clean(string.Join("\n", t.Failures)));
                 w.WriteEndElement();
@@ -78,7 +80,8 @@ public static class ReportJUnit
         if (!f.Passed)
         {
             w.WriteStartElement("failure");
-            w.WriteAttributeString("message", Clean(f.Failures.FirstOrDefault() ?? $"{f.Mismatches} mismatches").Split('\n')[0]);
+            var first = f.Failures.Count > 0 ? f.Failures[0] : $"{f.Mismatches} mismatches";
+            w.WriteAttributeString("message", Clean(first).Split('\n')[0]);
             w.WriteAttributeString("type", "emit.verify.feature");
             w.WriteString(Clean(string.Join("\n", f.Failures)));
             w.WriteEndElement();
@@ -93,9 +96,12 @@ public static class ReportJUnit
     {
         var inv = CultureInfo.InvariantCulture;
         string G(double? x) => x is { } v ? v.ToString("G4", inv) : "-";
-        return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound {G(t.ErrorBound)} nats, " +
-               $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches {t.DecisionMismatches} " +
-               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash {(t.ModelHashMatches ? "matches" : "DIFFERS")}" +
+        return $"vectors {t.Vectors}, max |error| {G(t.MaxAbsError)}, mean |error| {G(t.MeanAbsError)}, bound " +
+            $"{G(t.ErrorBound)} nats, " +
+               $"bit-exact {(t.BitExact is { } b ? (b ? "yes" : "no") : "n/a")}, decision mismatches " +
+               $"{t.DecisionMismatches} " +
+               $"(unexplained {t.UnexplainedMismatches}), sources {t.Sources}, model hash " +
+               $"{(t.ModelHashMatches ? "matches" : "DIFFERS")}" +
                (t.SourcesMatch is { } match ? $", sources {(match ? "as generated" : "NOT as generated")}" : "") +
                (t.Compared ? "" : ", numbers not compared");
     }
@@ -114,7 +120,8 @@ public static class ReportJUnit
         var sb = new StringBuilder(text.Length);
         for (int i = 0; i < text.Length; i++)
         {
-            if (i + 1 < text.Length && XmlConvert.IsXmlSurrogatePair(text[i + 1], text[i])) sb.Append(text[i]).Append(text[++i]);
+            if (i + 1 < text.Length && XmlConvert.IsXmlSurrogatePair(text[i + 1], text[i]))
+                sb.Append(text[i]).Append(text[++i]);
             else if (XmlConvert.IsXmlChar(text[i]) && (text[i] >= ' ' || text[i] is '\n' or '\t')) sb.Append(text[i]);
         }
         return sb.ToString();

@@ -8,6 +8,7 @@ public static class ReportJson
     /// <summary>Format version of the JSON report.</summary>
     public const int Format = 1;
 
+    /// <summary>Writes <paramref name="report"/> as JSON (docs/verify-report.md).</summary>
     public static void Write(VerifyReport report, Utf8JsonWriter w)
     {
         w.WriteStartObject();
@@ -42,9 +43,11 @@ public static class ReportJson
             w.WriteNumber("decision_mismatches", t.DecisionMismatches);
             w.WriteNumber("unexplained_mismatches", t.UnexplainedMismatches);
             w.WriteNumber("entry_point_mismatches", t.EntryPointMismatches);
-            if (t.SelfTestFailures is { } st) w.WriteNumber("selftest_failures", st); else w.WriteNull("selftest_failures");
+            if (t.SelfTestFailures is { } st)
+                w.WriteNumber("selftest_failures", st); else w.WriteNull("selftest_failures");
             w.WriteString("sources", t.Sources);
-            if (t.SourceModelSha256 is { } sha) w.WriteString("source_model_sha256", sha); else w.WriteNull("source_model_sha256");
+            if (t.SourceModelSha256 is { } sha)
+                w.WriteString("source_model_sha256", sha); else w.WriteNull("source_model_sha256");
             w.WriteBoolean("model_hash_matches", t.ModelHashMatches);
             if (t.Manifest is { } manifest) w.WriteString("manifest", manifest); else w.WriteNull("manifest");
             if (t.SourcesMatch is { } match) w.WriteBoolean("sources_match", match); else w.WriteNull("sources_match");
@@ -90,7 +93,10 @@ public static class ReportJson
         w.WriteEndObject();
     }
 
-    /// <summary>A number, or null when absent; infinity and not-a-number (which JSON lacks) are written as the strings "inf"/"nan".</summary>
+    /// <summary>
+    /// A number, or null when absent; infinity and not-a-number (which JSON lacks) are written as the strings
+    /// "inf"/"nan".
+    /// </summary>
     private static void Number(Utf8JsonWriter w, string name, double? value)
     {
         if (value is not { } x) w.WriteNull(name);

@@ -5,12 +5,16 @@ namespace Emit.Harness;
 /// <summary>The human-readable report: a table with one row per target, then the reasons for each failure.</summary>
 public static class ReportText
 {
+    /// <summary>Writes <paramref name="report"/> as text for a terminal.</summary>
     public static void Write(VerifyReport report, TextWriter o)
     {
         var inv = CultureInfo.InvariantCulture;
-        o.WriteLine($"emit verify: {report.Model} (sha256 {report.ModelSha256[..16]}...), {report.Vectors} vectors from {report.Input}");
+        o.WriteLine(
+            $"emit verify: {report.Model} (sha256 {report.ModelSha256[..16]}...), {report.Vectors} vectors from " +
+            $"{report.Input}");
         foreach (var w in report.Warnings) o.WriteLine("warning: " + w);
-        string[] head = ["target", "numeric", "weights", "vectors", "max |err|", "mean |err|", "bound", "bit-exact", "decisions", "unexplained", "s/vector", "verdict"];
+        string[] head = ["target", "numeric", "weights", "vectors", "max |err|", "mean |err|", "bound", "bit-exact",
+            "decisions", "unexplained", "s/vector", "verdict"];
         var rows = new List<string[]> { head };
         foreach (var t in report.Targets)
             rows.Add(
@@ -23,7 +27,9 @@ public static class ReportText
             ]);
         var widths = Enumerable.Range(0, head.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
         foreach (var r in rows)
-            o.WriteLine(string.Join("  ", r.Select((cell, c) => c == r.Length - 1 ? cell : cell.PadRight(widths[c]))).TrimEnd());
+            o.WriteLine(
+                string.Join("  ",
+                    r.Select((cell, c) => c == r.Length - 1 ? cell : cell.PadRight(widths[c]))).TrimEnd());
         foreach (var t in report.Targets)
         {
             foreach (var f in t.Features)
@@ -46,5 +52,6 @@ public static class ReportText
         o.WriteLine("Caution: " + VerifyReport.Caution);
     }
 
-    private static string G(double? x) => x is { } v ? v.ToString("G3", CultureInfo.InvariantCulture).ToLowerInvariant() : "-";
+    private static string G(double? x) =>
+        x is { } v ? v.ToString("G3", CultureInfo.InvariantCulture).ToLowerInvariant() : "-";
 }

@@ -15,7 +15,8 @@ public readonly record struct ScoredRow(ulong Bits, bool SameBits, sbyte Decisio
     {
         if (Features is null) return null;
         foreach (var word in Features.Split(' '))
-            if (word.Length > name.Length && word[name.Length] == ':' && word.StartsWith(name, StringComparison.Ordinal))
+            if (word.Length > name.Length && word[name.Length] == ':'
+                && word.StartsWith(name, StringComparison.Ordinal))
                 return word[(name.Length + 1)..];
         return null;
     }

@@ -45,6 +45,7 @@ public sealed class ScorerSources
     /// <summary>C#: the namespace and class name of the generated class.</summary>
     public string? Namespace => Language == "csharp" ? Manifest.Namespace : null;
 
+    /// <summary>The generated C# class name, or null for C sources.</summary>
     public string? ClassName => Language == "csharp" ? Manifest.CSharpClass : null;
 
     /// <summary>C#: the class as a fully qualified expression.</summary>
@@ -97,7 +98,8 @@ public sealed class ScorerSources
                 throw System.IO.Directory.GetFiles(directory, "*" + ext).Length > 0
                     ? NoManifest(directory, language, null)
                     : new EmitException($"no generated scorer here (no {SourceManifest.FileNameFor("NAME")} manifest)",
-                        $"run emit compile --target {language} --out {directory}, or pass {Setting.Name.Ref()}", directory);
+                        $"run emit compile --target {language} --out {directory}, or pass {Setting.Name.Ref()}",
+                        directory);
             }
             name = candidates.Count == 1 ? candidates[0]
                 : candidates.Contains(defaultName) ? defaultName

@@ -8,23 +8,29 @@ namespace Emit.Harness;
 /// Accumulates one target's results against the reference, input by input, in constant memory, and gives the verdict:
 /// a target passes when its largest error is within the bound, in fixed mode every result equals the integer
 /// simulator's, both entry points agree, the embedded self-test passes, and every decision that differs from the
-/// reference is explained by the bound (the reference free energy lies within bound + threshold rounding of the threshold).
-/// With <c>failOnDecisionMismatch</c> any decision that differs fails the target, explained or not.
+/// reference is explained by the bound (the reference free energy lies within bound + threshold rounding of the
+/// threshold). With <c>failOnDecisionMismatch</c> any decision that differs fails the target, explained or not.
 /// </summary>
 public sealed class TargetComparison(NumericExpectation expectation, bool failOnDecisionMismatch = false)
 {
     private const int Examples = 3;
 
     private readonly ErrorHistogram _histogram = new();
-    private readonly List<string> _bitExamples = [], _decisionExamples = [], _entryExamples = [], _anyDecisionExamples = [];
+    private readonly List<string> _bitExamples = [], _decisionExamples = [], _entryExamples = [],
+        _anyDecisionExamples = [];
     private long _count, _bitMismatches, _decisionMismatches, _unexplained, _entryMismatches, _worst = -1;
     private double _sum, _max;
 
+    /// <summary>What the results are compared against.</summary>
     public NumericExpectation Expectation => expectation;
 
+    /// <summary>Results compared so far.</summary>
     public long Count => _count;
 
-    /// <summary>Compares the result for input <paramref name="index"/> (from 0); <paramref name="expectedRaw"/> is the simulator's integer in fixed mode.</summary>
+    /// <summary>
+    /// Compares the result for input <paramref name="index"/> (from 0); <paramref name="expectedRaw"/> is the
+    /// simulator's integer in fixed mode.
+    /// </summary>
     public void Add(long index, double reference, long? expectedRaw, in ScoredRow row)
     {
         var inv = CultureInfo.InvariantCulture;
@@ -53,9 +59,14 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
             if (referenceUnusual != generatedUnusual)
             {
                 if (_decisionMismatches++ < Examples)
-                    _anyDecisionExamples.Add($"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = {generated.ToString("R", inv)}");
-                if (!(Math.Abs(reference - t) <= expectation.ErrorBound + expectation.ThresholdAllowance) && _unexplained++ < Examples)
-                    _decisionExamples.Add($"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = {generated.ToString("R", inv)}, " +
+                    _anyDecisionExamples.Add(
+                        $"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = " +
+                        $"{generated.ToString("R", inv)}");
+                if (!(Math.Abs(reference - t) <= expectation.ErrorBound + expectation.ThresholdAllowance)
+                    && _unexplained++ < Examples)
+                    _decisionExamples.Add(
+                        $"vector {index}: reference F = {reference.ToString("R", inv)}, generated F = " +
+                        $"{generated.ToString("R", inv)}, " +
                                           $"generated says {(generatedUnusual ? "unusual" : "usual")}");
             }
         }
@@ -63,10 +74,11 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
 
     /// <summary>
     /// The verdict and figures; <paramref name="runFailures"/> are failures to build or run the target,
-    /// <paramref name="features"/> the checks of the firmware features emitted beside the scorer (each failing feature
-    /// fails the target).
+    /// <paramref name="features"/> the checks of the firmware features emitted beside the scorer (each failing
+    /// feature fails the target).
     /// </summary>
-    public TargetResult Finish(string target, ScorerSources? sources, bool generatedHere, string modelSha256, int? selfTestFailures,
+    public TargetResult Finish(string target, ScorerSources? sources, bool generatedHere, string modelSha256,
+        int? selfTestFailures,
         IReadOnlyList<string> runFailures, double buildSeconds, double scoreSeconds, SourceCheckResult? check = null,
         IReadOnlyList<FeatureResult>? features = null)
     {
@@ -78,16 +90,26 @@ public sealed class TargetComparison(NumericExpectation expectation, bool failOn
                          (f.Failures.Count > 0 ? $" ({string.Join("; ", f.Failures)})" : ""));
         double bound = expectation.ErrorBound;
         if (_count > 0 && !(_max <= bound))
-            failures.Add($"largest |error| {_max.ToString("G4", inv)} nats (vector {_worst}) is above the bound {bound.ToString("G4", inv)} nats");
+            failures.Add(
+                $"largest |error| {_max.ToString("G4", inv)} nats (vector {_worst}) is above the bound " +
+                $"{bound.ToString("G4", inv)} nats");
         if (_bitMismatches > 0)
-            failures.Add($"{_bitMismatches} of {_count} results differ from the integer simulator ({string.Join("; ", _bitExamples)})");
+            failures.Add(
+                $"{_bitMismatches} of {_count} results differ from the integer simulator " +
+                $"({string.Join("; ", _bitExamples)})");
         if (_unexplained > 0)
-            failures.Add($"{_unexplained} of {_decisionMismatches} decision mismatches are farther from the threshold than the bound allows ({string.Join("; ", _decisionExamples)})");
+            failures.Add(
+                $"{_unexplained} of {_decisionMismatches} decision mismatches are farther from the threshold than " +
+                $"the bound allows ({string.Join("; ", _decisionExamples)})");
         if (failOnDecisionMismatch && _decisionMismatches > 0)
-            failures.Add($"{_decisionMismatches} of {_count} decisions differ from the reference, within the bound or not, and every difference fails " +
+            failures.Add(
+                $"{_decisionMismatches} of {_count} decisions differ from the reference, within the bound or not, " +
+                "and every difference fails " +
                          $"({string.Join("; ", _anyDecisionExamples)})");
         if (_entryMismatches > 0)
-            failures.Add($"the packed and one-byte-per-unit entry points differ on {_entryMismatches} inputs ({string.Join("; ", _entryExamples)})");
+            failures.Add(
+                $"the packed and one-byte-per-unit entry points differ on {_entryMismatches} inputs " +
+                $"({string.Join("; ", _entryExamples)})");
         if (selfTestFailures is > 0)
             failures.Add($"the embedded self-test reports {selfTestFailures} failing vectors");
         if (_count == 0 && failures.Count == 0 && check is not { Compare: false })

@@ -6,7 +6,10 @@ namespace Emit.Harness;
 /// <param name="Purpose">What it is for, for messages ("C compiler").</param>
 public sealed record Tool(string Program, string Package, string Purpose)
 {
-    /// <summary>Full path of <paramref name="program"/>: itself when it names an existing file, else the first match on PATH; null when missing.</summary>
+    /// <summary>
+    /// Full path of <paramref name="program"/>: itself when it names an existing file, else the first match on PATH;
+    /// null when missing.
+    /// </summary>
     public static string? Find(string program)
     {
         if (program.Length == 0) return null;
@@ -21,7 +24,9 @@ public sealed record Tool(string Program, string Package, string Purpose)
         return null;
     }
 
-    /// <summary>The tool's full path; throws an <see cref="EmitException"/> naming the package to install when it is missing.</summary>
+    /// <summary>
+    /// The tool's full path; throws an <see cref="EmitException"/> naming the package to install when it is missing.
+    /// </summary>
     public string Require(string target, string? alternative = null)
     {
         var path = Find(Program);

@@ -14,21 +14,27 @@ namespace Emit.Harness;
 public static class Verifier
 {
     /// <summary>
-    /// Verifies; throws <see cref="EmitException"/> for bad input or a missing tool (before anything is built). Failures of
-    /// the generated code (does not compile, crashes, wrong numbers) are verdicts in the report, not exceptions.
+    /// Verifies; throws <see cref="EmitException"/> for bad input or a missing tool (before anything is built).
+    /// Failures of the generated code (does not compile, crashes, wrong numbers) are verdicts in the report, not
+    /// exceptions.
     /// </summary>
     public static VerifyReport Run(VerifyRequest request)
     {
         var model = request.Model;
-        if (request.Targets.Count == 0) throw new EmitException("no target given", $"use {Setting.Targets.Ref()} with one or more of: {Runners.NameList}");
+        if (request.Targets.Count == 0)
+            throw new EmitException("no target given",
+                $"use {Setting.Targets.Ref()} with one or more of: {Runners.NameList}");
         var runners = new List<ITargetRunner>();
         foreach (var name in request.Targets)
         {
-            var runner = Runners.Find(name) ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"", $"use one or more of: {Runners.NameList}");
+            var runner = Runners.Find(name)
+                ?? throw new EmitException($"unknown target \"{Naming.CommentText(name)}\"",
+                    $"use one or more of: {Runners.NameList}");
             if (!runners.Contains(runner)) runners.Add(runner);
         }
         foreach (var runner in runners) runner.CheckTools(request.Settings);
-        if (request.BatchRows < 1) throw new ArgumentOutOfRangeException(nameof(request), "BatchRows must be at least 1");
+        if (request.BatchRows < 1)
+            throw new ArgumentOutOfRangeException(nameof(request), "BatchRows must be at least 1");
 
         var languages = runners.Select(r => r.Language).Distinct().ToArray();
         var defaultName = request.Name ?? Naming.ScorerNameFromFile(request.ModelLabel);
@@ -40,14 +46,18 @@ public static class Verifier
         var mode = ResolveMode(request, located.Values);
         var fixedOptions = mode == NumericMode.Fixed ? ResolveFixed(request, located.Values) : null;
         if (request.Fixed is not null && mode != NumericMode.Fixed)
-            throw new EmitException($"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}", $"leave them out, or use {Setting.Numeric.Ref()} fixed");
+            throw new EmitException(
+                $"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to " +
+                $"{Setting.Numeric.Ref()} fixed, not {mode.ToText()}",
+                $"leave them out, or use {Setting.Numeric.Ref()} fixed");
         var filter = ResolveFilter(request, located.Values);
         CompiledClassifier? classifier = null;
         if (request.MoreModels.Count > 0)
         {
             if (request.GeneratedDirectory is not null)
                 throw new EmitException("verify --generated checks one scorer of a classifier at a time",
-                    $"give one model with {Setting.Name.Ref()} NAME_k, or leave --generated out to generate and check the classifier");
+                    $"give one model with {Setting.Name.Ref()} NAME_k, or leave --generated out to generate and " +
+                    "check the classifier");
             classifier = ClassifierCompiler.Build([model, .. request.MoreModels.Select(m => m.Model)],
                 [request.ModelLabel, .. request.MoreModels.Select(m => m.Label)], request.Priors,
                 new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter));
@@ -60,7 +70,8 @@ public static class Verifier
         var checks = new Dictionary<string, SourceCheckResult>();
         foreach (var (language, sources) in located)
         {
-            var check = SourceCheck.Run(sources, model, request.ModelLabel, request.AllowModelChange, request.TemplatesDirectory);
+            var check = SourceCheck.Run(sources, model, request.ModelLabel, request.AllowModelChange,
+                request.TemplatesDirectory);
             checks[language] = check;
             foreach (var w in check.Warnings)
                 if (!warnings.Contains(w)) warnings.Add(w);
@@ -70,7 +81,8 @@ public static class Verifier
         VectorNames.Check(model, reader);
 
         bool temporary = request.WorkDirectory is null;
-        var work = request.WorkDirectory ?? Path.Combine(Path.GetTempPath(), "emit-verify-" + Guid.NewGuid().ToString("N")[..12]);
+        var work = request.WorkDirectory
+            ?? Path.Combine(Path.GetTempPath(), "emit-verify-" + Guid.NewGuid().ToString("N")[..12]);
         Directory.CreateDirectory(work);
         try
         {
@@ -78,7 +90,8 @@ public static class Verifier
             {
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
-                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter);
+                var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions,
+                    AlarmFilter: filter);
                 var files = classifier?.AllFiles ?? ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles;
                 foreach (var f in files)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
@@ -91,9 +104,11 @@ public static class Verifier
                     }
                     var first = classifier.Scorers[0].Plan.Options.Name;
                     var sources = ScorerSources.Locate(src, language, first, first);
-                    var companions = files.Where(f => !f.FileName.EndsWith(SourceManifest.Suffix, StringComparison.Ordinal)
-                                                      && f.FileName.EndsWith(language == "csharp" ? ".cs" : ".c", StringComparison.Ordinal)
-                                                      && !sources.Files.Any(s => Path.GetFileName(s) == f.FileName))
+                    var ext = language == "csharp" ? ".cs" : ".c";
+                    var companions = files
+                        .Where(f => !f.FileName.EndsWith(SourceManifest.Suffix, StringComparison.Ordinal)
+                                    && f.FileName.EndsWith(ext, StringComparison.Ordinal)
+                                    && !sources.Files.Any(s => Path.GetFileName(s) == f.FileName))
                         .Select(f => Path.Combine(src, f.FileName)).ToArray();
                     var view = new ClassifierView(classifier.Plan, language);
                     var type = mode switch
@@ -106,24 +121,28 @@ public static class Verifier
                         $"global::{options.Namespace}.{view.ClassName}", classifier.Plan.Count, type), companions);
                 }
             }
-            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings, classifier?.Plan);
+            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings,
+                classifier?.Plan);
         }
         finally
         {
             if (temporary)
-                try { Directory.Delete(work, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+                try { Directory.Delete(work,
+                    recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
         }
     }
 
-    private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string, ScorerSources> located,
-        Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout, VectorReader reader, string work, List<string> warnings,
-        ClassifierPlan? classifier)
+    private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string,
+        ScorerSources> located,
+        Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout,
+        VectorReader reader, string work, List<string> warnings, ClassifierPlan? classifier)
     {
         var model = request.Model;
         var states = new List<State>();
         foreach (var runner in runners)
         {
-            var state = new State(runner, located[runner.Language], new TargetComparison(expectation, request.FailOnDecisionMismatch),
+            var state = new State(runner, located[runner.Language],
+                new TargetComparison(expectation, request.FailOnDecisionMismatch),
                 checks.GetValueOrDefault(runner.Language));
             if (located[runner.Language].Manifest.AlarmFilter is { } spec) state.Filter = new FilterCheck(spec);
             if (classifier is not null) state.Classify = new ClassifyCheck(classifier, expectation);
@@ -137,7 +156,8 @@ public static class Verifier
                 }
             }
             var watch = Stopwatch.StartNew();
-            state.Session = runner.Start(state.Sources, layout, request.Settings, Path.Combine(work, runner.Name), out var failure);
+            state.Session = runner.Start(state.Sources, layout, request.Settings, Path.Combine(work, runner.Name),
+                out var failure);
             state.BuildSeconds = watch.Elapsed.TotalSeconds;
             if (state.Session is null) state.Failures.Add(failure);
             else state.SelfTest = state.Session.SelfTestFailures;
@@ -182,7 +202,8 @@ public static class Verifier
                     }
                     for (int r = 0; r < rows; r++)
                     {
-                        s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null, results[r]);
+                        s.Comparison.Add(index + r, reference[r], expectation.IsFixed ? expectedRaw[r] : null,
+                            results[r]);
                         s.Filter?.Add(index + r, reference[r] > model.Threshold, results[r]);
                         s.Classify?.Add(index + r, units.AsSpan(r * v, v), results[r]);
                     }
@@ -190,7 +211,8 @@ public static class Verifier
                 index += rows;
             }
             if (index == 0)
-                throw new EmitException("the vector file has a header but no vectors", "write one vector of 0/1 values per line", reader.Source);
+                throw new EmitException("the vector file has a header but no vectors",
+                    "write one vector of 0/1 values per line", reader.Source);
         }
         finally
         {
@@ -205,15 +227,19 @@ public static class Verifier
             Input = reader.Source,
             Vectors = index,
             Threshold = model.Threshold,
-            Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources, request.GeneratedDirectory is null, model.Sha256, s.SelfTest,
-                s.Failures, s.BuildSeconds, s.ScoreSeconds, s.Check, s.Features())).ToArray(),
+            Targets = states.Select(s => s.Comparison.Finish(s.Runner.Name, s.Sources,
+                request.GeneratedDirectory is null, model.Sha256, s.SelfTest, s.Failures, s.BuildSeconds,
+                s.ScoreSeconds, s.Check, s.Features())).ToArray(),
             Warnings = warnings,
             AllowModelChange = request.AllowModelChange,
             FailOnDecisionMismatch = request.FailOnDecisionMismatch,
         };
     }
 
-    /// <summary>The requested mode, or the one in the sources' manifest, or f32; a request that contradicts the manifest is an error.</summary>
+    /// <summary>
+    /// The requested mode, or the one in the sources' manifest, or f32; a request that contradicts the manifest is an
+    /// error.
+    /// </summary>
     private static NumericMode ResolveMode(VerifyRequest request, IEnumerable<ScorerSources> sources)
     {
         NumericMode? recorded = null;
@@ -221,16 +247,23 @@ public static class Verifier
         {
             var m = s.Manifest.Numeric;
             if (recorded is { } other && other != m)
-                throw new EmitException($"the C and C# sources were generated with different numeric modes ({other.ToText()}, {m.ToText()})", $"regenerate them with the same {Setting.Numeric.Ref()}", s.Directory);
+                throw new EmitException(
+                    $"the C and C# sources were generated with different numeric modes ({other.ToText()}, " +
+                    $"{m.ToText()})", $"regenerate them with the same {Setting.Numeric.Ref()}", s.Directory);
             recorded = m;
             if (request.Numeric is { } asked && asked != m)
-                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with {Setting.Numeric.Ref()} {m.ToText()}, not {asked.ToText()}",
-                    $"pass {Setting.Numeric.Ref()} {m.ToText()}, or leave {Setting.Numeric.Ref()} out to take it from the manifest", s.ManifestPath);
+                throw new EmitException(
+                    $"{Path.GetFileName(s.SourceFile)} was generated with {Setting.Numeric.Ref()} {m.ToText()}, not " +
+                    $"{asked.ToText()}",
+                    $"pass {Setting.Numeric.Ref()} {m.ToText()}, or leave {Setting.Numeric.Ref()} out to take it " +
+                    "from the manifest", s.ManifestPath);
         }
         return request.Numeric ?? recorded ?? NumericMode.F32;
     }
 
-    /// <summary>Fixed-point options: those requested, else the manifest's; a request that contradicts the manifest is an error.</summary>
+    /// <summary>
+    /// Fixed-point options: those requested, else the manifest's; a request that contradicts the manifest is an error.
+    /// </summary>
     private static FixedPointOptions ResolveFixed(VerifyRequest request, IEnumerable<ScorerSources> sources)
     {
         FixedPointOptions? recorded = null;
@@ -238,11 +271,15 @@ public static class Verifier
         {
             var m = s.Manifest.Fixed ?? new FixedPointOptions();
             if (recorded is not null && recorded != m)
-                throw new EmitException("the C and C# sources were generated with different fixed-point options", "regenerate them with the same options", s.Directory);
+                throw new EmitException("the C and C# sources were generated with different fixed-point options",
+                    "regenerate them with the same options", s.Directory);
             recorded = m;
             if (request.Fixed is { } asked && asked != m)
-                throw new EmitException($"{Path.GetFileName(s.SourceFile)} was generated with other fixed-point options ({Describe(m)}), not {Describe(asked)}",
-                    "leave --weights, --accumulator and --softplus-table out to take them from the manifest", s.ManifestPath);
+                throw new EmitException(
+                    $"{Path.GetFileName(s.SourceFile)} was generated with other fixed-point options ({Describe(m)}), " +
+                    $"not {Describe(asked)}",
+                    "leave --weights, --accumulator and --softplus-table out to take them from the manifest",
+                    s.ManifestPath);
         }
         return request.Fixed ?? recorded ?? new FixedPointOptions();
     }
@@ -251,14 +288,16 @@ public static class Verifier
     /// The alarm filter: the one requested, else the manifest's (none when neither has one); a request that
     /// contradicts the manifest is an error.
     /// </summary>
-    private static Emit.Detection.AlarmFilterSpec? ResolveFilter(VerifyRequest request, IEnumerable<ScorerSources> sources)
+    private static Emit.Detection.AlarmFilterSpec? ResolveFilter(VerifyRequest request,
+        IEnumerable<ScorerSources> sources)
     {
         foreach (var s in sources)
         {
             var m = s.Manifest.AlarmFilter;
             if (request.AlarmFilter is { } asked && asked != m)
                 throw new EmitException(
-                    $"{Path.GetFileName(s.SourceFile)} was generated {(m is null ? "without an alarm filter" : $"with the alarm filter {m}")}, not {asked}",
+                    $"{Path.GetFileName(s.SourceFile)} was generated " +
+                    (m is null ? "without an alarm filter" : $"with the alarm filter {m}") + $", not {asked}",
                     "leave --alarm-filter out to take it from the manifest", s.ManifestPath);
             return m;
         }
@@ -266,9 +305,11 @@ public static class Verifier
     }
 
     private static string Describe(FixedPointOptions o) =>
-        $"--weights {o.Weights.ToText()} --accumulator {(o.Accumulator is { } a ? a.ToText() : "auto")} --softplus-table {o.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+        $"--weights {o.Weights.ToText()} --accumulator {(o.Accumulator is { } a ? a.ToText() : "auto")} " +
+        $"--softplus-table {o.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
 
-    private sealed class State(ITargetRunner runner, ScorerSources sources, TargetComparison comparison, SourceCheckResult? check)
+    private sealed class State(ITargetRunner runner, ScorerSources sources, TargetComparison comparison,
+        SourceCheckResult? check)
     {
         public SourceCheckResult? Check { get; } = check;
         public ITargetRunner Runner { get; } = runner;

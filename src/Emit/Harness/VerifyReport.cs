@@ -9,6 +9,7 @@ public sealed record VerifyReport
     /// <summary>The model's file name (not path).</summary>
     public required string Model { get; init; }
 
+    /// <summary>SHA-256 of the model verified.</summary>
     public required string ModelSha256 { get; init; }
 
     /// <summary>The vector file's name as given.</summary>
@@ -20,6 +21,7 @@ public sealed record VerifyReport
     /// <summary>The model's threshold, or null.</summary>
     public double? Threshold { get; init; }
 
+    /// <summary>One result per target.</summary>
     public required IReadOnlyList<TargetResult> Targets { get; init; }
 
     /// <summary>Things worth knowing that do not fail a target (a model hash differing from the stamped one).</summary>
@@ -34,7 +36,9 @@ public sealed record VerifyReport
     /// <summary>True when every target passed.</summary>
     public bool Passed => Targets.Count > 0 && Targets.All(t => t.Passed);
 
+    /// <summary>The caution printed with every report.</summary>
     public const string Caution =
-        "A monitoring aid, not a safety function: this report compares generated code with the reference scorer; it does not " +
+        "A monitoring aid, not a safety function: this report compares generated code with the reference scorer; it " +
+        "does not " +
         "show that the model detects what matters for the plant. Defer to local codes and licensed practice.";
 }

@@ -7,6 +7,7 @@ namespace Emit.Harness;
 /// <summary>What <c>emit verify</c> was asked to do.</summary>
 public sealed record VerifyRequest
 {
+    /// <summary>The model whose generated code is verified.</summary>
     public required BoltzmannModel Model { get; init; }
 
     /// <summary>The model's file name (not path): names it in reports and gives the default scorer name.</summary>
@@ -15,6 +16,7 @@ public sealed record VerifyRequest
     /// <summary>Vector file, or <c>-</c> for <see cref="Stdin"/>.</summary>
     public required string InputPath { get; init; }
 
+    /// <summary>Standard input, read when <see cref="InputPath"/> is <c>-</c>.</summary>
     public Stream? Stdin { get; init; }
 
     /// <summary>Target names from <see cref="Runners"/>.</summary>
@@ -44,7 +46,10 @@ public sealed record VerifyRequest
     /// <summary>Folder of existing generated sources to check; null: generate into the work folder.</summary>
     public string? GeneratedDirectory { get; init; }
 
-    /// <summary>Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an identifier.</summary>
+    /// <summary>
+    /// Scorer name; null: the one found in <see cref="GeneratedDirectory"/>, or the model file's name made an
+    /// identifier.
+    /// </summary>
     public string? Name { get; init; }
 
     /// <summary>
@@ -53,12 +58,17 @@ public sealed record VerifyRequest
     /// </summary>
     public bool AllowModelChange { get; init; }
 
-    /// <summary>Fail a target on any decision that differs from the reference, even one the error bound explains.</summary>
+    /// <summary>
+    /// Fail a target on any decision that differs from the reference, even one the error bound explains.
+    /// </summary>
     public bool FailOnDecisionMismatch { get; init; }
 
-    /// <summary>The templates folder of sources generated with custom templates (needed to regenerate and compare them).</summary>
+    /// <summary>
+    /// The templates folder of sources generated with custom templates (needed to regenerate and compare them).
+    /// </summary>
     public string? TemplatesDirectory { get; init; }
 
+    /// <summary>Tool paths and time limits for the runners.</summary>
     public RunnerSettings Settings { get; init; } = new();
 
     /// <summary>Where to build; null: a temporary folder deleted afterwards.</summary>

@@ -40,8 +40,11 @@ public sealed class BoltzmannModel
         Validate();
     }
 
+    /// <summary>Which couplings the model has.</summary>
     public ModelKind Kind { get; }
+    /// <summary>Visible units.</summary>
     public int Visible { get; }
+    /// <summary>Hidden units.</summary>
     public int Hidden { get; }
 
     /// <summary>b, one per visible unit.</summary>
@@ -65,6 +68,7 @@ public sealed class BoltzmannModel
     /// <summary>A vector is unusual when F(v) &gt; Threshold.</summary>
     public double? Threshold { get; }
 
+    /// <summary>log Z when known (exact or estimated, with its method), or null.</summary>
     public LogPartition? LogPartition { get; }
 
     /// <summary>The free-form "metadata" object as JSON text, preserved on rewrite; not part of the identity.</summary>
@@ -81,7 +85,8 @@ public sealed class BoltzmannModel
 
     /// <summary>A copy with other threshold / log partition values.</summary>
     public BoltzmannModel With(double? threshold, LogPartition? logPartition) =>
-        new(Kind, Visible, Hidden, VisibleBias, HiddenBias, Weights, VisibleLinks, HiddenLinks, Names, threshold, logPartition, MetadataJson);
+        new(Kind, Visible, Hidden, VisibleBias, HiddenBias, Weights, VisibleLinks, HiddenLinks, Names, threshold,
+            logPartition, MetadataJson);
 
     private void Validate()
     {
@@ -90,7 +95,9 @@ public sealed class BoltzmannModel
         if (Hidden < 0 || Hidden > ModelLimits.MaxUnits)
             throw new EmitException($"hidden = {Hidden} is out of range", $"use 0 to {ModelLimits.MaxUnits}");
         if ((long)Visible * Hidden > ModelLimits.MaxWeights)
-            throw new EmitException($"visible × hidden = {(long)Visible * Hidden} weights is more than the {ModelLimits.MaxWeights} allowed");
+            throw new EmitException(
+                $"visible × hidden = {(long)Visible * Hidden} weights is more than the {ModelLimits.MaxWeights} " +
+                "allowed");
         CheckLength("visible_bias", VisibleBias.Length, Visible);
         CheckLength("hidden_bias", HiddenBias.Length, Hidden);
         CheckLength("weights", Weights.Length, Visible * Hidden);

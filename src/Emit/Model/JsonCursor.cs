@@ -1,3 +1,4 @@
+using System.Diagnostics.CodeAnalysis;
 using System.Text.Json;
 
 namespace Emit.Model;
@@ -14,17 +15,23 @@ public ref struct JsonCursor
     private readonly string _whole;
 
     /// <summary>The underlying reader, for token values the helpers below do not cover.</summary>
+    [SuppressMessage("Design", "CA1051", Justification = "a mutable struct: a property would hand out copies")]
     public Utf8JsonReader R;
 
     /// <param name="utf8">The file's bytes (a leading byte-order mark must already be removed).</param>
     /// <param name="source">The file name used in errors.</param>
-    /// <param name="whole">What the file holds, one word for messages ("model": "file ends before the model is complete").</param>
+    /// <param name="whole">What the file holds, one word for messages ("model": "file ends before the model is
+    /// complete").</param>
     public JsonCursor(ReadOnlySpan<byte> utf8, string source, string whole)
     {
         _bytes = utf8;
         _source = source;
         _whole = whole;
-        R = new Utf8JsonReader(utf8, new JsonReaderOptions { CommentHandling = JsonCommentHandling.Skip, MaxDepth = 64 });
+        R = new Utf8JsonReader(utf8, new JsonReaderOptions
+        {
+            CommentHandling = JsonCommentHandling.Skip,
+            MaxDepth = 64,
+        });
     }
 
     /// <summary>The file name used in errors.</summary>
@@ -33,7 +40,9 @@ public ref struct JsonCursor
     /// <summary>The bytes being read.</summary>
     public readonly ReadOnlySpan<byte> Bytes => _bytes;
 
-    /// <summary>The bytes of a file of at most <paramref name="maxBytes"/>, refused before reading when larger.</summary>
+    /// <summary>
+    /// The bytes of a file of at most <paramref name="maxBytes"/>, refused before reading when larger.
+    /// </summary>
     public static byte[] ReadFile(string path, long maxBytes, string what)
     {
         try
@@ -43,7 +52,9 @@ public ref struct JsonCursor
             if (Directory.Exists(path)) throw new EmitException("is a folder, not a file", "name a file", path);
             // The length is trusted only to refuse early: a device (/dev/zero, /dev/urandom) or a FIFO reports 0 and
             // may never end, so bytes are counted while reading and the cap applies to what was actually read.
-            if (info.Length > maxBytes) throw new EmitException($"file is {info.Length} bytes, more than {what} may be ({maxBytes})", null, path);
+            if (info.Length > maxBytes)
+                throw new EmitException($"file is {info.Length} bytes, more than {what} may be ({maxBytes})", null,
+                    path);
             using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, bufferSize: 1);
             return ReadCapped(stream, maxBytes, what, path);
         }
@@ -68,7 +79,8 @@ public ref struct JsonCursor
             {
                 long grown = Math.Min(Math.Min(maxBytes + 1, Array.MaxLength), Math.Max(total * 2, 1 << 16));
                 if (total > maxBytes || grown == total)
-                    throw new EmitException($"file is more than {Math.Min(maxBytes, total)} bytes, more than {what} may be", null, source);
+                    throw new EmitException(
+                        $"file is more than {Math.Min(maxBytes, total)} bytes, more than {what} may be", null, source);
                 Array.Resize(ref buffer, (int)grown);
             }
             int got = stream.Read(buffer, (int)total, buffer.Length - (int)total);
@@ -83,11 +95,14 @@ public ref struct JsonCursor
                 sniffed = true;
             }
         }
-        if (total > maxBytes) throw new EmitException($"file is more than {maxBytes} bytes, more than {what} may be", null, source);
+        if (total > maxBytes)
+            throw new EmitException($"file is more than {maxBytes} bytes, more than {what} may be", null, source);
         return buffer.AsSpan(0, (int)total).ToArray();
     }
 
-    /// <summary>Whether the first non-blank byte is '{', or null while only a byte-order mark and blanks have arrived.</summary>
+    /// <summary>
+    /// Whether the first non-blank byte is '{', or null while only a byte-order mark and blanks have arrived.
+    /// </summary>
     private static bool? OpensObject(ReadOnlySpan<byte> start)
     {
         if (start.Length < 3 && "\uFEFF"u8.StartsWith(start)) return null;
@@ -126,7 +141,8 @@ public ref struct JsonCursor
 
     /// <summary>The JSON library's syntax error as emit's error.</summary>
     public readonly EmitException SyntaxError(JsonException e, string? hint = null) =>
-        new($"not valid JSON: {FirstSentence(e.Message)}", hint, _source, (e.LineNumber ?? 0) + 1, (e.BytePositionInLine ?? 0) + 1);
+        new($"not valid JSON: {FirstSentence(e.Message)}", hint, _source, (e.LineNumber ?? 0) + 1,
+            (e.BytePositionInLine ?? 0) + 1);
 
     private static string FirstSentence(string message)
     {
@@ -139,7 +155,8 @@ public ref struct JsonCursor
     {
         try
         {
-            if (!R.Read()) throw Error($"file ends before the {_whole} is complete", "the file may be truncated", _bytes.Length);
+            if (!R.Read())
+                throw Error($"file ends before the {_whole} is complete", "the file may be truncated", _bytes.Length);
         }
         catch (JsonException e)
         {
@@ -214,15 +231,21 @@ public ref struct JsonCursor
         Read();
         Expect(JsonTokenType.Number, "a version number");
         if (!R.TryGetInt32(out int version) || version != supported)
-            throw Error($"version {System.Text.Encoding.UTF8.GetString(R.ValueSpan)} is not supported", $"this emit reads version {supported}");
+            throw Error($"version {System.Text.Encoding.UTF8.GetString(R.ValueSpan)} is not supported",
+                $"this emit reads version {supported}");
         return version;
     }
 
+    /// <summary>
+    /// Throws a positioned error unless the current token is <paramref name="type"/>; <paramref name="what"/> names
+    /// what was expected.
+    /// </summary>
     public readonly void Expect(JsonTokenType type, string what)
     {
         if (R.TokenType != type) throw Error($"expected {what}, found {Describe(R.TokenType)}");
     }
 
+    /// <summary>A token type in words, for error messages.</summary>
     public static string Describe(JsonTokenType t) => t switch
     {
         JsonTokenType.StartObject => "an object",
@@ -262,7 +285,9 @@ public ref struct JsonCursor
         return d;
     }
 
-    /// <summary>Reads a whole number in [<paramref name="min"/>, <paramref name="max"/>] for <paramref name="field"/>.</summary>
+    /// <summary>
+    /// Reads a whole number in [<paramref name="min"/>, <paramref name="max"/>] for <paramref name="field"/>.
+    /// </summary>
     public int Integer(string field, int min, int max)
     {
         Read();

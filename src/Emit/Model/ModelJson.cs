@@ -12,14 +12,17 @@ namespace Emit.Model;
 /// </summary>
 public static class ModelJson
 {
+    /// <summary>The "format" value of a model file.</summary>
     public const string FormatName = "emit.model";
+    /// <summary>The model file format version this reader and writer use.</summary>
     public const int FormatVersion = 1;
 
     /// <summary>Largest model file accepted (bytes).</summary>
     public const long MaxFileBytes = 2L * 1024 * 1024 * 1024 - 1;
 
     /// <summary>Reads a model JSON file; errors carry <paramref name="path"/>.</summary>
-    public static BoltzmannModel Read(string path) => Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a model file"), path);
+    public static BoltzmannModel Read(string path) =>
+        Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a model file"), path);
 
     /// <summary>Parses model JSON from UTF-8 bytes (a leading byte-order mark is accepted).</summary>
     public static BoltzmannModel Parse(ReadOnlySpan<byte> utf8, string source)
@@ -31,14 +34,17 @@ public static class ModelJson
     /// <summary>Writes the model as readable JSON (one weight row per line), metadata included.</summary>
     public static string ToText(BoltzmannModel model) => Write(model, pretty: true, includeMetadata: true);
 
-    /// <summary>The canonical serialisation: compact, fixed key order, shortest round-trip numbers, no metadata.</summary>
+    /// <summary>
+    /// The canonical serialisation: compact, fixed key order, shortest round-trip numbers, no metadata.
+    /// </summary>
     public static string Canonical(BoltzmannModel model) => Write(model, pretty: false, includeMetadata: false);
 
     internal static string CanonicalSha256(BoltzmannModel model) =>
         Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(Canonical(model))));
 
     /// <summary>Writes the model to <paramref name="path"/> atomically (temporary file, then rename).</summary>
-    public static void WriteFile(BoltzmannModel model, string path, bool force) => AtomicFile.WriteAllText(path, ToText(model), force);
+    public static void WriteFile(BoltzmannModel model, string path, bool force) =>
+        AtomicFile.WriteAllText(path, ToText(model), force);
 
     /// <summary>Shortest text that parses back to the same double, invariant culture.</summary>
     public static string Number(double d) => d.ToString("R", CultureInfo.InvariantCulture);
@@ -117,7 +123,8 @@ public static class ModelJson
         {
             Key("log_partition");
             sb.Append("{\"value\"").Append(colon).Append(Number(lp.Value)).Append(sep)
-              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value).Append('"').Append(sep)
+              .Append("\"method\"").Append(colon).Append('"').Append(JsonEncodedText.Encode(lp.Method).Value)
+              .Append('"').Append(sep)
               .Append("\"stderr\"").Append(colon).Append(Number(lp.Stderr)).Append('}');
         }
         if (includeMetadata && m.MetadataJson is { } meta) { Key("metadata"); sb.Append(meta); }
@@ -181,7 +188,8 @@ public static class ModelJson
                     case "kind":
                         {
                             string k = _c.String(key);
-                            kind = ModelKindNames.Parse(k) ?? throw _c.Error($"kind \"{k}\" is unknown", "use rbm, lateral or general");
+                            kind = ModelKindNames.Parse(k)
+                                ?? throw _c.Error($"kind \"{k}\" is unknown", "use rbm, lateral or general");
                             break;
                         }
                     case "visible": visible = _c.Integer(key, 1, ModelLimits.MaxUnits); sizeOffset = keyOffset; break;
@@ -222,7 +230,8 @@ public static class ModelJson
                                     if (_c.R.TokenType == JsonTokenType.EndArray) break;
                                     _c.Expect(JsonTokenType.Number, $"a number in weights row {rows.Count}");
                                     if (!_c.R.TryGetDouble(out double d) || !double.IsFinite(d))
-                                        throw _c.Error($"weights[{rows.Count}][{b.Count}] is not a finite number", "every number must be finite");
+                                        throw _c.Error($"weights[{rows.Count}][{b.Count}] is not a finite number",
+                                            "every number must be finite");
                                     b.Add(d);
                                 }
                                 rows.Add((b.ToImmutable(), rowOffset));
@@ -236,7 +245,8 @@ public static class ModelJson
                         if (_c.R.TokenType != JsonTokenType.Null)
                         {
                             _c.Expect(JsonTokenType.Number, "a number for threshold");
-                            if (!_c.R.TryGetDouble(out double t) || !double.IsFinite(t)) throw _c.Error("threshold is not a finite number");
+                            if (!_c.R.TryGetDouble(out double t) || !double.IsFinite(t))
+                                throw _c.Error("threshold is not a finite number");
                             threshold = t;
                         }
                         break;
@@ -252,12 +262,15 @@ public static class ModelJson
                             {
                                 _c.Skip("metadata");
                             }
-                            long end = _c.R.TokenStartIndex + (_c.R.HasValueSequence ? _c.R.ValueSequence.Length : _c.R.ValueSpan.Length) + (_c.R.TokenType == JsonTokenType.String ? 2 : 0);
+                            long end = _c.R.TokenStartIndex +
+                                (_c.R.HasValueSequence ? _c.R.ValueSequence.Length : _c.R.ValueSpan.Length) +
+                                (_c.R.TokenType == JsonTokenType.String ? 2 : 0);
                             metadata = Encoding.UTF8.GetString(_c.Bytes[(int)start..(int)end]);
                             break;
                         }
                     default:
-                        throw _c.Error($"unknown field \"{key}\"", "see docs/model-format.md for the fields of version 1");
+                        throw _c.Error($"unknown field \"{key}\"",
+                            "see docs/model-format.md for the fields of version 1");
                 }
             }
             // Nothing but whitespace may follow the object.
@@ -266,36 +279,47 @@ public static class ModelJson
             long endOffset = _c.Bytes.Length;
             if (format is null) throw _c.Error("missing field \"format\"", $"add \"format\": \"{FormatName}\"", 0);
             if (version is null) throw _c.Error("missing field \"version\"", $"add \"version\": {FormatVersion}", 0);
-            if (kind is null) throw _c.Error("missing field \"kind\"", "add \"kind\": \"rbm\", \"lateral\" or \"general\"", 0);
+            if (kind is null)
+                throw _c.Error("missing field \"kind\"", "add \"kind\": \"rbm\", \"lateral\" or \"general\"", 0);
             if (visible is null) throw _c.Error("missing field \"visible\"", null, 0);
             if (hidden is null) throw _c.Error("missing field \"hidden\"", null, 0);
             if ((long)visible.Value * hidden.Value > ModelLimits.MaxWeights)
-                throw _c.Error($"visible × hidden = {(long)visible.Value * hidden.Value} weights is more than the {ModelLimits.MaxWeights} allowed", null, sizeOffset);
+                throw _c.Error(
+                    $"visible × hidden = {(long)visible.Value * hidden.Value} weights is more than the " +
+                    $"{ModelLimits.MaxWeights} allowed", null, sizeOffset);
             if (vb.IsDefault) throw _c.Error("missing field \"visible_bias\"", null, 0);
             if (hb.IsDefault) throw _c.Error("missing field \"hidden_bias\"", null, 0);
             if (rows is null) throw _c.Error("missing field \"weights\"", null, 0);
-            if (vb.Length != visible) throw _c.Error($"visible_bias has {vb.Length} values, expected visible = {visible}", null, 0);
-            if (hb.Length != hidden) throw _c.Error($"hidden_bias has {hb.Length} values, expected hidden = {hidden}", null, 0);
-            if (rows.Count != visible) throw _c.Error($"weights has {rows.Count} rows, expected visible = {visible}", "weights[i][j] couples visible i and hidden j", weightsOffset);
+            if (vb.Length != visible)
+                throw _c.Error($"visible_bias has {vb.Length} values, expected visible = {visible}", null, 0);
+            if (hb.Length != hidden)
+                throw _c.Error($"hidden_bias has {hb.Length} values, expected hidden = {hidden}", null, 0);
+            if (rows.Count != visible)
+                throw _c.Error($"weights has {rows.Count} rows, expected visible = {visible}",
+                    "weights[i][j] couples visible i and hidden j", weightsOffset);
             var w = new double[(long)visible.Value * hidden.Value];
             for (int i = 0; i < rows.Count; i++)
             {
                 if (rows[i].Row.Length != hidden)
-                    throw _c.Error($"weights row {i} has {rows[i].Row.Length} values, expected hidden = {hidden}", null, rows[i].Offset);
+                    throw _c.Error($"weights row {i} has {rows[i].Row.Length} values, expected hidden = {hidden}", null,
+                        rows[i].Offset);
                 rows[i].Row.CopyTo(w, i * hidden.Value);
             }
             if (!names.IsDefault && names.Length != visible)
                 throw _c.Error($"names has {names.Length} entries, expected visible = {visible}", null, 0);
             if (kind == ModelKind.Rbm && vlinks is { Count: > 0 })
-                throw _c.Error("kind rbm has visible_links", "use kind lateral or general, or remove the links", vlinks[0].Offset);
+                throw _c.Error("kind rbm has visible_links", "use kind lateral or general, or remove the links",
+                    vlinks[0].Offset);
             if (kind != ModelKind.General && hlinks is { Count: > 0 })
-                throw _c.Error($"kind {kind.Value.ToText()} has hidden_links", "use kind general, or remove the links", hlinks[0].Offset);
+                throw _c.Error($"kind {kind.Value.ToText()} has hidden_links", "use kind general, or remove the links",
+                    hlinks[0].Offset);
             var vl = SortLinks("visible_links", vlinks, visible.Value);
             var hl = SortLinks("hidden_links", hlinks, hidden.Value);
             _ = endOffset;
             try
             {
-                return new BoltzmannModel(kind.Value, visible.Value, hidden.Value, vb, hb, ImmutableArray.Create(w), vl, hl,
+                return new BoltzmannModel(kind.Value, visible.Value, hidden.Value, vb, hb, ImmutableArray.Create(w), vl,
+                    hl,
                     names, threshold, logZ, metadata);
             }
             catch (EmitException e) { throw e.InFile(_c.Source); }
@@ -306,15 +330,19 @@ public static class ModelJson
             if (links is null) return ImmutableArray<Link>.Empty;
             foreach (var (l, off) in links)
             {
-                if (l.I == l.J) throw _c.Error($"{field} has a self link [{l.I}, {l.J}]", "a unit cannot be linked to itself", off);
+                if (l.I == l.J)
+                    throw _c.Error($"{field} has a self link [{l.I}, {l.J}]", "a unit cannot be linked to itself", off);
                 if (l.I < 0 || l.J < 0 || l.I >= units || l.J >= units)
-                    throw _c.Error($"{field} link [{l.I}, {l.J}] is out of range", $"unit indices go from 0 to {units - 1}", off);
-                if (l.I > l.J) throw _c.Error($"{field} link [{l.I}, {l.J}] has i > j", "write each link once with i < j", off);
+                    throw _c.Error($"{field} link [{l.I}, {l.J}] is out of range",
+                        $"unit indices go from 0 to {units - 1}", off);
+                if (l.I > l.J)
+                    throw _c.Error($"{field} link [{l.I}, {l.J}] has i > j", "write each link once with i < j", off);
             }
             var sorted = links.OrderBy(x => x.Link.I).ThenBy(x => x.Link.J).ToList();
             for (int k = 1; k < sorted.Count; k++)
                 if (sorted[k].Link.I == sorted[k - 1].Link.I && sorted[k].Link.J == sorted[k - 1].Link.J)
-                    throw _c.Error($"{field} has link [{sorted[k].Link.I}, {sorted[k].Link.J}] twice", "merge duplicate links into one", Math.Max(sorted[k].Offset, sorted[k - 1].Offset));
+                    throw _c.Error($"{field} has link [{sorted[k].Link.I}, {sorted[k].Link.J}] twice",
+                        "merge duplicate links into one", Math.Max(sorted[k].Offset, sorted[k - 1].Offset));
             return sorted.Select(x => x.Link).ToImmutableArray();
         }
 
@@ -333,9 +361,11 @@ public static class ModelJson
                 int j = _c.Integer($"{field}[{list.Count}] j", int.MinValue, int.MaxValue);
                 double w = _c.Number($"{field}[{list.Count}] w");
                 _c.Read();
-                if (_c.R.TokenType != JsonTokenType.EndArray) throw _c.Error($"{field}[{list.Count}] has more than three values", "each link is [i, j, w]");
+                if (_c.R.TokenType != JsonTokenType.EndArray)
+                    throw _c.Error($"{field}[{list.Count}] has more than three values", "each link is [i, j, w]");
                 list.Add((new Link(i, j, w), off));
-                if (list.Count > ModelLimits.MaxLinks) throw _c.Error($"{field} has more than {ModelLimits.MaxLinks} links");
+                if (list.Count > ModelLimits.MaxLinks)
+                    throw _c.Error($"{field} has more than {ModelLimits.MaxLinks} links");
             }
             return list;
         }
@@ -356,9 +386,11 @@ public static class ModelJson
                         break;
                     case "method":
                         method = _c.String("log_partition.method");
-                        if (method is not ("exact" or "ais")) throw _c.Error($"log_partition.method \"{method}\" is unknown", "use \"exact\" or \"ais\"");
+                        if (method is not ("exact" or "ais"))
+                            throw _c.Error($"log_partition.method \"{method}\" is unknown", "use \"exact\" or \"ais\"");
                         break;
-                    default: throw _c.Error($"unknown field \"log_partition.{k}\"", "log_partition has value, method and stderr");
+                    default: throw _c.Error($"unknown field \"log_partition.{k}\"",
+                        "log_partition has value, method and stderr");
                 }
             }
             if (value is null) throw _c.Error("log_partition has no value");

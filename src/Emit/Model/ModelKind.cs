@@ -11,8 +11,10 @@ public enum ModelKind
     General,
 }
 
+/// <summary>The names of <see cref="ModelKind"/> in files and on the command line.</summary>
 public static class ModelKindNames
 {
+    /// <summary>The kind's name: rbm, lateral or general.</summary>
     public static string ToText(this ModelKind kind) => kind switch
     {
         ModelKind.Rbm => "rbm",
@@ -21,6 +23,7 @@ public static class ModelKindNames
         _ => throw new ArgumentOutOfRangeException(nameof(kind)),
     };
 
+    /// <summary>The kind named <paramref name="text"/>, or null for an unknown name.</summary>
     public static ModelKind? Parse(string text) => text switch
     {
         "rbm" => ModelKind.Rbm,

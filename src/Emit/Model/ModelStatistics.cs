@@ -11,8 +11,10 @@ public sealed record ModelStatistics(
     IReadOnlyDictionary<string, long> TableBytes)
 {
     /// <summary>Bytes per stored value for each table width reported by inspect.</summary>
-    public static readonly IReadOnlyList<(string Name, int Bytes)> Widths = [("f64", 8), ("f32", 4), ("int16", 2), ("int8", 1)];
+    public static readonly IReadOnlyList<(string Name, int Bytes)> Widths = [("f64", 8), ("f32", 4), ("int16", 2),
+        ("int8", 1)];
 
+    /// <summary>Statistics of the parameters of <paramref name="m"/>.</summary>
     public static ModelStatistics Of(BoltzmannModel m)
     {
         var bytes = new Dictionary<string, long>();

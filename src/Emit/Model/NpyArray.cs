@@ -16,6 +16,7 @@ public sealed class NpyArray
     /// <summary>Where the array came from, e.g. the zip entry name <c>weights.npy</c>.</summary>
     public string Entry { get; }
 
+    /// <summary>The parsed .npy header (dtype, order, shape).</summary>
     public NpyHeader Header { get; }
 
     /// <summary>The array's dimensions.</summary>

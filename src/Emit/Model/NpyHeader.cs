@@ -8,7 +8,8 @@ namespace Emit.Model;
 /// </summary>
 public sealed class NpyHeader
 {
-    internal NpyHeader(int majorVersion, string descr, bool fortranOrder, ImmutableArray<long> shape, long count, long dataOffset)
+    internal NpyHeader(int majorVersion, string descr, bool fortranOrder, ImmutableArray<long> shape, long count,
+        long dataOffset)
     {
         MajorVersion = majorVersion;
         Descr = descr;

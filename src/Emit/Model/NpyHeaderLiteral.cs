@@ -16,7 +16,8 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
     private int _i;
 
     private EmitException Fail(string problem, string? hint = null, int? at = null) =>
-        NpyReader.Error("header " + problem, hint ?? "the file is damaged or not written by numpy", file, entry, baseOffset + (at ?? _i));
+        NpyReader.Error("header " + problem, hint ?? "the file is damaged or not written by numpy", file, entry,
+            baseOffset + (at ?? _i));
 
     public (string Descr, bool Fortran, ImmutableArray<long> Shape, long Count) ParseHeader(long maxElements)
     {
@@ -40,14 +41,17 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
             {
                 case "descr" when descr is null:
                     if (value is List<object?>)
-                        throw Fail("describes a structured (record) dtype", "save a plain float64 or float32 array (arr.astype(np.float64))", valueAt);
+                        throw Fail("describes a structured (record) dtype",
+                            "save a plain float64 or float32 array (arr.astype(np.float64))", valueAt);
                     if (value is not string d) throw Fail("has a 'descr' that is not a string", null, valueAt);
                     if (d is not ("<f8" or ">f8" or "<f4" or ">f4"))
-                        throw Fail($"has dtype '{NpyReader.Printable(d)}' ({NpyReader.DescribeDescr(d)})", "save float64 or float32 values (arr.astype(np.float64))", valueAt);
+                        throw Fail($"has dtype '{NpyReader.Printable(d)}' ({NpyReader.DescribeDescr(d)})",
+                            "save float64 or float32 values (arr.astype(np.float64))", valueAt);
                     descr = d;
                     break;
                 case "fortran_order" when fortran is null:
-                    fortran = value as bool? ?? throw Fail("has a 'fortran_order' that is not True or False", null, valueAt);
+                    fortran = value as bool?
+                    ?? throw Fail("has a 'fortran_order' that is not True or False", null, valueAt);
                     break;
                 case "shape" when shape is null:
                     if (value is not Tuple t) throw Fail("has a 'shape' that is not a tuple", null, valueAt);
@@ -63,7 +67,8 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
                 case "descr" or "fortran_order" or "shape":
                     throw Fail($"has the key '{key}' twice", null, keyAt);
                 default:
-                    throw Fail($"has an unexpected key '{NpyReader.Printable(key)}'", "an NPY header has exactly 'descr', 'fortran_order' and 'shape'", keyAt);
+                    throw Fail($"has an unexpected key '{NpyReader.Printable(key)}'",
+                        "an NPY header has exactly 'descr', 'fortran_order' and 'shape'", keyAt);
             }
             SkipSpace();
             if (Peek() == ',') { _i++; continue; }
@@ -84,7 +89,8 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
             foreach (long dim in shape.Value)
             {
                 if (dim > maxElements || count > maxElements / dim)
-                    throw NpyReader.Error($"has shape {NpyHeader.FormatShape(shape.Value)}, more than the {maxElements} elements allowed",
+                    throw NpyReader.Error(
+                        $"has shape {NpyHeader.FormatShape(shape.Value)}, more than the {maxElements} elements allowed",
                         "the file is damaged, or the model is too large for emit", file, entry, baseOffset);
                 count *= dim;
             }
@@ -121,7 +127,8 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
                 _i += word.Length;
                 return value;
             }
-        throw Fail(_i >= text.Length ? "ends early" : $"has an unexpected character '{NpyReader.Printable(c.ToString())}'");
+        throw Fail(
+            _i >= text.Length ? "ends early" : $"has an unexpected character '{NpyReader.Printable(c.ToString())}'");
     }
 
     private List<object?> ParseSequence(char close, int depth, bool tuple)
@@ -142,7 +149,8 @@ internal sealed class NpyHeaderLiteral(string text, string file, string entry, l
             throw Fail($"expects ',' or '{close}'");
         }
         // In Python "(3)" is the number 3, not a tuple; numpy always writes "(3,)".
-        if (tuple && items.Count == 1 && !comma) throw Fail("has a parenthesised value that is not a tuple", null, open);
+        if (tuple && items.Count == 1 && !comma)
+            throw Fail("has a parenthesised value that is not a tuple", null, open);
         return items;
     }
 

@@ -27,7 +27,8 @@ public static class NpyReader
 
     /// <summary>Reads a whole NPY array from <paramref name="stream"/>.</summary>
     /// <param name="stream">Positioned at the magic string.</param>
-    /// <param name="length">Total bytes of the NPY data when known (e.g. a zip entry's uncompressed length), or -1.</param>
+    /// <param name="length">Total bytes of the NPY data when known (e.g. a zip entry's uncompressed length), or
+    /// -1.</param>
     /// <param name="file">File named in errors.</param>
     /// <param name="entry">Entry named in errors, e.g. <c>weights.npy</c>.</param>
     /// <param name="maxElements">Most elements accepted; larger shapes are refused before allocation.</param>
@@ -45,21 +46,26 @@ public static class NpyReader
         if (got < 6 || !pre.AsSpan(0, 6).SequenceEqual(Magic))
         {
             if (got == 0) throw Error("is empty", "save the array again with numpy", file, entry, 0);
-            throw Error("does not start with the NPY magic string \\x93NUMPY", "the entry is not a NumPy array; save it with numpy (np.savez)", file, entry, 0);
+            throw Error("does not start with the NPY magic string \\x93NUMPY",
+                "the entry is not a NumPy array; save it with numpy (np.savez)", file, entry, 0);
         }
         if (got < 8) throw Truncated(file, entry, got);
         int major = pre[6], minor = pre[7];
         if (major is < 1 or > 3 || minor != 0)
-            throw Error($"has NPY format version {major}.{minor}", "this reader knows versions 1.0, 2.0 and 3.0; save with numpy's default format", file, entry, 6);
+            throw Error($"has NPY format version {major}.{minor}",
+                "this reader knows versions 1.0, 2.0 and 3.0; save with numpy's default format", file, entry, 6);
         int lengthBytes = major == 1 ? 2 : 4;
         got = ReadFully(stream, pre.AsSpan(8, lengthBytes), file, entry, 8);
         if (got < lengthBytes) throw Truncated(file, entry, 8 + got);
-        long headerLength = major == 1 ? BinaryPrimitives.ReadUInt16LittleEndian(pre.AsSpan(8)) : BinaryPrimitives.ReadUInt32LittleEndian(pre.AsSpan(8));
+        long headerLength = major == 1 ? BinaryPrimitives.ReadUInt16LittleEndian(pre.AsSpan(8))
+            : BinaryPrimitives.ReadUInt32LittleEndian(pre.AsSpan(8));
         long preamble = 8 + lengthBytes;
         if (headerLength > MaxHeaderBytes)
-            throw Error($"declares a {headerLength}-byte header, more than the {MaxHeaderBytes} allowed", "the file is damaged or not written by numpy", file, entry, 8);
+            throw Error($"declares a {headerLength}-byte header, more than the {MaxHeaderBytes} allowed",
+                "the file is damaged or not written by numpy", file, entry, 8);
         if (length >= 0 && preamble + headerLength > length)
-            throw Error($"declares a {headerLength}-byte header but the entry has only {length} bytes", "the file is truncated or damaged", file, entry, 8);
+            throw Error($"declares a {headerLength}-byte header but the entry has only {length} bytes",
+                "the file is truncated or damaged", file, entry, 8);
         var headerBytes = new byte[headerLength];
         got = ReadFully(stream, headerBytes, file, entry, preamble);
         if (got < headerLength) throw Truncated(file, entry, preamble + got);
@@ -77,8 +83,10 @@ public static class NpyReader
         {
             long have = length - dataOffset;
             throw Error(have < dataBytes
-                    ? $"has shape {NpyHeader.FormatShape(shape)} of {descr} ({dataBytes} bytes of data) but only {have} bytes follow the header"
-                    : $"has {have - dataBytes} bytes after the {dataBytes} bytes its shape {NpyHeader.FormatShape(shape)} of {descr} needs",
+                    ? $"has shape {NpyHeader.FormatShape(shape)} of {descr} ({dataBytes} bytes of data) but only " +
+                    $"{have} bytes follow the header"
+                    : $"has {have - dataBytes} bytes after the {dataBytes} bytes its shape " +
+                    $"{NpyHeader.FormatShape(shape)} of {descr} needs",
                 have < dataBytes ? "the file is truncated or damaged" : "the file is damaged or not written by numpy",
                 file, entry, dataOffset);
         }
@@ -99,14 +107,17 @@ public static class NpyReader
             long offset = header.DataOffset + done * itemSize;
             int got = ReadFully(stream, span, file, entry, offset);
             if (got < span.Length)
-                throw Error($"ends after {done * itemSize + got} of the {header.Count * itemSize} data bytes its shape {header.ShapeText} needs",
+                throw Error(
+                    $"ends after {done * itemSize + got} of the {header.Count * itemSize} data bytes its shape " +
+                    $"{header.ShapeText} needs",
                     "the file is truncated", file, entry, offset + got);
             Convert(span, values.AsSpan((int)done, items), itemSize, header.BigEndian);
             done += items;
         }
         long end = header.DataOffset + header.Count * itemSize;
         if (ReadFully(stream, chunk.AsSpan(0, 1), file, entry, end) != 0)
-            throw Error($"has bytes after the {header.Count * itemSize} bytes of data its shape {header.ShapeText} needs",
+            throw Error(
+                $"has bytes after the {header.Count * itemSize} bytes of data its shape {header.ShapeText} needs",
                 "the file is damaged or not written by numpy", file, entry, end);
         if (header.FortranOrder && header.Shape.Length > 1)
             values = FortranToC(values, header.Shape);
@@ -120,7 +131,8 @@ public static class NpyReader
             for (int k = 0; k < values.Length; k++)
             {
                 var b = bytes.Slice(k * 8, 8);
-                values[k] = bigEndian ? BinaryPrimitives.ReadDoubleBigEndian(b) : BinaryPrimitives.ReadDoubleLittleEndian(b);
+                values[k] = bigEndian ? BinaryPrimitives.ReadDoubleBigEndian(b)
+                    : BinaryPrimitives.ReadDoubleLittleEndian(b);
             }
         }
         else
@@ -128,7 +140,8 @@ public static class NpyReader
             for (int k = 0; k < values.Length; k++)
             {
                 var b = bytes.Slice(k * 4, 4);
-                values[k] = bigEndian ? BinaryPrimitives.ReadSingleBigEndian(b) : BinaryPrimitives.ReadSingleLittleEndian(b);
+                values[k] = bigEndian ? BinaryPrimitives.ReadSingleBigEndian(b)
+                    : BinaryPrimitives.ReadSingleLittleEndian(b);
             }
         }
     }
@@ -167,7 +180,8 @@ public static class NpyReader
         }
         catch (InvalidDataException e)
         {
-            throw Error($"cannot be decompressed: {e.Message.TrimEnd('.')}", "the file is damaged; save it again with numpy", file, entry, offset);
+            throw Error($"cannot be decompressed: {e.Message.TrimEnd('.')}",
+                "the file is damaged; save it again with numpy", file, entry, offset);
         }
         catch (IOException e)
         {
@@ -179,7 +193,8 @@ public static class NpyReader
         Error("ends inside its header", "the file is truncated", file, entry, offset);
 
     internal static EmitException Error(string problem, string? hint, string file, string entry, long? offset) =>
-        new(offset is { } o ? $"array entry {entry}, byte {o}: {problem}" : $"array entry {entry}: {problem}", hint, file);
+        new(offset is { } o ? $"array entry {entry}, byte {o}: {problem}" : $"array entry {entry}: {problem}", hint,
+            file);
 
     /// <summary>Describes a dtype string in words for error messages.</summary>
     internal static string DescribeDescr(string descr)
@@ -189,7 +204,11 @@ public static class NpyReader
         string size = descr[0] is '<' or '>' or '|' or '=' ? descr[2..] : descr[1..];
         return kind switch
         {
-            'f' => size is "4" or "8" ? "float with a byte order this reader does not know" : $"float{(int.TryParse(size, NumberStyles.None, CultureInfo.InvariantCulture, out int s) ? (s * 8).ToString(CultureInfo.InvariantCulture) : "?")}",
+            'f' => size is "4" or "8"
+                ? "float with a byte order this reader does not know"
+                : "float" + (int.TryParse(size, NumberStyles.None, CultureInfo.InvariantCulture, out int s)
+                    ? (s * 8).ToString(CultureInfo.InvariantCulture)
+                    : "?"),
             'i' => "signed integers",
             'u' => "unsigned integers",
             'b' => "booleans",
@@ -207,7 +226,8 @@ public static class NpyReader
     {
         var sb = new StringBuilder();
         foreach (char c in s.Length > 24 ? s[..24] : s)
-            sb.Append(c < ' ' || c is '\u007f' or > '\u00ff' || (c >= '\u0080' && c < '\u00a0') ? $"\\x{(int)c:x2}" : c);
+            sb.Append(
+                c < ' ' || c is '\u007f' or > '\u00ff' || (c >= '\u0080' && c < '\u00a0') ? $"\\x{(int)c:x2}" : c);
         if (s.Length > 24) sb.Append('…');
         return sb.ToString();
     }

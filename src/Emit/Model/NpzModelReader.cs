@@ -23,7 +23,8 @@ public static class NpzModelReader
 
     private const string SaveHint =
         "save with np.savez(f, weights=W, visible_bias=b, hidden_bias=c) (W visible × hidden), " +
-        "or np.savez(f, components_=rbm.components_, intercept_visible_=rbm.intercept_visible_, intercept_hidden_=rbm.intercept_hidden_)";
+        "or np.savez(f, components_=rbm.components_, intercept_visible_=rbm.intercept_visible_, " +
+        "intercept_hidden_=rbm.intercept_hidden_)";
 
     /// <summary>Reads the model from the .npz file at <paramref name="path"/>.</summary>
     public static BoltzmannModel Read(string path)
@@ -50,7 +51,9 @@ public static class NpzModelReader
                 while ((got = stream.Read(chunk)) > 0)
                 {
                     if (copy.Length + got > ModelJson.MaxFileBytes)
-                        throw new EmitException($"file is more than {ModelJson.MaxFileBytes} bytes, more than an .npz model may be", null, path);
+                        throw new EmitException(
+                            $"file is more than {ModelJson.MaxFileBytes} bytes, more than an .npz model may be", null,
+                            path);
                     copy.Write(chunk, 0, got);
                 }
             }
@@ -60,7 +63,9 @@ public static class NpzModelReader
         }
     }
 
-    /// <summary>Reads the model from a seekable stream holding an .npz archive; <paramref name="file"/> is named in errors.</summary>
+    /// <summary>
+    /// Reads the model from a seekable stream holding an .npz archive; <paramref name="file"/> is named in errors.
+    /// </summary>
     public static BoltzmannModel Read(Stream stream, string file)
     {
         ArgumentNullException.ThrowIfNull(stream);
@@ -83,11 +88,13 @@ public static class NpzModelReader
         }
         catch (InvalidDataException e)
         {
-            throw new EmitException($"zip archive is damaged ({e.Message.TrimEnd('.')})", "the file may be truncated; save it again", file);
+            throw new EmitException($"zip archive is damaged ({e.Message.TrimEnd('.')})",
+                "the file may be truncated; save it again", file);
         }
         catch (NotSupportedException e)
         {
-            throw new EmitException($"zip archive uses a feature this reader does not support ({e.Message.TrimEnd('.')})",
+            throw new EmitException(
+                $"zip archive uses a feature this reader does not support ({e.Message.TrimEnd('.')})",
                 "save it with np.savez or np.savez_compressed (stored or deflated entries, no encryption)", file);
         }
         catch (IOException e)
@@ -115,42 +122,53 @@ public static class NpzModelReader
             if (!entry.FullName.EndsWith(".npy", StringComparison.Ordinal)) continue;
             var name = entry.FullName[..^4];
             if (!entries.TryAdd(name, entry))
-                throw new EmitException($"array entry {entry.FullName} appears twice in the archive", "save the arrays again with np.savez", file);
+                throw new EmitException($"array entry {entry.FullName} appears twice in the archive",
+                    "save the arrays again with np.savez", file);
         }
         bool native = NativeNames.Any(entries.ContainsKey);
         bool sklearn = SklearnNames.Any(entries.ContainsKey);
         if (native && sklearn)
             throw new EmitException(
                 $"mixes the two namings: has {Found(entries, NativeNames)} and {Found(entries, SklearnNames)}",
-                "use either weights/visible_bias/hidden_bias or components_/intercept_visible_/intercept_hidden_", file);
+                "use either weights/visible_bias/hidden_bias or components_/intercept_visible_/intercept_hidden_",
+                file);
         if (!native && !sklearn)
             throw new EmitException(
-                entries.Count == 0 ? "has no .npy arrays" : $"has none of the expected arrays (found {string.Join(", ", entries.Keys.Order(StringComparer.Ordinal).Select(k => k + ".npy"))})",
+                entries.Count == 0 ? "has no .npy arrays"
+                : "has none of the expected arrays (found " +
+                $"{string.Join(", ", entries.Keys.Order(StringComparer.Ordinal).Select(k => k + ".npy"))})",
                 SaveHint, file);
         var names = native ? NativeNames : SklearnNames;
         foreach (var name in names)
             if (!entries.ContainsKey(name))
-                throw new EmitException($"has no array entry {name}.npy (found {Found(entries, names)})", SaveHint, file);
+                throw new EmitException($"has no array entry {name}.npy (found {Found(entries, names)})", SaveHint,
+                    file);
 
         // Biases first: they fix the sizes the weight matrix's header is checked against before its data is read.
         var visibleBias = ReadVector(entries[names[1]], file, "visible units");
         var hiddenBias = ReadVector(entries[names[2]], file, "hidden units");
         int visible = (int)visibleBias.Shape[0], hidden = (int)hiddenBias.Shape[0];
         if (visible < 1)
-            throw NpyReader.Error("has no values: a model needs at least one visible unit", SaveHint, file, entries[names[1]].FullName, null);
+            throw NpyReader.Error("has no values: a model needs at least one visible unit", SaveHint, file,
+                entries[names[1]].FullName, null);
 
         var weightsEntry = entries[names[0]];
         long[] expected = native ? [visible, hidden] : [hidden, visible];
         string layout = native ? "visible × hidden" : "hidden × visible (scikit-learn's components_)";
         if ((long)visible * hidden > ModelLimits.MaxWeights)
-            throw NpyReader.Error($"would hold {visible} × {hidden} weights, more than the {ModelLimits.MaxWeights} allowed", null, file, weightsEntry.FullName, null);
+            throw NpyReader.Error(
+                $"would hold {visible} × {hidden} weights, more than the {ModelLimits.MaxWeights} allowed", null, file,
+                weightsEntry.FullName, null);
         using var ws = OpenEntry(weightsEntry, file, ModelLimits.MaxWeights);
         var header = NpyReader.ReadHeader(ws, weightsEntry.Length, file, weightsEntry.FullName, ModelLimits.MaxWeights);
         if (header.Shape.Length != 2 || header.Shape[0] != expected[0] || header.Shape[1] != expected[1])
             throw NpyReader.Error(
-                $"has shape {header.ShapeText}, expected {NpyHeader.FormatShape(expected)}: {layout}, with {visible} visible units from {entries[names[1]].FullName} and {hidden} hidden units from {entries[names[2]].FullName}",
+                $"has shape {header.ShapeText}, expected {NpyHeader.FormatShape(expected)}: {layout}, with {visible} " +
+                $"visible units from {entries[names[1]].FullName} and {hidden} hidden units from " +
+                $"{entries[names[2]].FullName}",
                 native && header.Shape.Length == 2 && header.Shape[0] == hidden && header.Shape[1] == visible
-                    ? "weights is visible × hidden; save W.T" : !native && header.Shape.Length == 2 && header.Shape[0] == visible && header.Shape[1] == hidden
+                    ? "weights is visible × hidden; save W.T" : !native && header.Shape.Length == 2
+                    && header.Shape[0] == visible && header.Shape[1] == hidden
                     ? "components_ is hidden × visible as scikit-learn stores it; save W.T" : "check the array sizes",
                 file, weightsEntry.FullName, null);
         var weights = NpyReader.ReadData(ws, header, file, weightsEntry.FullName);
@@ -189,7 +207,8 @@ public static class NpzModelReader
     {
         // Refuse before decompressing anything when even the declared size is out of reach.
         if (entry.Length > NpyReader.MaxHeaderBytes + 12 + maxElements * 8)
-            throw NpyReader.Error($"is {entry.Length} bytes uncompressed, more than an array of at most {maxElements} values can need",
+            throw NpyReader.Error(
+                $"is {entry.Length} bytes uncompressed, more than an array of at most {maxElements} values can need",
                 "the file is damaged, or the model is too large for emit", file, entry.FullName, null);
         try
         {
@@ -200,12 +219,14 @@ public static class NpzModelReader
         catch (InvalidDataException e)
         {
             throw NpyReader.Error($"cannot be opened ({e.Message.TrimEnd('.')})",
-                "save it with np.savez or np.savez_compressed (stored or deflated entries)", file, entry.FullName, null);
+                "save it with np.savez or np.savez_compressed (stored or deflated entries)", file, entry.FullName,
+                null);
         }
         catch (NotSupportedException e)
         {
             throw NpyReader.Error($"cannot be opened ({e.Message.TrimEnd('.')})",
-                "save it with np.savez or np.savez_compressed (stored or deflated entries, no encryption)", file, entry.FullName, null);
+                "save it with np.savez or np.savez_compressed (stored or deflated entries, no encryption)", file,
+                entry.FullName, null);
         }
     }
 
@@ -224,6 +245,7 @@ public static class NpzModelReader
     private static string Found(Dictionary<string, ZipArchiveEntry> entries, string[] names)
     {
         var found = names.Where(entries.ContainsKey).Select(n => n + ".npy").ToList();
-        return found.Count == 0 ? "none of " + string.Join(", ", names.Select(n => n + ".npy")) : string.Join(", ", found);
+        return found.Count == 0 ? "none of " +
+            string.Join(", ", names.Select(n => n + ".npy")) : string.Join(", ", found);
     }
 }

@@ -43,26 +43,31 @@ public static class UnitNameFile
     {
         using var reader = VectorReader.Open(path, visible);
         if (reader.Names.IsEmpty)
-            throw new EmitException("the first row holds 0/1 values, not unit names", "give a CSV whose first row names the units, or one name per line", path, 1);
+            throw new EmitException("the first row holds 0/1 values, not unit names",
+                "give a CSV whose first row names the units, or one name per line", path, 1);
         return reader.Names;
     }
 
     private static ImmutableArray<string> OnePerLine(string path, int visible)
     {
         if (new FileInfo(path).Length > MaxBytes)
-            throw new EmitException($"is larger than the {MaxBytes} bytes allowed for a file of unit names", null, path);
+            throw new EmitException($"is larger than the {MaxBytes} bytes allowed for a file of unit names", null,
+                path);
         var lines = File.ReadAllText(path, Encoding.UTF8).Split('\n').Select(l => l.TrimEnd('\r').Trim()).ToList();
         while (lines.Count > 0 && lines[^1].Length == 0) lines.RemoveAt(lines.Count - 1);
         for (int k = 0; k < lines.Count; k++)
             if (lines[k].Length == 0)
-                throw new EmitException("a name is empty", "write one name per line, without blank lines between them", path, k + 1);
+                throw new EmitException("a name is empty", "write one name per line, without blank lines between them",
+                    path, k + 1);
         if (lines.Count != visible)
-            throw new EmitException($"has {lines.Count} names, expected {visible}", "give one name per visible unit of the model, in unit order", path,
+            throw new EmitException($"has {lines.Count} names, expected {visible}",
+                "give one name per visible unit of the model, in unit order", path,
                 Math.Min(lines.Count, visible) + 1);
         var seen = new Dictionary<string, int>(StringComparer.Ordinal);
         for (int k = 0; k < lines.Count; k++)
             if (!seen.TryAdd(lines[k], k))
-                throw new EmitException($"the name on this line repeats line {seen[lines[k]] + 1}", "give every unit its own name", path, k + 1);
+                throw new EmitException($"the name on this line repeats line {seen[lines[k]] + 1}",
+                    "give every unit its own name", path, k + 1);
         return [.. lines];
     }
 }

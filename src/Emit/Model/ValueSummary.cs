@@ -3,6 +3,7 @@ namespace Emit.Model;
 /// <summary>Summary of a set of numbers: count, min, max, mean, standard deviation, mean |x|.</summary>
 public sealed record ValueSummary(long Count, double Min, double Max, double Mean, double Std, double MeanAbs)
 {
+    /// <summary>Count, range, mean and spread of <paramref name="values"/>.</summary>
     public static ValueSummary Of(IEnumerable<double> values)
     {
         long n = 0;

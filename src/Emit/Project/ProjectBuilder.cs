@@ -5,7 +5,8 @@ namespace Emit.Project;
 
 /// <summary>
 /// Generates every scorer of a project: all are compiled in memory first, and only when every one succeeded are the
-/// files written (each scorer's sources with its manifest, docs/manifest.md), all folders in one step (<see cref="OutputFolder.WriteAll"/>), so a failing project changes nothing.
+/// files written (each scorer's sources with its manifest, docs/manifest.md), all folders in one step
+/// (<see cref="OutputFolder.WriteAll"/>), so a failing project changes nothing.
 /// </summary>
 public static class ProjectBuilder
 {
@@ -21,12 +22,15 @@ public static class ProjectBuilder
             {
                 if (!models.TryGetValue(scorer.ModelPath, out var model))
                     models[scorer.ModelPath] = model = ModelLoader.Load(scorer.ModelPath);
-                groups.Add((scorer.OutDirectory, ScorerCompiler.Build(model, Path.GetFileName(scorer.ModelPath), scorer.Options).AllFiles));
+                groups.Add(
+                    (scorer.OutDirectory,
+                        ScorerCompiler.Build(model, Path.GetFileName(scorer.ModelPath), scorer.Options).AllFiles));
             }
             catch (EmitException e) when (e.File is null)
             {
                 // An option the compiler refused: name the project entry it came from.
-                throw new EmitException($"scorers[{k}] ({scorer.Options.Name}): {e.Problem}", e.Hint, project.Path, scorer.Line);
+                throw new EmitException($"scorers[{k}] ({scorer.Options.Name}): {e.Problem}", e.Hint, project.Path,
+                    scorer.Line);
             }
         }
         return OutputFolder.WriteAll(groups, force);

@@ -12,7 +12,9 @@ namespace Emit.Project;
 /// </summary>
 public static class ProjectFile
 {
+    /// <summary>The "format" value of a project file.</summary>
     public const string FormatName = "emit.project";
+    /// <summary>The project file format version this reader accepts.</summary>
     public const int FormatVersion = 1;
 
     /// <summary>Largest project file accepted (bytes); refused before reading.</summary>
@@ -23,7 +25,8 @@ public static class ProjectFile
 
     /// <summary>Reads and checks a project file; errors carry <paramref name="path"/>.</summary>
     public static EmitProject Read(string path) =>
-        Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a project file"), path, Path.GetDirectoryName(Path.GetFullPath(path))!);
+        Parse(JsonCursor.ReadFile(path, MaxFileBytes, "a project file"), path,
+            Path.GetDirectoryName(Path.GetFullPath(path))!);
 
     /// <summary>
     /// Parses project JSON from UTF-8 bytes (a leading byte-order mark is accepted); relative paths are taken from
@@ -69,7 +72,8 @@ public static class ProjectFile
                         scorers = Scorers();
                         break;
                     default:
-                        throw _c.Error($"unknown field \"{Naming.CommentText(key)}\"", "a project has format, version and scorers (docs/project-file.md)");
+                        throw _c.Error($"unknown field \"{Naming.CommentText(key)}\"",
+                            "a project has format, version and scorers (docs/project-file.md)");
                 }
             }
             _c.ExpectEnd();
@@ -85,7 +89,8 @@ public static class ProjectFile
             _c.Expect(JsonTokenType.StartArray, "an array of scorers");
             long start = _c.R.TokenStartIndex;
             var list = new List<ProjectScorer>();
-            var outputs = new Dictionary<string, int>(OperatingSystem.IsWindows() ? StringComparer.OrdinalIgnoreCase : StringComparer.Ordinal);
+            var outputs = new Dictionary<string,
+                int>(OperatingSystem.IsWindows() ? StringComparer.OrdinalIgnoreCase : StringComparer.Ordinal);
             while (true)
             {
                 _c.Read();
@@ -99,7 +104,9 @@ public static class ProjectFile
                     {
                         var file = Path.Combine(scorer.OutDirectory, scorer.Options.Name + ext);
                         if (outputs.TryGetValue(file, out int other))
-                            throw _c.Error($"scorers[{list.Count}] writes {Naming.CommentText(Path.GetFileName(file))} in the same folder as scorers[{other}]",
+                            throw _c.Error(
+                                $"scorers[{list.Count}] writes {Naming.CommentText(Path.GetFileName(file))} in the " +
+                                $"same folder as scorers[{other}]",
                                 "give one of them another name or out folder", offset);
                         outputs[file] = list.Count;
                     }
@@ -133,7 +140,9 @@ public static class ProjectFile
                 {
                     case "model":
                         model = PathValue(field);
-                        if (!File.Exists(model)) throw _c.Error($"{field}: file not found: {Naming.CommentText(model)}", "check the path; paths are relative to the project file's folder");
+                        if (!File.Exists(model))
+                            throw _c.Error($"{field}: file not found: {Naming.CommentText(model)}",
+                                "check the path; paths are relative to the project file's folder");
                         break;
                     case "name":
                         name = _c.String(field);
@@ -145,7 +154,9 @@ public static class ProjectFile
                     case "numeric":
                         {
                             var text = _c.String(field);
-                            numeric = NumericModeNames.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use f32, f64 or fixed");
+                            numeric = NumericModeNames.Parse(text)
+                                ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown",
+                                    "use f32, f64 or fixed");
                             break;
                         }
                     case "namespace":
@@ -155,19 +166,25 @@ public static class ProjectFile
                     case "out": outDir = PathValue(field); break;
                     case "templates":
                         templates = PathValue(field);
-                        if (!Directory.Exists(templates)) throw _c.Error($"{field}: folder not found: {Naming.CommentText(templates)}", "paths are relative to the project file's folder");
+                        if (!Directory.Exists(templates))
+                            throw _c.Error($"{field}: folder not found: {Naming.CommentText(templates)}",
+                                "paths are relative to the project file's folder");
                         break;
                     case "selftest_vectors": selfTest = _c.Integer(field, 1, CompileOptions.MaxSelfTestVectors); break;
                     case "optimize":
                         {
                             var text = _c.String(field);
-                            optimize = OptimizeForNames.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use speed or size");
+                            optimize = OptimizeForNames.Parse(text)
+                                ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown",
+                                    "use speed or size");
                             break;
                         }
                     case "weights":
                         {
                             var text = _c.String(field);
-                            weights = WeightTypeInfo.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use int8, int16 or int32");
+                            weights = WeightTypeInfo.Parse(text)
+                                ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown",
+                                    "use int8, int16 or int32");
                             fixedOnly ??= (key, keyOffset);
                             break;
                         }
@@ -175,38 +192,52 @@ public static class ProjectFile
                         {
                             var text = _c.String(field);
                             accumulator = text == "auto" ? null
-                                : AccumulatorTypeInfo.Parse(text) ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown", "use auto, int32 or int64");
+                                : AccumulatorTypeInfo.Parse(text)
+                                ?? throw _c.Error($"{field} \"{Naming.CommentText(text)}\" is unknown",
+                                    "use auto, int32 or int64");
                             fixedOnly ??= (key, keyOffset);
                             break;
                         }
                     case "softplus_table":
                         table = _c.Integer(field, FixedPointOptions.MinTableSize, FixedPointOptions.MaxTableSize);
-                        if (!System.Numerics.BitOperations.IsPow2(table)) throw _c.Error($"{field} = {table} is not a power of two", $"use a power of two from {FixedPointOptions.MinTableSize} to {FixedPointOptions.MaxTableSize}");
+                        if (!System.Numerics.BitOperations.IsPow2(table))
+                            throw _c.Error($"{field} = {table} is not a power of two",
+                                $"use a power of two from {FixedPointOptions.MinTableSize} to " +
+                                $"{FixedPointOptions.MaxTableSize}");
                         fixedOnly ??= (key, keyOffset);
                         break;
                     default:
                         throw _c.Error($"unknown field \"{Naming.CommentText(key)}\" in {at}",
-                            "a scorer has model, name, targets, numeric, namespace, out, templates, selftest_vectors, optimize, and for numeric fixed weights, accumulator, softplus_table");
+                            "a scorer has model, name, targets, numeric, namespace, out, templates, " +
+                            "selftest_vectors, optimize, and for numeric fixed weights, accumulator, softplus_table");
                 }
             }
             if (model is null) throw _c.Error($"{at} has no model", "add \"model\": \"path/to/model.json\"", offset);
             if (fixedOnly is { } f && numeric != NumericMode.Fixed)
-                throw _c.Error($"{at}.{f.Key} applies to numeric fixed only", "add \"numeric\": \"fixed\" or leave the field out", f.Offset);
+                throw _c.Error($"{at}.{f.Key} applies to numeric fixed only",
+                    "add \"numeric\": \"fixed\" or leave the field out", f.Offset);
             name ??= Naming.ScorerNameFromFile(model);
             try { Naming.CheckScorerName(name); }
-            catch (EmitException e) { throw _c.Error($"{at}: {e.Problem}", e.Hint, nameOffset == 0 ? offset : nameOffset); }
+            catch (EmitException e) { throw _c.Error($"{at}: {e.Problem}", e.Hint,
+                nameOffset == 0 ? offset : nameOffset); }
             try { Naming.CheckNamespace(ns ?? CompileOptions.DefaultNamespace); }
             catch (EmitException e) { throw _c.Error($"{at}: {e.Problem}", e.Hint, nsOffset); }
             targets ??= ["c"];
-            if (targets.Count == 0) throw _c.Error($"{at}.targets is empty", $"use one or more of: {Targets.NameList}", offset);
+            if (targets.Count == 0)
+                throw _c.Error($"{at}.targets is empty", $"use one or more of: {Targets.NameList}", offset);
             foreach (var t in targets)
-                if (Targets.Find(t) is null) throw _c.Error($"{at}.targets: unknown target \"{Naming.CommentText(t)}\"", $"use one or more of: {Targets.NameList}", offset);
+                if (Targets.Find(t) is null)
+                    throw _c.Error($"{at}.targets: unknown target \"{Naming.CommentText(t)}\"",
+                        $"use one or more of: {Targets.NameList}", offset);
             var fixedOptions = numeric == NumericMode.Fixed ? new FixedPointOptions(weights, accumulator, table) : null;
-            var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name, ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions, optimize);
+            var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name,
+                ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions, optimize);
             return new ProjectScorer(model, outDir ?? Path.Combine(_base, "out"), options, _c.Position(offset).Line);
         }
 
-        /// <summary>A path value, made absolute against the project folder; control characters and NUL are refused.</summary>
+        /// <summary>
+        /// A path value, made absolute against the project folder; control characters and NUL are refused.
+        /// </summary>
         private string PathValue(string field)
         {
             var text = _c.String(field);

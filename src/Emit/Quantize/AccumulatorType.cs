@@ -19,7 +19,8 @@ public static class AccumulatorTypeInfo
     /// Largest magnitude any intermediate may reach: 2^(bits−1) − 1. The analysis keeps every value in
     /// [−Max, Max], so negation and absolute value never overflow either.
     /// </summary>
-    public static long MaxMagnitude(this AccumulatorType type) => type == AccumulatorType.Int32 ? int.MaxValue : long.MaxValue;
+    public static long MaxMagnitude(this AccumulatorType type) =>
+        type == AccumulatorType.Int32 ? int.MaxValue : long.MaxValue;
 
     /// <summary>Option text: int32, int64.</summary>
     public static string ToText(this AccumulatorType type) => "int" + type.Bits();

@@ -1,6 +1,8 @@
 namespace Emit.Quantize;
 
-/// <summary>Outcome of <see cref="AdversarialSearch"/>: the stated bound and the largest |error| found (nats).</summary>
+/// <summary>
+/// Outcome of <see cref="AdversarialSearch"/>: the stated bound and the largest |error| found (nats).
+/// </summary>
 public sealed record AdversarialResult(double Bound, double LargestError, byte[] Vector, int Evaluations)
 {
     /// <summary>Bound / largest error found (≥ 1 when the bound holds; close to 1 when it is tight).</summary>

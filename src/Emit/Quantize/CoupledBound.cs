@@ -19,7 +19,8 @@ namespace Emit.Quantize;
 internal static class CoupledBound
 {
     /// <summary>Computes the enclosure. <paramref name="dW"/> is V×H row-major (nats).</summary>
-    public static ErrorInterval Compute(int visible, int hidden, double[] dW, double[] dC, double[] sLo, double[] sHi, bool spectral)
+    public static ErrorInterval Compute(int visible, int hidden, double[] dW, double[] dC, double[] sLo, double[] sHi,
+        bool spectral)
     {
         int v = visible, h = hidden;
         if (h == 0) return ErrorInterval.Zero;

@@ -20,10 +20,14 @@ public sealed record ErrorBudget
     /// </summary>
     public required ErrorInterval HiddenInputs { get; init; }
 
-    /// <summary>Softplus table: interpolation, entry rounding, interpolation arithmetic rounding, tails (rbm/lateral).</summary>
+    /// <summary>
+    /// Softplus table: interpolation, entry rounding, interpolation arithmetic rounding, tails (rbm/lateral).
+    /// </summary>
     public required ErrorInterval Softplus { get; init; }
 
-    /// <summary>general: H merge levels × the error of one integer log-sum-exp of two values ([0, 0] otherwise).</summary>
+    /// <summary>
+    /// general: H merge levels × the error of one integer log-sum-exp of two values ([0, 0] otherwise).
+    /// </summary>
     public required ErrorInterval LogSumExp { get; init; }
 
     /// <summary>Centring constant K·2^−E added to S so the total interval is (nearly) symmetric.</summary>

@@ -25,7 +25,8 @@ public sealed record FixedPointOptions(
     /// <summary>Throws <see cref="EmitException"/> unless the options are usable.</summary>
     public void Validate()
     {
-        if (SoftplusTableSize < MinTableSize || SoftplusTableSize > MaxTableSize || !BitOperations.IsPow2(SoftplusTableSize))
+        if (SoftplusTableSize < MinTableSize || SoftplusTableSize > MaxTableSize
+            || !BitOperations.IsPow2(SoftplusTableSize))
             throw new EmitException($"{Setting.SoftplusTable.Ref()} {SoftplusTableSize} is not allowed",
                 $"use a power of two from {MinTableSize} to {MaxTableSize}");
         if (EnergyFractionBitsLimit is < 0 or > FixedPointPlanner.MaxEnergyFractionBits)

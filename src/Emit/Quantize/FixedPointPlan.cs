@@ -27,7 +27,9 @@ public sealed record FixedPointPlan
     /// <summary>Why this accumulator was chosen (one sentence, for inspect).</summary>
     public required string AccumulatorReason { get; init; }
 
-    /// <summary>E: fraction bits of the energy, the visible biases, the table entries and (general) the scores.</summary>
+    /// <summary>
+    /// E: fraction bits of the energy, the visible biases, the table entries and (general) the scores.
+    /// </summary>
     public required int EnergyFractionBits { get; init; }
 
     /// <summary>Format of the energy result and of the energy accumulator.</summary>
@@ -36,10 +38,14 @@ public sealed record FixedPointPlan
     /// <summary>2^E: real free energy = integer result / EnergyScale.</summary>
     public double EnergyScale => Math.ScaleB(1.0, EnergyFractionBits);
 
-    /// <summary>K: the energy accumulator's initial value (format E), a centring constant, see <see cref="ErrorBudget.Offset"/>.</summary>
+    /// <summary>
+    /// K: the energy accumulator's initial value (format E), a centring constant, see <see cref="ErrorBudget.Offset"/>.
+    /// </summary>
     public required long EnergyOffset { get; init; }
 
-    /// <summary>Quantized W, row-major [i * Hidden + j]; column j in format <see cref="HiddenUnitPlan.WeightFormat"/>.</summary>
+    /// <summary>
+    /// Quantized W, row-major [i * Hidden + j]; column j in format <see cref="HiddenUnitPlan.WeightFormat"/>.
+    /// </summary>
     public required ImmutableArray<long> Weights { get; init; }
 
     /// <summary>Per hidden unit constants.</summary>

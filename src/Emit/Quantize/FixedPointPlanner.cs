@@ -44,19 +44,26 @@ public static class FixedPointPlanner
         {
             var only = search.Best(forced) is { } found ? search.Refine(found) : throw new EmitException(
                 $"no fixed-point format keeps every intermediate of this model within {forced.ToText()}",
-                forced == AccumulatorType.Int32 ? $"use {Setting.Accumulator.Ref()} int64 or auto" : "the model's weights are too large for fixed point");
+                forced == AccumulatorType.Int32 ? $"use {Setting.Accumulator.Ref()} int64 or auto"
+                : "the model's weights are too large for fixed point");
             return search.Materialize(only, $"{forced.ToText()} as requested");
         }
         var p32 = search.Best(AccumulatorType.Int32) is { } c32 ? search.Refine(c32) : null;
-        var p64 = (search.Best(AccumulatorType.Int64) is { } c64 ? search.Refine(c64) : null) ?? p32 ?? throw new EmitException(
-            "no fixed-point format keeps every intermediate of this model within int64", "the model's weights are too large for fixed point");
-        if (p32 is not null && p32.F.AsSpan().SequenceEqual(p64.F) && (p32.LateralF == p64.LateralF || model.VisibleLinks.IsEmpty))
-            return search.Materialize(p32, "auto: int32 provably cannot overflow and keeps every weight at full precision");
+        var p64 = (search.Best(AccumulatorType.Int64) is { } c64 ? search.Refine(c64) : null) ?? p32
+            ?? throw new EmitException(
+            "no fixed-point format keeps every intermediate of this model within int64",
+            "the model's weights are too large for fixed point");
+        if (p32 is not null && p32.F.AsSpan().SequenceEqual(p64.F)
+            && (p32.LateralF == p64.LateralF || model.VisibleLinks.IsEmpty))
+            return search.Materialize(p32,
+                "auto: int32 provably cannot overflow and keeps every weight at full precision");
         if (p32 is not null && p32.Budget.Bound <= p64.Budget.Bound * (1 + AutoTolerance))
-            return search.Materialize(p32, "auto: int32 provably cannot overflow and its bound is within 5 % of int64's");
-        return search.Materialize(p64, p32 is null
-            ? "auto: no int32 plan keeps every intermediate in range"
-            : string.Create(CultureInfo.InvariantCulture,
-                $"auto: the best int32 plan's bound {p32.Budget.Bound:G3} is more than 5 % above int64's {p64.Budget.Bound:G3}"));
+            return search.Materialize(p32,
+                "auto: int32 provably cannot overflow and its bound is within 5 % of int64's");
+        if (p32 is null) return search.Materialize(p64, "auto: no int32 plan keeps every intermediate in range");
+        var inv = CultureInfo.InvariantCulture;
+        return search.Materialize(p64,
+            $"auto: the best int32 plan's bound {p32.Budget.Bound.ToString("G3", inv)} is more than 5 % above " +
+            $"int64's {p64.Budget.Bound.ToString("G3", inv)}");
     }
 }

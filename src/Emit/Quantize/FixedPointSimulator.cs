@@ -20,18 +20,19 @@ namespace Emit.Quantize;
 /// general: z_j = to_energy(a_j, s_j); energy += lse_q(z) (below).</item>
 /// <item>Result: −energy.</item>
 /// </list>
-/// <para>to_energy(x, s): s &gt; 0: x ≥ 0 ? (x + 2^(s−1)) &gt;&gt; s : −((−x + 2^(s−1)) &gt;&gt; s) (round half away from
-/// zero); s ≤ 0: x · 2^(−s).</para>
+/// <para>to_energy(x, s): s &gt; 0: x ≥ 0 ? (x + 2^(s−1)) &gt;&gt; s : −((−x + 2^(s−1)) &gt;&gt; s) (round half away
+/// from zero); s ≤ 0: x · 2^(−s).</para>
 /// <para>G_q(m; P, d) for a magnitude m ≥ 0 (table T non-increasing): if m ≥ P: 0. Else k = m &gt;&gt; d,
-/// r = m &amp; (2^d − 1); d = 0: T[k]; d &gt; 0: T[k+1] + (((T[k] − T[k+1])·(2^d − r) + 2^(d−1)) &gt;&gt; d), the linear
-/// interpolation T[k] + (T[k+1] − T[k])·r/2^d rounded half up, computed from non-negative terms only.</para>
+/// r = m &amp; (2^d − 1); d = 0: T[k]; d &gt; 0: T[k+1] + (((T[k] − T[k+1])·(2^d − r) + 2^(d−1)) &gt;&gt; d), the
+/// linear interpolation T[k] + (T[k+1] − T[k])·r/2^d rounded half up, computed from non-negative terms only.</para>
 /// <para>softplus_q(a; P, d, s) = (a &gt; 0 ? to_energy(a, s) : 0) + G_q(|a|; P, d), |a| = a ≥ 0 ? a : −a.</para>
 /// <para>lse_q (general): visit the hidden states h in Gray-code order t = 0..2^H−1 (state t = t ^ (t &gt;&gt; 1)),
 /// starting from all off with score s = 0 and field_k = z_k. Step t ≥ 1 flips unit k = number of trailing zero
 /// bits of t: if h_k was off, s += field_k and field_l += M_lk for every l ≠ k; if on, s −= field_k and
 /// field_l −= M_lk. After the score of state t is known it is merged into a stack of H + 1 partial results like a
 /// binary counter: v = s; for (lvl = 0; bit lvl of t is 1; lvl++) v = lse2(stack[lvl], v); stack[lvl] = v.
-/// The result is stack[H]. lse2(a, b): m = a ≥ b ? a : b, dd = a ≥ b ? a − b : b − a, result m + G_q(dd; P_E, d_E).</para>
+/// The result is stack[H]. lse2(a, b): m = a ≥ b ? a : b, dd = a ≥ b ? a − b : b − a, result m + G_q(dd; P_E,
+/// d_E).</para>
 /// </summary>
 public sealed class FixedPointSimulator
 {
@@ -97,11 +98,15 @@ public sealed class FixedPointSimulator
         return Run(on, mask);
     }
 
-    /// <summary>The integer free energy for packed bits: bit i = (packed[i &gt;&gt; 3] &gt;&gt; (i &amp; 7)) &amp; 1; bits past the last unit are ignored.</summary>
+    /// <summary>
+    /// The integer free energy for packed bits: bit i = (packed[i &gt;&gt; 3] &gt;&gt; (i &amp; 7)) &amp; 1; bits past
+    /// the last unit are ignored.
+    /// </summary>
     public long FreeEnergyPacked(ReadOnlySpan<byte> packed)
     {
         int bytes = (_v + 7) / 8;
-        if (packed.Length != bytes) throw new ArgumentException($"expected {bytes} packed bytes, got {packed.Length}", nameof(packed));
+        if (packed.Length != bytes)
+            throw new ArgumentException($"expected {bytes} packed bytes, got {packed.Length}", nameof(packed));
         var mask = new bool[_v];
         var on = new List<int>();
         for (int b = 0; b < bytes; b++)
@@ -138,7 +143,9 @@ public sealed class FixedPointSimulator
     private static long Shr(long x, int s) =>
         x >= 0 ? x >> s : throw new InvalidOperationException("right shift of a negative value");
 
-    /// <summary>to_energy(x, s); the intermediate (|x| + half, or x · 2^−s) is checked under <paramref name="name"/>.</summary>
+    /// <summary>
+    /// to_energy(x, s); the intermediate (|x| + half, or x · 2^−s) is checked under <paramref name="name"/>.
+    /// </summary>
     internal long ToEnergy(long x, int s, string name, int unit = -1)
     {
         if (s <= 0) return Mul(x, 1L << -s, name, unit);
@@ -158,7 +165,8 @@ public sealed class FixedPointSimulator
         if (d == 0) return t0;
         long r = m & ((1L << d) - 1);
         long t1 = _t[k + 1];
-        long prod = Add(Mul(t0 - t1, (1L << d) - r, prefix + "interpolation_product", unit), 1L << (d - 1), prefix + "interpolation_product", unit);
+        long prod = Add(Mul(t0 - t1, (1L << d) - r, prefix + "interpolation_product", unit), 1L << (d - 1),
+            prefix + "interpolation_product", unit);
         return t1 + Shr(prod, d);
     }
 
@@ -185,7 +193,8 @@ public sealed class FixedPointSimulator
             foreach (var (other, w) in _lateral[i])
                 if (isOn[other]) lateral = Add(lateral, w, "lateral.accumulator");
         }
-        if (_plan.Lateral.Length > 0) energy = Add(energy, ToEnergy(lateral, _lateralShift, "lateral.to_energy"), "energy.base");
+        if (_plan.Lateral.Length > 0)
+            energy = Add(energy, ToEnergy(lateral, _lateralShift, "lateral.to_energy"), "energy.base");
         if (_plan.Model.Kind != ModelKind.General)
         {
             for (int j = 0; j < h; j++) energy = Add(energy, SoftplusQ(acc[j], j), "energy.sum");
@@ -229,7 +238,8 @@ public sealed class FixedPointSimulator
             {
                 long a = stack[lvl];
                 long m = a >= val ? a : val;
-                long dd = a >= val ? Chk(checked(a - val), "general.difference") : Chk(checked(val - a), "general.difference");
+                long dd = a >= val ? Chk(checked(a - val), "general.difference")
+                    : Chk(checked(val - a), "general.difference");
                 val = Add(m, GQ(dd, pe, de, "general.lse."), "general.tree");
             }
             stack[lvl] = val;

@@ -12,13 +12,15 @@ namespace Emit.Quantize;
 /// <list type="number">
 /// <item>Each stored coefficient is the nearest value of the mode: relative error &lt;= u.</item>
 /// <item>Pre-activation a_j = c_j + Σ_(i on) W_ij, summed in an order where each term meets at most k roundings (the
-/// generated code adds rows two at a time, acc += row1 + row2): (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active units.</item>
-/// <item>softplus is 1-Lipschitz (its derivative is the logistic function), so an input error passes through at most unchanged.</item>
+/// generated code adds rows two at a time, acc += row1 + row2): (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active
+/// units.</item>
+/// <item>softplus is 1-Lipschitz (its derivative is the logistic function), so an input error passes through at most
+/// unchanged.</item>
 /// <item>softplus(x) = max(x,0) + log(1 + exp(−|x|)) with exp and log each within <see cref="LibmUlps"/> ulps (relative
-/// error A = LibmUlps·2u): with t = exp(−|x|) &lt;= 1, exp's error moves log(1 + t) by at most A·t, rounding 1 + t by at
-/// most u (the argument lies in [1, 2]), log's own error is at most A·ln 2 (plus A·u), and the final addition
-/// u·softplus(x). The allowance is ours (common practice); from memory, the glibc manual's table of known maximum errors lists
-/// at most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
+/// error A = LibmUlps·2u): with t = exp(−|x|) &lt;= 1, exp's error moves log(1 + t) by at most A·t, rounding 1 + t by
+/// at most u (the argument lies in [1, 2]), log's own error is at most A·ln 2 (plus A·u), and the final addition
+/// u·softplus(x). The allowance is ours (common practice); from memory, the glibc manual's table of known maximum
+/// errors lists at most 1–2 ulps for expf/exp/logf/log on x86-64; .NET's Math/MathF call the platform C library.</item>
 /// <item>The final F = −linear − Σ_j softplus_j, H subtractions: γ_H·(|linear| + Σ softplus_j).</item>
 /// <item>general: log Σ_h exp(s(h)) is 1-Lipschitz in every s(h) (max norm) and its gradient in a sums to at most H,
 /// so pre-activation errors add; the running Gray-code scores carry at most <see cref="GrayScoreRoundings"/> roundings
@@ -32,7 +34,9 @@ public static class FloatErrorBound
     /// <summary>Allowance for exp and log of the C library or .NET, in units in the last place.</summary>
     public const double LibmUlps = 8;
 
-    /// <summary>Log2 of the Gray-code block the generated general-model code recomputes scores at (see templates).</summary>
+    /// <summary>
+    /// Log2 of the Gray-code block the generated general-model code recomputes scores at (see templates).
+    /// </summary>
     public static int GrayBlockBits(int hidden) => Math.Min(hidden, 4);
 
     /// <summary>Unit roundoff u of a float mode: 2^−24 for f32, 2^−53 for f64.</summary>
@@ -72,7 +76,10 @@ public static class FloatErrorBound
     public static double Reference(BoltzmannModel model, ReadOnlySpan<byte> units) =>
         Compute(model, UnitRoundoff(NumericMode.F64), units.ToArray(), Math.Min(model.Hidden, 14), pairwise: false);
 
-    /// <summary>A bound on the error of <see cref="ReferenceScorer"/> over every input (as <see cref="Reference"/>, with the largest term sums).</summary>
+    /// <summary>
+    /// A bound on the error of <see cref="ReferenceScorer"/> over every input (as <see cref="Reference"/>, with the
+    /// largest term sums).
+    /// </summary>
     public static double ReferenceWorst(BoltzmannModel model) =>
         Compute(model, UnitRoundoff(NumericMode.F64), null, Math.Min(model.Hidden, 14), pairwise: false);
 

@@ -20,18 +20,24 @@ namespace Emit.Quantize;
 /// </summary>
 public static class FloatRangeCheck
 {
-    /// <summary>Throws <see cref="EmitException"/> unless every intermediate plus <paramref name="errorBound"/> stays finite in the mode.</summary>
+    /// <summary>
+    /// Throws <see cref="EmitException"/> unless every intermediate plus <paramref name="errorBound"/> stays finite in
+    /// the mode.
+    /// </summary>
     public static void Check(BoltzmannModel model, NumericMode mode, double errorBound)
     {
         double max = mode == NumericMode.F32 ? float.MaxValue : double.MaxValue;
-        string type = mode == NumericMode.F32 ? "32-bit float (FLT_MAX 3.40282347e+38)" : "64-bit double (DBL_MAX 1.7976931348623157e+308)";
-        string hint = mode == NumericMode.F32 ? "use --numeric f64" : "the model's parameters are too large for floating point; rescale the model";
+        string type = mode == NumericMode.F32 ? "32-bit float (FLT_MAX 3.40282347e+38)"
+            : "64-bit double (DBL_MAX 1.7976931348623157e+308)";
+        string hint = mode == NumericMode.F32 ? "use --numeric f64"
+            : "the model's parameters are too large for floating point; rescale the model";
         if (!double.IsFinite(errorBound))
             throw new EmitException($"the worst-case error bound of this model does not fit in a {type}", hint);
 
         var r = RangeAnalysis.Of(model);
         void Refuse(string what, double magnitude) => throw new EmitException(
-            string.Create(CultureInfo.InvariantCulture, $"{what} reaches {magnitude:G6} in magnitude, beyond the largest {type}; the scorer would overflow to infinity"),
+            string.Create(CultureInfo.InvariantCulture, $"{what} reaches {magnitude:G6} in magnitude, ")
+            + $"beyond the largest {type}; the scorer would overflow to infinity",
             hint);
         bool Fits(double magnitude) => magnitude + errorBound <= max;   // false for NaN and ∞ too
 
@@ -39,17 +45,20 @@ public static class FloatRangeCheck
         for (int j = 0; j < r.Hidden.Length; j++)
         {
             var a = r.Hidden[j];
-            if (!Fits(a.MaxAbs)) Refuse($"the pre-activation of hidden unit {j} (or one of its partial sums)", a.MaxAbs);
+            if (!Fits(a.MaxAbs))
+                Refuse($"the pre-activation of hidden unit {j} (or one of its partial sums)", a.MaxAbs);
             scores += a.MaxAbs;
             sp += Math.Max(0, a.Max) + Math.Log(2);
         }
         var linear = r.VisibleBiasTerm + r.LateralTerm;
-        if (!Fits(linear.MaxAbs)) Refuse("the visible-bias and lateral part of the energy (or one of its partial sums)", linear.MaxAbs);
+        if (!Fits(linear.MaxAbs))
+            Refuse("the visible-bias and lateral part of the energy (or one of its partial sums)", linear.MaxAbs);
         double hiddenPart = sp;
         if (model.Kind == ModelKind.General)
         {
             scores += r.HiddenLinkTerm.Max - r.HiddenLinkTerm.Min;
-            if (!Fits(2 * scores)) Refuse("a hidden-state score of the general model (or its distance to the largest)", 2 * scores);
+            if (!Fits(2 * scores))
+                Refuse("a hidden-state score of the general model (or its distance to the largest)", 2 * scores);
             hiddenPart = scores + model.Hidden * Math.Log(2);
         }
         double energy = linear.MaxAbs + hiddenPart;

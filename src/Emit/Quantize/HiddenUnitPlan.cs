@@ -18,7 +18,9 @@ public sealed record HiddenUnitPlan
     /// <summary>C_j = round(c_j · 2^f_j): the accumulator's initial value.</summary>
     public required long Bias { get; init; }
 
-    /// <summary>d_j = f_j − e: for the magnitude m = |a_j| the table index is m &gt;&gt; d_j, the fraction m &amp; (2^d_j − 1).</summary>
+    /// <summary>
+    /// d_j = f_j − e: for the magnitude m = |a_j| the table index is m &gt;&gt; d_j, the fraction m &amp; (2^d_j − 1).
+    /// </summary>
     public required int TableShift { get; init; }
 
     /// <summary>P_j = R · 2^f_j = N · 2^d_j: magnitudes m ≥ P_j give G = 0.</summary>
@@ -27,7 +29,9 @@ public sealed record HiddenUnitPlan
     /// <summary>2^d_j − 1.</summary>
     public long TableMask => (1L << TableShift) - 1;
 
-    /// <summary>s_j = f_j − E, the argument of to_energy for this unit (upper tail; general: the unit's score term).</summary>
+    /// <summary>
+    /// s_j = f_j − E, the argument of to_energy for this unit (upper tail; general: the unit's score term).
+    /// </summary>
     public required int EnergyShift { get; init; }
 
     /// <summary>Exact range of the accumulator over all binary inputs (rounded integer weights).</summary>

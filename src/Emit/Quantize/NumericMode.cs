@@ -14,6 +14,7 @@ public enum NumericMode
 /// <summary>Text forms of <see cref="NumericMode"/> as used on the command line and in generated banners.</summary>
 public static class NumericModeNames
 {
+    /// <summary>The mode's name: f32, f64 or fixed.</summary>
     public static string ToText(this NumericMode mode) => mode switch
     {
         NumericMode.F64 => "f64",
@@ -22,6 +23,7 @@ public static class NumericModeNames
         _ => throw new ArgumentOutOfRangeException(nameof(mode)),
     };
 
+    /// <summary>The mode named <paramref name="text"/>, or null for an unknown name.</summary>
     public static NumericMode? Parse(string text) => text switch
     {
         "f64" => NumericMode.F64,

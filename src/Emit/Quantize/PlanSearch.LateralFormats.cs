@@ -27,7 +27,8 @@ internal sealed partial class PlanSearch
     /// The lateral links' fraction bits f_L: as large as the weight type allows, lowered until the lateral sum and its
     /// rescaling to E fit the accumulator; false when none does.
     /// </summary>
-    private bool ChooseLateralFormat(int e, long lim, CheckSink checks, ref bool reduced, out Column lat, out int fl, out IntRange latE)
+    private bool ChooseLateralFormat(int e, long lim, CheckSink checks, ref bool reduced, out Column lat, out int fl,
+        out IntRange latE)
     {
         if (_m.VisibleLinks.IsEmpty)
         {

@@ -12,7 +12,8 @@ internal sealed partial class PlanSearch
     private static int FractionLimit(double maxAbs, long wmax)
     {
         int f = FixedPointPlanner.MaxFractionBits;
-        while (maxAbs > 0 && (Math.ScaleB(maxAbs, f) >= 9.2233720368547758E18 || FixedRounding.Quantize(maxAbs, f) > wmax)) f--;
+        while (maxAbs > 0
+            && (Math.ScaleB(maxAbs, f) >= 9.2233720368547758E18 || FixedRounding.Quantize(maxAbs, f) > wmax)) f--;
         return f;
     }
 
@@ -47,7 +48,16 @@ internal sealed partial class PlanSearch
         Int128 bias = FixedRounding.Quantize(_m.HiddenBias[j], f);
         double db = Math.ScaleB((double)bias, -f) - _m.HiddenBias[j];
         if (bias > long.MaxValue / 2 || bias < long.MinValue / 2) bias = long.MaxValue / 2;  // fails every range check
-        c = new Column { Q = q, Bias = (long)bias, Neg = neg, Pos = pos, Delta = new ErrorInterval(dn + db, dp + db), D = dd, DC = db };
+        c = new Column
+        {
+            Q = q,
+            Bias = (long)bias,
+            Neg = neg,
+            Pos = pos,
+            Delta = new ErrorInterval(dn + db, dp + db),
+            D = dd,
+            DC = db,
+        };
         _columns[(j, f)] = c;
         return c;
     }
@@ -57,7 +67,8 @@ internal sealed partial class PlanSearch
     /// unit fits the accumulator; false when some unit cannot fit at any f_j the table supports. Sets
     /// <paramref name="reduced"/> when some unit had to give up bits.
     /// </summary>
-    private bool ChooseUnitFormats(SoftplusTable table, long lim, CheckSink checks, bool named, int[] f, IntRange[] outRange,
+    private bool ChooseUnitFormats(SoftplusTable table, long lim, CheckSink checks, bool named, int[] f,
+        IntRange[] outRange,
         Column[] cols, ref bool reduced)
     {
         int step = table.StepFractionBits;
@@ -116,7 +127,9 @@ internal sealed partial class PlanSearch
         checks.Add(unit, prefix + "interpolation_product", new IntRange(0, table.MaxEntryStep * Pow2(d) + half));
     }
 
-    /// <summary>Checks of one hidden unit at f fraction bits; its output range (softplus_q value or score term z_j).</summary>
+    /// <summary>
+    /// Checks of one hidden unit at f fraction bits; its output range (softplus_q value or score term z_j).
+    /// </summary>
     private void UnitChecks(string? u, Column col, int f, SoftplusTable table, CheckSink checks, out IntRange output)
     {
         int e = table.FractionBits;

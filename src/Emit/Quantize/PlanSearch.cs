@@ -37,7 +37,8 @@ internal sealed partial class PlanSearch
             _weightLimit[j] = FractionLimit(maxAbs, wmax);
         }
         _lateralLimit = FractionLimit(model.VisibleLinks.Select(l => Math.Abs(l.W)).DefaultIfEmpty(0).Max(), wmax);
-        double scale = 1 + _real.FreeEnergy.MaxAbs + _real.Hidden.Sum(r => r.MaxAbs) + _real.LateralTerm.MaxAbs + _real.HiddenLinkTerm.MaxAbs;
+        double scale = 1 + _real.FreeEnergy.MaxAbs + _real.Hidden.Sum(r => r.MaxAbs) + _real.LateralTerm.MaxAbs +
+            _real.HiddenLinkTerm.MaxAbs;
         _slack = 1e-12 * scale;
         double sp = 0;
         foreach (var r in _real.Hidden) sp += Math.Max(0, r.Max) + Math.Log(2);
@@ -224,7 +225,8 @@ internal sealed partial class PlanSearch
         checks.Add(null, "energy.linear", linear);
         var baseRange = linear + latE;
         checks.Add(null, "energy.base", baseRange);
-        var sum = new IntRange(baseRange.Min + Int128.Min(0, hiddenOut.Min), baseRange.Max + Int128.Max(0, hiddenOut.Max));
+        var sum = new IntRange(baseRange.Min + Int128.Min(0, hiddenOut.Min),
+            baseRange.Max + Int128.Max(0, hiddenOut.Max));
         checks.Add(null, "energy.sum", sum);
         checks.Add(null, "energy.result", -sum);
         if (!checks.Ok) return null;

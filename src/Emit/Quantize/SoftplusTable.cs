@@ -46,7 +46,8 @@ public sealed class SoftplusTable
             maxStep = Math.Max(maxStep, step);
         }
         MaxEntryStep = maxStep;
-        EntryFormat = Entries[0] <= ushort.MaxValue ? new QFormat(16, fractionBits, Signed: false) : new QFormat(32, fractionBits);
+        EntryFormat = Entries[0] <= ushort.MaxValue ? new QFormat(16, fractionBits, Signed: false)
+            : new QFormat(32, fractionBits);
     }
 
     /// <summary>G(d) = log1p(exp(−d)) = softplus(−d) in double precision.</summary>
@@ -73,7 +74,9 @@ public sealed class SoftplusTable
     /// <summary>T[0..N], non-increasing.</summary>
     public ImmutableArray<long> Entries { get; }
 
-    /// <summary>Storage format of an entry: UQ(16−E).E when every entry fits 16 bits unsigned, else Q(31−E).E.</summary>
+    /// <summary>
+    /// Storage format of an entry: UQ(16−E).E when every entry fits 16 bits unsigned, else Q(31−E).E.
+    /// </summary>
     public QFormat EntryFormat { get; }
 
     /// <summary>Bytes of the table in the generated code.</summary>
@@ -98,7 +101,9 @@ public sealed class SoftplusTable
     /// </summary>
     public double InterpolationBound(int k) => _interpBound[k];
 
-    /// <summary>max of σ(x)(1 − σ(x)) over [a, b]: 1/4 if the interval holds 0, else its value at the end nearer 0.</summary>
+    /// <summary>
+    /// max of σ(x)(1 − σ(x)) over [a, b]: 1/4 if the interval holds 0, else its value at the end nearer 0.
+    /// </summary>
     public static double MaxCurvature(double a, double b)
     {
         if (a <= 0 && b >= 0) return 0.25;
@@ -114,15 +119,15 @@ public sealed class SoftplusTable
     public Int128 Limit(int inputFractionBits) => (Int128)Segments << IndexShift(inputFractionBits);
 
     /// <summary>
-    /// Range of (G_q(m)·2^−E − G(m·2^−f)) in nats over the integers m ∈ [<paramref name="mMin"/>, <paramref name="mMax"/>]
-    /// (m ≥ 0, format Q·.f). Tail (m ≥ P, G_q = 0): −G at the region's ends (G is decreasing). Table: interpolation
-    /// error [0, max h²/8·G''] + interpolated entry error [min e_k, max e_k] + rounding of the interpolation step,
-    /// over the segments the range touches.
+    /// Range of (G_q(m)·2^−E − G(m·2^−f)) in nats over the integers m ∈ [<paramref name="mMin"/>,
+    /// <paramref name="mMax"/>] (m ≥ 0, format Q·.f). Tail (m ≥ P, G_q = 0): −G at the region's ends (G is decreasing).
+    /// Table: interpolation error [0, max h²/8·G''] + interpolated entry error [min e_k, max e_k] + rounding of the
+    /// interpolation step, over the segments the range touches.
     /// </summary>
     public ErrorInterval GError(Int128 mMin, Int128 mMax, int inputFractionBits)
     {
         if (mMin > mMax) return ErrorInterval.Empty;
-        if (mMin < 0) throw new ArgumentOutOfRangeException(nameof(mMin));
+        ArgumentOutOfRangeException.ThrowIfNegative(mMin);
         int f = inputFractionBits, d = IndexShift(f);
         if (d < 0) throw new InvalidOperationException("input format coarser than the table step");
         Int128 p = Limit(f);
@@ -156,7 +161,7 @@ public sealed class SoftplusTable
     /// </summary>
     public long LookupG(long m, int inputFractionBits)
     {
-        if (m < 0) throw new ArgumentOutOfRangeException(nameof(m));
+        ArgumentOutOfRangeException.ThrowIfNegative(m);
         int d = IndexShift(inputFractionBits);
         if (m >= Limit(inputFractionBits)) return 0;
         int k = (int)(m >> d);
@@ -202,7 +207,8 @@ public sealed class SoftplusTable
         }
         int lv = BitOperations.Log2((uint)(b - a + 1));
         int second = b - (1 << lv) + 1;
-        return (Math.Min(sparse.Min[lv][a], sparse.Min[lv][second]), Math.Max(sparse.Max[lv][a], sparse.Max[lv][second]));
+        return (Math.Min(sparse.Min[lv][a], sparse.Min[lv][second]),
+            Math.Max(sparse.Max[lv][a], sparse.Max[lv][second]));
     }
 
     /// <summary>
@@ -222,7 +228,8 @@ public sealed class SoftplusTable
         {
             Int128 lo = Int128.Max(aMin, 1);
             var pos = GError(lo, aMax, inputFractionBits)
-                      + Math.ScaleB(1.0, -FractionBits) * FixedRounding.DropBitsError(inputFractionBits - FractionBits, nonNegative: true);
+                      + Math.ScaleB(1.0, -FractionBits) * FixedRounding.DropBitsError(inputFractionBits - FractionBits,
+                          nonNegative: true);
             result = result.Hull(pos);
         }
         return result;

@@ -21,7 +21,9 @@ public sealed record AisResult(double LogPartition, double Stderr, int Chains, i
 /// </summary>
 public static class AisLogPartition
 {
-    public static AisResult Estimate(BoltzmannModel model, AisOptions? options = null, CancellationToken cancel = default)
+    /// <summary>Estimates log Z of <paramref name="model"/> with its standard error.</summary>
+    public static AisResult Estimate(BoltzmannModel model, AisOptions? options = null,
+        CancellationToken cancel = default)
     {
         var o = options ?? new AisOptions();
         if (o.Chains < 2) throw new EmitException("AIS needs at least 2 chains");
@@ -42,7 +44,8 @@ public static class AisLogPartition
             double lw = 0;
             for (int k = 1; k < betas.Length; k++)
             {
-                lw += LogUnnormalised(model, baseBias, v, h, betas[k], u) - LogUnnormalised(model, baseBias, v, h, betas[k - 1], u);
+                lw += LogUnnormalised(model, baseBias, v, h, betas[k], u) - LogUnnormalised(model, baseBias, v, h,
+                    betas[k - 1], u);
                 if (k < betas.Length - 1) chain.Sweep(v, h, betas[k], rng);
             }
             logWeights[c] = lw;
@@ -73,7 +76,8 @@ public static class AisLogPartition
     /// log p*_β of the chain's state: rbm and lateral, of v alone with h summed out,
     /// (1−β) b_A·v + β(b·v + L(v)) + Σ_j softplus(β u_j); general, of (v, h): (1−β) b_A·v − β E(v,h).
     /// </summary>
-    private static double LogUnnormalised(BoltzmannModel m, double[] baseBias, byte[] v, byte[] h, double beta, double[] u)
+    private static double LogUnnormalised(BoltzmannModel m, double[] baseBias, byte[] v, byte[] h, double beta,
+        double[] u)
     {
         double baseTerm = 0, linear = 0;
         m.HiddenBias.CopyTo(u);

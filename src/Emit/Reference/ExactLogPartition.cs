@@ -13,8 +13,11 @@ public sealed record LogPartitionResult(double LogPartition, long States, double
 /// </summary>
 public static class ExactLogPartition
 {
+    /// <summary>rbm: the largest smaller layer summed over.</summary>
     public const int MaxRbmLayer = 32;
+    /// <summary>lateral: the largest visible layer summed over.</summary>
     public const int MaxLateralVisible = 28;
+    /// <summary>general: the most units (visible + hidden) summed over.</summary>
     public const int MaxGeneralUnits = 30;
 
     /// <summary>Number of states the exact sum visits, or throws with the reason it is refused.</summary>
@@ -32,7 +35,11 @@ public static class ExactLogPartition
         return perBlock * sum.Blocks / Math.Max(1, Environment.ProcessorCount);
     }
 
-    public static LogPartitionResult Compute(BoltzmannModel model, IProgress<long>? progress = null, CancellationToken cancel = default)
+    /// <summary>
+    /// Exact log Z of <paramref name="model"/>; throws if the model is too large (see <see cref="States"/>).
+    /// </summary>
+    public static LogPartitionResult Compute(BoltzmannModel model, IProgress<long>? progress = null,
+        CancellationToken cancel = default)
     {
         var plan = Plan(model);
         var sw = Stopwatch.StartNew();
@@ -41,7 +48,8 @@ public static class ExactLogPartition
         return new LogPartitionResult(logZ, sum.States, sw.Elapsed.TotalSeconds, plan.Description);
     }
 
-    private sealed record EnumerationPlan(int EnumeratedUnits, string Description, Func<GrayCodeSum> Build, double Offset = 0);
+    private sealed record EnumerationPlan(int EnumeratedUnits, string Description, Func<GrayCodeSum> Build,
+        double Offset = 0);
 
     private static EmitException TooLarge(string what, int units, int limit) =>
         new($"exact log Z would enumerate 2^{units} {what} states, more than the 2^{limit} allowed",

@@ -17,6 +17,10 @@ public sealed class GibbsChain
     private readonly (int Other, double W)[][] _hLinks;
     private readonly double[] _w;
 
+    /// <summary>
+    /// A chain for <paramref name="model"/>; <paramref name="baseBias"/> is b_A of the base model (default: the model's
+    /// visible biases).
+    /// </summary>
     public GibbsChain(BoltzmannModel model, double[]? baseBias = null)
     {
         _m = model;

@@ -33,7 +33,8 @@ internal sealed class GrayCodeSum
         _u = rows;
         _c = otherBias;
         if (rows.Length != _n * _m) throw new ArgumentException("rows must be n×m", nameof(rows));
-        if (pairs is not null && pairs.Length != _n * _n) throw new ArgumentException("pairs must be n×n", nameof(pairs));
+        if (pairs is not null && pairs.Length != _n * _n)
+            throw new ArgumentException("pairs must be n×n", nameof(pairs));
     }
 
     public long States => 1L << _n;
@@ -50,7 +51,8 @@ internal sealed class GrayCodeSum
         if (parallel && blocks > 1)
         {
             long done = 0;
-            Parallel.For(0L, blocks, new ParallelOptions { CancellationToken = cancel }, () => new Scratch(_n, _m), (b, _, scratch) =>
+            Parallel.For(0L, blocks, new ParallelOptions { CancellationToken = cancel }, () => new Scratch(_n, _m),
+                (b, _, scratch) =>
             {
                 parts[b] = Block(b * size, size, scratch);
                 if (progress is not null) progress.Report(Interlocked.Add(ref done, size));

@@ -9,8 +9,10 @@ public struct LogSumExpAccumulator
     private double _max;
     private double _sum;
 
+    /// <summary>The empty sum (log 0 = −∞).</summary>
     public static LogSumExpAccumulator Empty => new() { _max = double.NegativeInfinity, _sum = 0 };
 
+    /// <summary>Adds the term exp(<paramref name="x"/>).</summary>
     public void Add(double x)
     {
         if (x <= _max) _sum += Math.Exp(x - _max);
@@ -21,6 +23,7 @@ public struct LogSumExpAccumulator
         }
     }
 
+    /// <summary>Adds every term of <paramref name="other"/>.</summary>
     public void Add(in LogSumExpAccumulator other)
     {
         if (other._sum == 0) return;

@@ -22,6 +22,7 @@ public sealed class ReferenceScorer
     private readonly (int Other, double W)[][] _lateral;  // per visible unit i: links (j, L_ij) with j < i
     private readonly double[]? _hiddenPairs;              // general: H×H symmetric
 
+    /// <summary>A scorer for <paramref name="model"/>.</summary>
     public ReferenceScorer(BoltzmannModel model)
     {
         _model = model;
@@ -45,6 +46,7 @@ public sealed class ReferenceScorer
         }
     }
 
+    /// <summary>The model scored.</summary>
     public BoltzmannModel Model => _model;
 
     /// <summary>F(v) for one vector of <see cref="BoltzmannModel.Visible"/> bytes.</summary>
@@ -75,9 +77,12 @@ public sealed class ReferenceScorer
 
     /// <summary>log p(v) = −F(v) − log Z; needs the model's stored log partition.</summary>
     public double LogProbability(double freeEnergy) =>
-        -freeEnergy - (_model.LogPartition?.Value ?? throw new EmitException("the model has no log_partition", "run emit logz and store it"));
+        -freeEnergy - (_model.LogPartition?.Value
+            ?? throw new EmitException("the model has no log_partition", "run emit logz and store it"));
 
-    /// <summary>Scores <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>, in parallel.</summary>
+    /// <summary>
+    /// Scores <paramref name="rows"/> vectors laid end to end in <paramref name="units"/>, in parallel.
+    /// </summary>
     public void FreeEnergies(ReadOnlySpan<byte> units, int rows, Span<double> result)
     {
         int v = _model.Visible;

@@ -3,7 +3,23 @@ using Emit.Model;
 namespace Emit.Reference;
 
 /// <summary>Where a generated test vector came from.</summary>
-public enum VectorOrigin { AllOff, AllOn, UnitMaximiser, UnitMinimiser, NearThreshold, Sample, Data }
+public enum VectorOrigin
+{
+    /// <summary>Every unit 0.</summary>
+    AllOff,
+    /// <summary>Every unit 1.</summary>
+    AllOn,
+    /// <summary>For one hidden unit, the visible units with a positive weight to it on: its largest input.</summary>
+    UnitMaximiser,
+    /// <summary>For one hidden unit, the visible units with a negative weight to it on: its smallest input.</summary>
+    UnitMinimiser,
+    /// <summary>One of a pair of vectors one bit apart on either side of the threshold.</summary>
+    NearThreshold,
+    /// <summary>A sample of the model (Gibbs chain).</summary>
+    Sample,
+    /// <summary>A row of the user's data.</summary>
+    Data,
+}
 
 /// <summary>One generated test vector (one byte per visible unit) and its origin.</summary>
 public sealed record TestVector(byte[] Units, VectorOrigin Origin);
@@ -21,7 +37,12 @@ public sealed record TestVectorOptions(int Count, ulong Seed = 1, int BurnIn = 1
 /// </summary>
 public static class TestVectorSet
 {
-    public static IReadOnlyList<TestVector> Generate(BoltzmannModel model, TestVectorOptions options, IReadOnlyList<byte[]>? data = null)
+    /// <summary>
+    /// Generates the test vectors of <paramref name="options"/> for <paramref name="model"/>, with rows of user data
+    /// first when given.
+    /// </summary>
+    public static IReadOnlyList<TestVector> Generate(BoltzmannModel model, TestVectorOptions options,
+        IReadOnlyList<byte[]>? data = null)
     {
         if (options.Count < 1) throw new EmitException("the vector count must be at least 1");
         int n = options.Count, v = model.Visible;
@@ -52,12 +73,15 @@ public static class TestVectorSet
         var rng = new Xoshiro256(options.Seed);
         var sampled = Samples(model, Math.Max(samples, nearThreshold > 0 ? 1 : 0), options, rng);
         foreach (var s in sampled.Take(samples)) Add(s, VectorOrigin.Sample);
-        if (nearThreshold > 0) foreach (var s in NearThreshold(model, sampled, nearThreshold, rng)) Add(s, VectorOrigin.NearThreshold);
+        if (nearThreshold > 0)
+            foreach (var s in NearThreshold(model, sampled, nearThreshold, rng)) Add(s, VectorOrigin.NearThreshold);
         if (fromData > 0)
-            for (int k = 0; k < fromData; k++) Add(data![(int)((long)k * data.Count / fromData)].ToArray(), VectorOrigin.Data);
+            for (int k = 0; k < fromData; k++)
+                Add(data![(int)((long)k * data.Count / fromData)].ToArray(), VectorOrigin.Data);
         // Whatever is still missing (too few threshold crossings, say) is filled with more samples.
         if (result.Count < n)
-            foreach (var s in Samples(model, n - result.Count, options with { Seed = options.Seed + 1 }, rng)) Add(s, VectorOrigin.Sample);
+            foreach (var s in Samples(model, n - result.Count, options with { Seed = options.Seed + 1 }, rng))
+                Add(s, VectorOrigin.Sample);
         return result;
     }
 
@@ -87,11 +111,13 @@ public static class TestVectorSet
     /// Pairs one bit apart with F on either side of the threshold: from a normal vector, flip the bits in which
     /// it differs from an unusual one, in random order, until F crosses the threshold.
     /// </summary>
-    private static IEnumerable<byte[]> NearThreshold(BoltzmannModel model, List<byte[]> samples, int count, Xoshiro256 rng)
+    private static IEnumerable<byte[]> NearThreshold(BoltzmannModel model, List<byte[]> samples, int count,
+        Xoshiro256 rng)
     {
         var scorer = new ReferenceScorer(model);
         double t = model.Threshold!.Value;
-        var candidates = samples.Concat([new byte[model.Visible], Enumerable.Repeat((byte)1, model.Visible).ToArray()]).ToList();
+        byte[][] extremes = [new byte[model.Visible], Enumerable.Repeat((byte)1, model.Visible).ToArray()];
+        var candidates = samples.Concat(extremes).ToList();
         var normal = candidates.Where(x => scorer.FreeEnergy(x) <= t).ToList();
         var unusual = candidates.Where(x => scorer.FreeEnergy(x) > t).ToList();
         if (normal.Count == 0 || unusual.Count == 0) yield break;
@@ -101,7 +127,8 @@ public static class TestVectorSet
             var cur = normal[rng.NextInt(normal.Count)].ToArray();
             var target = unusual[rng.NextInt(unusual.Count)];
             var diff = Enumerable.Range(0, cur.Length).Where(i => cur[i] != target[i]).ToArray();
-            for (int k = diff.Length - 1; k > 0; k--) { int r = rng.NextInt(k + 1); (diff[k], diff[r]) = (diff[r], diff[k]); }
+            for (int k = diff.Length - 1; k > 0; k--) { int r = rng.NextInt(k + 1); (diff[k], diff[r]) = (diff[r],
+                diff[k]); }
             foreach (int i in diff)
             {
                 var before = cur.ToArray();

@@ -9,6 +9,9 @@ public sealed class Xoshiro256
 {
     private ulong _s0, _s1, _s2, _s3;
 
+    /// <summary>
+    /// A generator whose four state words are drawn from SplitMix64 started at <paramref name="seed"/>.
+    /// </summary>
     public Xoshiro256(ulong seed)
     {
         ulong x = seed;
@@ -18,7 +21,9 @@ public sealed class Xoshiro256
         _s3 = SplitMix64(ref x);
     }
 
-    /// <summary>One SplitMix64 step (Steele, Lea and Flood 2014): advances <paramref name="x"/> and returns the output.</summary>
+    /// <summary>
+    /// One SplitMix64 step (Steele, Lea and Flood 2014): advances <paramref name="x"/> and returns the output.
+    /// </summary>
     public static ulong SplitMix64(ref ulong x)
     {
         ulong z = x += 0x9E3779B97F4A7C15UL;
@@ -27,6 +32,7 @@ public sealed class Xoshiro256
         return z ^ (z >> 31);
     }
 
+    /// <summary>The next 64 random bits.</summary>
     public ulong NextUInt64()
     {
         ulong result = ulong.RotateLeft(_s1 * 5, 7) * 9;

@@ -59,7 +59,8 @@ internal sealed class Parameters
     /// <summary>The model these parameters define (links with |w| = 0 are left out).</summary>
     public BoltzmannModel ToModel(ModelKind kind, ImmutableArray<string> names, string? metadataJson = null)
     {
-        return new BoltzmannModel(kind, Visible, Hidden, ImmutableArray.Create(B), ImmutableArray.Create(C), ImmutableArray.Create(W),
+        return new BoltzmannModel(kind, Visible, Hidden, ImmutableArray.Create(B), ImmutableArray.Create(C),
+            ImmutableArray.Create(W),
             Links(L, Visible), Links(M, Hidden), names, metadataJson: metadataJson);
     }
 

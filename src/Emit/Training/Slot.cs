@@ -4,7 +4,8 @@ namespace Emit.Training;
 
 /// <summary>
 /// One batch slot: its random stream, its persistent chain state (v, h) and scratch space. Slot k handles the
-/// k-th row of every batch and the k-th persistent chain, whichever thread runs it, so results do not depend on threads.
+/// k-th row of every batch and the k-th persistent chain, whichever thread runs it, so results do not depend on
+/// threads.
 /// </summary>
 internal sealed class Slot
 {

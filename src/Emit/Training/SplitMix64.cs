@@ -3,8 +3,8 @@ namespace Emit.Training;
 /// <summary>
 /// SplitMix64 pseudo-random generator (Steele, Lea and Flood, "Fast splittable pseudorandom number generators",
 /// OOPSLA 2014; the 64-bit finaliser constants of Vigna's public-domain splitmix64.c). Our own implementation so
-/// the demo data and the trainer never depend on <see cref="System.Random"/>, whose sequence may change between .NET versions.
-/// Integer arithmetic only: the same seed gives the same sequence on every platform.
+/// the demo data and the trainer never depend on <see cref="System.Random"/>, whose sequence may change between .NET
+/// versions. Integer arithmetic only: the same seed gives the same sequence on every platform.
 /// </summary>
 public sealed class SplitMix64
 {
@@ -19,7 +19,9 @@ public sealed class SplitMix64
     /// <summary>A double in [0, 1): the top 53 bits times 2^-53 (exact, so platform independent).</summary>
     public double NextDouble() => (Next() >> 11) * (1.0 / (1UL << 53));
 
-    /// <summary>An integer uniform in [0, <paramref name="bound"/>), without modulo bias (rejection of the short last block).</summary>
+    /// <summary>
+    /// An integer uniform in [0, <paramref name="bound"/>), without modulo bias (rejection of the short last block).
+    /// </summary>
     public int NextBelow(int bound)
     {
         if (bound <= 0) throw new ArgumentOutOfRangeException(nameof(bound), bound, "bound must be positive");
@@ -32,6 +34,8 @@ public sealed class SplitMix64
         }
     }
 
-    /// <summary>True with probability <paramref name="p"/> (one draw, even when p is 0 or 1, so streams stay aligned).</summary>
+    /// <summary>
+    /// True with probability <paramref name="p"/> (one draw, even when p is 0 or 1, so streams stay aligned).
+    /// </summary>
     public bool Chance(double p) => NextDouble() < p;
 }

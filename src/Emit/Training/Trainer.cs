@@ -35,9 +35,12 @@ public static class Trainer
         ArgumentNullException.ThrowIfNull(settings);
         settings.Validate();
         if (data.Rows < settings.BatchSize)
-            throw new EmitException($"{data.Rows} rows, fewer than the batch size {settings.BatchSize}", "give more rows or a smaller batch", data.Source);
+            throw new EmitException($"{data.Rows} rows, fewer than the batch size {settings.BatchSize}",
+                "give more rows or a smaller batch", data.Source);
         if (validation is not null && validation.Width != data.Width)
-            throw new EmitException($"validation rows have {validation.Width} values, the training rows {data.Width}", null, validation.Source);
-        return new TrainingRun(data, validation, settings).Execute(progress, cancel);
+            throw new EmitException($"validation rows have {validation.Width} values, the training rows {data.Width}",
+                null, validation.Source);
+        using var run = new TrainingRun(data, validation, settings);
+        return run.Execute(progress, cancel);
     }
 }

@@ -33,7 +33,10 @@ public sealed record TrainerSettings
     /// <summary>Rows per parameter update; also the number of persistent chains.</summary>
     public int BatchSize { get; init; } = 10;
 
-    /// <summary>Step size on the batch-average gradient at the start; it decays linearly to zero over the last half of the epochs.</summary>
+    /// <summary>
+    /// Step size on the batch-average gradient at the start; it decays linearly to zero over the last half of the
+    /// epochs.
+    /// </summary>
     public double LearningRate { get; init; } = 0.05;
 
     /// <summary>Momentum for the first <see cref="MomentumSwitchEpoch"/> epochs.</summary>
@@ -51,7 +54,9 @@ public sealed record TrainerSettings
     /// <summary>Initial weights are uniform in [-scale, scale].</summary>
     public double InitialWeightScale { get; init; } = 0.01;
 
-    /// <summary>When true, the learning rate decays linearly to zero over the second half of the epochs; else it is constant.</summary>
+    /// <summary>
+    /// When true, the learning rate decays linearly to zero over the second half of the epochs; else it is constant.
+    /// </summary>
     public bool DecayLearningRate { get; init; } = true;
 
     /// <summary>Epochs without a better validation score before training stops (0: never stop early).</summary>
@@ -63,21 +68,30 @@ public sealed record TrainerSettings
     /// <summary>Worker threads (1 or more). The trained model does not depend on it.</summary>
     public int Threads { get; init; } = 1;
 
-    /// <summary>What is wrong with the settings, as (setting name, problem) pairs; empty when they are usable.</summary>
+    /// <summary>
+    /// What is wrong with the settings, as (setting name, problem) pairs; empty when they are usable.
+    /// </summary>
     public IReadOnlyList<(string Setting, string Problem)> Problems()
     {
         var p = new List<(string, string)>();
         if (Hidden < 1) p.Add(("hidden", $"must be at least 1 (got {Hidden})"));
         if (Kind == ModelKind.General && Hidden > MaxGeneralHidden)
-            p.Add(("hidden", $"is {Hidden}; kind general allows at most {MaxGeneralHidden} (its positive phase enumerates 2^hidden states per row)"));
+            p.Add(("hidden",
+                $"is {Hidden}; kind general allows at most {MaxGeneralHidden} (its positive phase enumerates " +
+                "2^hidden states per row)"));
         if (GibbsSteps < 1) p.Add(("gibbs-steps", $"must be at least 1 (got {GibbsSteps})"));
         if (Epochs < 0) p.Add(("epochs", $"must not be negative (got {Epochs})"));
         if (BatchSize < 1) p.Add(("batch", $"must be at least 1 (got {BatchSize})"));
-        if (!double.IsFinite(LearningRate) || LearningRate <= 0) p.Add(("learning-rate", $"must be a positive finite number (got {Text(LearningRate)})"));
-        if (!double.IsFinite(Momentum) || Momentum < 0 || Momentum >= 1) p.Add(("momentum", $"must be in [0, 1) (got {Text(Momentum)})"));
-        if (!double.IsFinite(InitialMomentum) || InitialMomentum < 0 || InitialMomentum >= 1) p.Add(("initial-momentum", $"must be in [0, 1) (got {Text(InitialMomentum)})"));
-        if (!double.IsFinite(WeightDecay) || WeightDecay < 0) p.Add(("weight-decay", $"must be a finite number >= 0 (got {Text(WeightDecay)})"));
-        if (!double.IsFinite(InitialWeightScale) || InitialWeightScale < 0) p.Add(("initial-weight-scale", $"must be a finite number >= 0 (got {Text(InitialWeightScale)})"));
+        if (!double.IsFinite(LearningRate) || LearningRate <= 0)
+            p.Add(("learning-rate", $"must be a positive finite number (got {Text(LearningRate)})"));
+        if (!double.IsFinite(Momentum) || Momentum < 0 || Momentum >= 1)
+            p.Add(("momentum", $"must be in [0, 1) (got {Text(Momentum)})"));
+        if (!double.IsFinite(InitialMomentum) || InitialMomentum < 0 || InitialMomentum >= 1)
+            p.Add(("initial-momentum", $"must be in [0, 1) (got {Text(InitialMomentum)})"));
+        if (!double.IsFinite(WeightDecay) || WeightDecay < 0)
+            p.Add(("weight-decay", $"must be a finite number >= 0 (got {Text(WeightDecay)})"));
+        if (!double.IsFinite(InitialWeightScale) || InitialWeightScale < 0)
+            p.Add(("initial-weight-scale", $"must be a finite number >= 0 (got {Text(InitialWeightScale)})"));
         if (Patience < 0) p.Add(("patience", $"must not be negative (got {Patience})"));
         if (Threads < 1) p.Add(("threads", $"must be at least 1 (got {Threads})"));
         return p;

@@ -10,11 +10,14 @@ namespace Emit.Training;
 /// </summary>
 public sealed class TrainingData
 {
-    /// <summary>Wraps rows already in memory (each 0 or 1); <paramref name="source"/> names them in errors and metadata.</summary>
+    /// <summary>
+    /// Wraps rows already in memory (each 0 or 1); <paramref name="source"/> names them in errors and metadata.
+    /// </summary>
     public TrainingData(byte[] units, int width, ImmutableArray<string> names, string source, string sha256)
     {
         ArgumentNullException.ThrowIfNull(units);
-        if (width < 1 || units.Length % width != 0) throw new EmitException($"{units.Length} values do not make rows of {width}", null, source);
+        if (width < 1 || units.Length % width != 0)
+            throw new EmitException($"{units.Length} values do not make rows of {width}", null, source);
         foreach (var u in units)
             if (u > 1) throw new EmitException("a value is neither 0 nor 1", null, source);
         Units = units;
@@ -76,7 +79,8 @@ public sealed class TrainingData
 
         // Streamed through the reader (which refuses endless lines, so /dev/zero fails at once) and hashed on the way.
         using var sha = SHA256.Create();
-        using var hashing = new CryptoStream(input, sha, CryptoStreamMode.Read, leaveOpen: path == VectorReader.StdinPath && stdin is not null);
+        using var hashing = new CryptoStream(input, sha, CryptoStreamMode.Read,
+            leaveOpen: path == VectorReader.StdinPath && stdin is not null);
         using var reader = new VectorReader(hashing, source, width, leaveOpen: true);
         var row = new byte[reader.Width];
         var all = new MemoryStream();
@@ -87,19 +91,26 @@ public sealed class TrainingData
             rows++;
         }
         if (rows == 0)
-            throw new EmitException("file has a header but no vectors", "write one vector of 0/1 values per line after the header", source);
-        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source, Convert.ToHexStringLower(HashToEnd(hashing, sha)));
+            throw new EmitException("file has a header but no vectors",
+                "write one vector of 0/1 values per line after the header", source);
+        return new TrainingData(all.ToArray(), reader.Width, reader.Names, source,
+            Convert.ToHexStringLower(HashToEnd(hashing, sha)));
     }
 
-    /// <summary>Reads what is left of <paramref name="hashing"/> (the hash covers the whole file) and returns the hash.</summary>
+    /// <summary>
+    /// Reads what is left of <paramref name="hashing"/> (the hash covers the whole file) and returns the hash.
+    /// </summary>
     private static byte[] HashToEnd(CryptoStream hashing, HashAlgorithm sha)
     {
         hashing.CopyTo(Stream.Null);
         return sha.Hash!;
     }
 
-    /// <summary>Rows given as arrays (tests, the demo), with the SHA-256 of their CSV text as <see cref="Sha256"/>.</summary>
-    public static TrainingData FromRows(IReadOnlyList<ImmutableArray<byte>> rows, ImmutableArray<string> names, string source)
+    /// <summary>
+    /// Rows given as arrays (tests, the demo), with the SHA-256 of their CSV text as <see cref="Sha256"/>.
+    /// </summary>
+    public static TrainingData FromRows(IReadOnlyList<ImmutableArray<byte>> rows, ImmutableArray<string> names,
+        string source)
     {
         ArgumentNullException.ThrowIfNull(rows);
         if (rows.Count == 0) throw new EmitException("no rows", null, source);
@@ -107,14 +118,18 @@ public sealed class TrainingData
         var units = new byte[rows.Count * width];
         for (int r = 0; r < rows.Count; r++)
         {
-            if (rows[r].Length != width) throw new EmitException($"row {r} has {rows[r].Length} values, expected {width}", null, source);
+            if (rows[r].Length != width)
+                throw new EmitException($"row {r} has {rows[r].Length} values, expected {width}", null, source);
             rows[r].CopyTo(units, r * width);
         }
         var text = System.Text.Encoding.UTF8.GetBytes(Csv(units, width, names));
         return new TrainingData(units, width, names, source, Convert.ToHexStringLower(SHA256.HashData(text)));
     }
 
-    /// <summary>The rows as a vector file: header of names (when there are names), then one comma-separated row per line, "\n" line ends.</summary>
+    /// <summary>
+    /// The rows as a vector file: header of names (when there are names), then one comma-separated row per line, "\n"
+    /// line ends.
+    /// </summary>
     public static string Csv(byte[] units, int width, ImmutableArray<string> names)
     {
         var sb = new System.Text.StringBuilder(units.Length * 2 + 1024);

@@ -14,7 +14,10 @@ public static class TrainingMath
     private const double InvLn2 = 1.44269504088896338700e+00;
     private const double Sqrt2 = 1.41421356237309504880;
 
-    /// <summary>e^x. Range reduction x = n ln2 + r, |r| &lt;= ln2/2 (about), then the Taylor series to degree 13 by Horner's rule.</summary>
+    /// <summary>
+    /// e^x. Range reduction x = n ln2 + r, |r| &lt;= ln2/2 (about), then the Taylor series to degree 13 by Horner's
+    /// rule.
+    /// </summary>
     public static double Exp(double x)
     {
         if (double.IsNaN(x)) return x;

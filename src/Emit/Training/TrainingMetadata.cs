@@ -20,8 +20,11 @@ public static class TrainingMetadata
         }
     }
 
-    /// <summary>A complete <c>metadata</c> object (text, indented to sit inside a model file) with one <c>training</c> member.</summary>
-    public static string Json(TrainingData data, TrainingData? validation, TrainerSettings settings, TrainingResult result)
+    /// <summary>
+    /// A complete <c>metadata</c> object (text, indented to sit inside a model file) with one <c>training</c> member.
+    /// </summary>
+    public static string Json(TrainingData data, TrainingData? validation, TrainerSettings settings,
+        TrainingResult result)
     {
         using var stream = new MemoryStream();
         using (var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true, NewLine = "\n" }))
@@ -35,7 +38,8 @@ public static class TrainingMetadata
     }
 
     /// <summary>Writes the <c>training</c> member into an open object (the demo adds it to its own metadata).</summary>
-    public static void WriteTraining(Utf8JsonWriter w, TrainingData data, TrainingData? validation, TrainerSettings s, TrainingResult result)
+    public static void WriteTraining(Utf8JsonWriter w, TrainingData data, TrainingData? validation, TrainerSettings s,
+        TrainingResult result)
     {
         ArgumentNullException.ThrowIfNull(w);
         ArgumentNullException.ThrowIfNull(data);
@@ -91,7 +95,9 @@ public static class TrainingMetadata
         w.WriteEndObject();
     }
 
-    /// <summary>The written JSON with each line after the first indented by two spaces, as metadata sits in a model file.</summary>
+    /// <summary>
+    /// The written JSON with each line after the first indented by two spaces, as metadata sits in a model file.
+    /// </summary>
     public static string Indent(MemoryStream stream) =>
         Encoding.UTF8.GetString(stream.ToArray()).Replace("\n", "\n  ");
 }

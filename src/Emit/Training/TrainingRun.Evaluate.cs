@@ -9,7 +9,9 @@ internal sealed partial class TrainingRun
     /// <summary>Rows of each set used for the per-epoch figures (the first ones, in file order).</summary>
     internal const int MonitorRows = 2000;
 
-    /// <summary>Training rows the reconstruction error is measured on (the first ones; a dense pass, so kept small).</summary>
+    /// <summary>
+    /// Training rows the reconstruction error is measured on (the first ones; a dense pass, so kept small).
+    /// </summary>
     internal const int ReconstructionRows = 256;
 
     /// <summary>Exact log Z is computed each epoch when it enumerates at most 2^this states.</summary>
@@ -20,7 +22,8 @@ internal sealed partial class TrainingRun
     private void PrepareEvaluation()
     {
         if (_validation is null) return;
-        // The unit each validation row's pseudo-likelihood flips, drawn once so every epoch is scored on the same terms.
+        // The unit each validation row's pseudo-likelihood flips, drawn once so every epoch is scored on the same
+        // terms.
         var rng = new SplitMix64(_s.Seed ^ 0x5EED_0F_5CE1EC7UL);
         _pllUnit = new int[Math.Min(_validation.Rows, MonitorRows)];
         for (int r = 0; r < _pllUnit.Length; r++) _pllUnit[r] = rng.NextBelow(_nv);
@@ -53,7 +56,8 @@ internal sealed partial class TrainingRun
             {
                 _validation.Row(r).CopyTo(flipped);
                 flipped[_pllUnit[r]] ^= 1;
-                // log p(v_u | v_rest) = -softplus(F(v) - F(v with u flipped)); scaled by the unit count (Besag 1975; as scikit-learn's score_samples).
+                // log p(v_u | v_rest) = -softplus(F(v) - F(v with u flipped)); scaled by the unit count (Besag 1975; as
+                // scikit-learn's score_samples).
                 sum -= Softplus.Of(energies[r] - scorer.FreeEnergy(flipped));
             }
             pll = _nv * sum / nVal;
@@ -61,7 +65,9 @@ internal sealed partial class TrainingRun
         return new EpochReport(epoch, _s.Epochs, lr, recon, gap, exact, pll, false);
     }
 
-    /// <summary>True when exact log Z of <paramref name="model"/> enumerates at most 2^<see cref="ExactBits"/> states.</summary>
+    /// <summary>
+    /// True when exact log Z of <paramref name="model"/> enumerates at most 2^<see cref="ExactBits"/> states.
+    /// </summary>
     internal static bool ExactFits(BoltzmannModel model)
     {
         try
@@ -74,7 +80,10 @@ internal sealed partial class TrainingRun
         }
     }
 
-    /// <summary>Mean squared difference between training rows and p(v_i | mean-field h, other visible units), over the first rows.</summary>
+    /// <summary>
+    /// Mean squared difference between training rows and p(v_i | mean-field h, other visible units), over the first
+    /// rows.
+    /// </summary>
     private double ReconstructionError()
     {
         int rows = Math.Min(_data.Rows, ReconstructionRows);

@@ -7,7 +7,9 @@ namespace Emit.Training;
 /// <summary>Positive and negative phase of one batch slot, and the parameter update.</summary>
 internal sealed partial class TrainingRun
 {
-    /// <summary>Slot k: the positive statistics of the batch's k-th row (when it has one), then its chain's negative phase.</summary>
+    /// <summary>
+    /// Slot k: the positive statistics of the batch's k-th row (when it has one), then its chain's negative phase.
+    /// </summary>
     private void SlotWork(int k)
     {
         var slot = _slot[k];
@@ -48,7 +50,8 @@ internal sealed partial class TrainingRun
 
     /// <summary>
     /// Visible units given the hidden ones: in one block for kind rbm (they are independent), else one at a time
-    /// in unit order, each from its energy gap b_i + Σ_j W_ij h_j + Σ_k L_ik v_k given the current values of the others.
+    /// in unit order, each from its energy gap b_i + Σ_j W_ij h_j + Σ_k L_ik v_k given the current values of the
+    /// others.
     /// </summary>
     private void VisibleSweep(Slot slot)
     {
@@ -60,7 +63,8 @@ internal sealed partial class TrainingRun
         var v = slot.V;
         if (_p.L is not { } l)
         {
-            for (int i = 0; i < _nv; i++) v[i] = slot.Rng.NextDouble() < TrainingMath.Sigmoid(field[i]) ? (byte)1 : (byte)0;
+            for (int i = 0; i < _nv; i++)
+                v[i] = slot.Rng.NextDouble() < TrainingMath.Sigmoid(field[i]) ? (byte)1 : (byte)0;
             return;
         }
         for (int i = 0; i < _nv; i++)
@@ -152,7 +156,10 @@ internal sealed partial class TrainingRun
         slot.Total = total;
     }
 
-    /// <summary>Draws the slot's hidden state from the posterior table <see cref="Posterior"/> left (inverse CDF in state order).</summary>
+    /// <summary>
+    /// Draws the slot's hidden state from the posterior table <see cref="Posterior"/> left (inverse CDF in state
+    /// order).
+    /// </summary>
     private void DrawFromPosterior(Slot slot)
     {
         var table = slot.Table!;
@@ -186,7 +193,8 @@ internal sealed partial class TrainingRun
             var hNeg = neg[..nh];
             int onPos = 0, onNeg = 0;
             for (int r = 0; r < n; r++)
-                if (_data.Units[_order[_batchStart + r] * nv + i] != 0) { TensorPrimitives.Add(hPos, _phPos.AsSpan(r * nh, nh), hPos); onPos++; }
+                if (_data.Units[_order[_batchStart + r] * nv + i] != 0) { TensorPrimitives.Add(hPos,
+                    _phPos.AsSpan(r * nh, nh), hPos); onPos++; }
             for (int r = 0; r < nNeg; r++)
                 if (_vNeg[r * nv + i] != 0) { TensorPrimitives.Add(hNeg, _hNeg.AsSpan(r * nh, nh), hNeg); onNeg++; }
             var w = _p.W.AsSpan(i * nh, nh);

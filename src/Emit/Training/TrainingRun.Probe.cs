@@ -2,10 +2,14 @@ using Emit.Model;
 
 namespace Emit.Training;
 
-/// <summary>Access to single phases for the gradient-check tests (tests/Emit.Tests/Training/GradientCheckTests.cs).</summary>
+/// <summary>
+/// Access to single phases for the gradient-check tests (tests/Emit.Tests/Training/GradientCheckTests.cs).
+/// </summary>
 internal sealed partial class TrainingRun
 {
-    /// <summary>A run whose parameters are those of <paramref name="model"/> (settings' kind and hidden count must match it).</summary>
+    /// <summary>
+    /// A run whose parameters are those of <paramref name="model"/> (settings' kind and hidden count must match it).
+    /// </summary>
     internal static TrainingRun ForModel(BoltzmannModel model, TrainingData data, TrainerSettings settings)
     {
         var run = new TrainingRun(data, null, settings with { Kind = model.Kind, Hidden = model.Hidden });
@@ -13,7 +17,10 @@ internal sealed partial class TrainingRun
         return run;
     }
 
-    /// <summary>The positive statistics for one row: E[h_j | v] into <paramref name="ph"/>, E[h_k h_l | v] (hidden × hidden; kind general only) into <paramref name="hh"/>.</summary>
+    /// <summary>
+    /// The positive statistics for one row: E[h_j | v] into <paramref name="ph"/>, E[h_k h_l | v] (hidden × hidden;
+    /// kind general only) into <paramref name="hh"/>.
+    /// </summary>
     internal void PositiveStatistics(ReadOnlySpan<byte> v, Span<double> ph, Span<double> hh)
     {
         var slot = _slot[0];
@@ -24,7 +31,8 @@ internal sealed partial class TrainingRun
 
     /// <summary>
     /// One Gibbs step of persistent chain <paramref name="k"/> as the negative phase runs it; returns the chain's
-    /// visible state and writes the hidden statistic the gradient uses (p(h | v) for rbm and lateral, the sample for general).
+    /// visible state and writes the hidden statistic the gradient uses (p(h | v) for rbm and lateral, the sample for
+    /// general).
     /// </summary>
     internal ReadOnlySpan<byte> ChainStep(int k, Span<double> hidden)
     {

@@ -5,12 +5,15 @@ using Emit.Model;
 namespace Emit.Training;
 
 /// <summary>The state of one <see cref="Trainer.Train"/> call (split by concern into partial files).</summary>
-internal sealed partial class TrainingRun
+internal sealed partial class TrainingRun : IDisposable
 {
     /// <summary>Visible biases start at log(p / (1 - p)) with p clipped to this distance from 0 and 1.</summary>
     internal const double MarginalClip = 0.001;
 
-    /// <summary>Below this many additions per parallel loop the work runs on the calling thread (thread start-up would cost more).</summary>
+    /// <summary>
+    /// Below this many additions per parallel loop the work runs on the calling thread (thread start-up would cost
+    /// more).
+    /// </summary>
     private const long ParallelWork = 60_000;
 
     private readonly TrainingData _data;
@@ -74,6 +77,9 @@ internal sealed partial class TrainingRun
         PrepareEvaluation();
     }
 
+    /// <summary>Releases the per-thread scratch rows.</summary>
+    public void Dispose() => _rowScratch.Dispose();
+
     public ImmutableArray<int> ConstantUnits { get; }
 
     public TrainingResult Execute(Action<EpochReport>? progress, CancellationToken cancel)
@@ -126,7 +132,10 @@ internal sealed partial class TrainingRun
         return new TrainingResult(model, reports.ToImmutable(), keptEpoch, stoppedEarly, ConstantUnits);
     }
 
-    /// <summary>The learning rate of an epoch: constant for the first half, then linearly down towards zero (Tieleman 2008 decays it to zero).</summary>
+    /// <summary>
+    /// The learning rate of an epoch: constant for the first half, then linearly down towards zero (Tieleman 2008
+    /// decays it to zero).
+    /// </summary>
     internal double LearningRate(int epoch)
     {
         if (!_s.DecayLearningRate) return _s.LearningRate;
@@ -149,7 +158,9 @@ internal sealed partial class TrainingRun
                 "use a smaller learning rate", _data.Source);
     }
 
-    /// <summary>Runs body(0..count-1), on several threads when there is enough work; each index writes only its own outputs.</summary>
+    /// <summary>
+    /// Runs body(0..count-1), on several threads when there is enough work; each index writes only its own outputs.
+    /// </summary>
     private void For(int count, long workPerItem, Action<int> body)
     {
         if (_s.Threads <= 1 || count < 2 || count * workPerItem < ParallelWork)

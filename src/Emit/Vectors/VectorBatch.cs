@@ -14,7 +14,9 @@ public static class VectorBatch
     /// <summary>Most bytes of unpacked units in a batch (16 MiB).</summary>
     public const long MaxBytes = 16L << 20;
 
-    /// <summary>Rows per batch for vectors of <paramref name="visible"/> units: between 1 and <paramref name="maxRows"/>.</summary>
+    /// <summary>
+    /// Rows per batch for vectors of <paramref name="visible"/> units: between 1 and <paramref name="maxRows"/>.
+    /// </summary>
     public static int Rows(int visible, int maxRows = MaxRows)
     {
         ArgumentOutOfRangeException.ThrowIfNegative(visible);

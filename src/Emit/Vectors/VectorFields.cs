@@ -15,7 +15,9 @@ internal ref struct VectorFields(ReadOnlySpan<byte> line, bool comma)
     private int _lastComma = -1;
     private bool _done;
 
-    /// <summary>The next field: its kind, and its bytes as [start, end) (for Empty/Trailing, the separator's offset).</summary>
+    /// <summary>
+    /// The next field: its kind, and its bytes as [start, end) (for Empty/Trailing, the separator's offset).
+    /// </summary>
     public VectorFieldKind Next(out int start, out int end)
     {
         start = end = 0;

@@ -1,3 +1,4 @@
+using System.Buffers;
 using System.Collections.Immutable;
 using System.Text;
 
@@ -27,6 +28,11 @@ namespace Emit.Vectors;
 /// </summary>
 public sealed class VectorReader : IDisposable
 {
+    /// <summary>The bytes of a decimal number: digits, point, exponent and signs.</summary>
+    private static readonly SearchValues<byte> NumberBytes = SearchValues.Create("0123456789.eE+-"u8);
+    private static readonly SearchValues<char> NumberChars = SearchValues.Create("0123456789.eE+-");
+    private static readonly SearchValues<char> DigitChars = SearchValues.Create("0123456789");
+
     /// <summary>The path that means standard input.</summary>
     public const string StdinPath = "-";
 
@@ -55,13 +61,16 @@ public sealed class VectorReader : IDisposable
     public static VectorReader Open(string path, int? width = null, Stream? stdin = null)
     {
         if (path == StdinPath)
-            return new VectorReader(stdin ?? Console.OpenStandardInput(), StdinName, width, leaveOpen: stdin is not null);
+            return new VectorReader(stdin ?? Console.OpenStandardInput(), StdinName, width,
+                leaveOpen: stdin is not null);
         Stream stream;
         try
         {
             if (Directory.Exists(path)) throw new EmitException("is a folder, not a vector file", null, path);
-            if (!File.Exists(path)) throw new EmitException("file not found", "check the path, or use - for standard input", path);
-            stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, bufferSize: 1, FileOptions.SequentialScan);
+            if (!File.Exists(path))
+                throw new EmitException("file not found", "check the path, or use - for standard input", path);
+            stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, bufferSize: 1,
+                FileOptions.SequentialScan);
         }
         catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
         catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, path); }
@@ -98,7 +107,8 @@ public sealed class VectorReader : IDisposable
         Source = source;
 
         if (!NextLine(out int start, out int length))
-            throw new EmitException("file has no vectors (it is empty)", "write one vector of 0/1 values per line", Source, Math.Max(_line, 1));
+            throw new EmitException("file has no vectors (it is empty)", "write one vector of 0/1 values per line",
+                Source, Math.Max(_line, 1));
         var first = _buffer.AsSpan(start, length);
         Separator = first.Contains((byte)',') ? VectorSeparator.Comma : VectorSeparator.Whitespace;
         int count = 0;
@@ -110,7 +120,7 @@ public sealed class VectorReader : IDisposable
             {
                 var token = first[s..e];
                 allBinary &= token.Length == 1 && token[0] is (byte)'0' or (byte)'1';
-                allNumeric &= token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0;
+                allNumeric &= token.IndexOfAnyExcept(NumberBytes) < 0;
                 fromZero &= IsInteger(token, count);
                 fromOne &= IsInteger(token, count + 1);
                 anyValueLike |= LooksLikeValue(token);
@@ -135,7 +145,8 @@ public sealed class VectorReader : IDisposable
         HeaderLine = _line;
         if (width is { } w && Names.Length != w)
             throw Error($"header has {Names.Length} names, expected {w}",
-                "this first line was read as a header of unit names because it is not all 0/1 values; the model has " + w + " visible units",
+                "this first line was read as a header of unit names because it is not all 0/1 values; the model has " +
+                w + " visible units",
                 first, first.Length);
         Width = Names.Length;
         _widthReason = width is null ? "one per name in the header" : "one per visible unit of the model";
@@ -178,7 +189,8 @@ public sealed class VectorReader : IDisposable
         {
             // One rule for every command: a file of names only is as empty as an empty file.
             if (RowsRead == 0 && HeaderLine > 0)
-                throw new EmitException("file has a header but no vectors", "write one vector of 0/1 values per line after the header", Source, HeaderLine);
+                throw new EmitException("file has a header but no vectors",
+                    "write one vector of 0/1 values per line after the header", Source, HeaderLine);
             return false;
         }
         ParseRow(_buffer.AsSpan(start, length), units);
@@ -193,12 +205,14 @@ public sealed class VectorReader : IDisposable
     {
         ArgumentOutOfRangeException.ThrowIfNegative(maxRows);
         if ((long)maxRows * Width > buffer.Length)
-            throw new ArgumentException($"need {(long)maxRows * Width} bytes for {maxRows} rows of {Width}", nameof(buffer));
+            throw new ArgumentException($"need {(long)maxRows * Width} bytes for {maxRows} rows of {Width}",
+                nameof(buffer));
         int rows = 0;
         while (rows < maxRows && TryRead(buffer.Slice(rows * Width, Width))) rows++;
         return rows;
     }
 
+    /// <summary>Closes the underlying stream unless the reader was told to leave it open.</summary>
     public void Dispose()
     {
         if (!_leaveOpen) _stream.Dispose();
@@ -206,7 +220,9 @@ public sealed class VectorReader : IDisposable
 
     // ---- lines -----------------------------------------------------------------------------------------------
 
-    /// <summary>The next non-blank line as a range of <see cref="_buffer"/> (valid until the next call), CR stripped.</summary>
+    /// <summary>
+    /// The next non-blank line as a range of <see cref="_buffer"/> (valid until the next call), CR stripped.
+    /// </summary>
     private bool NextLine(out int start, out int length)
     {
         while (true)
@@ -239,7 +255,8 @@ public sealed class VectorReader : IDisposable
                 _start = _end;
             }
             if (length > _maxLineBytes)
-                throw new EmitException($"line is longer than {_maxLineBytes} bytes", "is this a text file of 0/1 vectors?", Source, _line, 1);
+                throw new EmitException($"line is longer than {_maxLineBytes} bytes",
+                    "is this a text file of 0/1 vectors?", Source, _line, 1);
             if (length > 0 && _buffer[start + length - 1] == (byte)'\r') length--;
             if (!IsBlank(_buffer.AsSpan(start, length))) return true;
         }
@@ -257,7 +274,8 @@ public sealed class VectorReader : IDisposable
         if (_end == _buffer.Length)
         {
             if (_buffer.Length > _maxLineBytes)
-                throw new EmitException($"line is longer than {_maxLineBytes} bytes", "is this a text file of 0/1 vectors?", Source, _line + 1, 1);
+                throw new EmitException($"line is longer than {_maxLineBytes} bytes",
+                    "is this a text file of 0/1 vectors?", Source, _line + 1, 1);
             Array.Resize(ref _buffer, Math.Min(_buffer.Length * 2, _maxLineBytes + 2));
         }
         int n;
@@ -266,7 +284,8 @@ public sealed class VectorReader : IDisposable
             n = _stream.Read(_buffer, _end, _buffer.Length - _end);
         }
         catch (IOException e) { throw new EmitException($"cannot read: {e.Message}", null, Source, _line + 1); }
-        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, Source, _line + 1); }
+        catch (UnauthorizedAccessException e) { throw new EmitException($"cannot read: {e.Message}", null, Source,
+            _line + 1); }
         if (n == 0) _eof = true;
         _end += n;
         if (!_startChecked && (_end >= 3 || _eof))
@@ -277,7 +296,8 @@ public sealed class VectorReader : IDisposable
     }
 
     private static bool IsInteger(ReadOnlySpan<byte> token, int value) =>
-        System.Buffers.Text.Utf8Parser.TryParse(token, out int parsed, out int used) && used == token.Length && parsed == value;
+        System.Buffers.Text.Utf8Parser.TryParse(token, out int parsed, out int used) && used == token.Length
+        && parsed == value;
 
     private static bool IsBlank(ReadOnlySpan<byte> line) => line.IndexOfAnyExcept((byte)' ', (byte)'\t') < 0;
 
@@ -311,7 +331,8 @@ public sealed class VectorReader : IDisposable
         }
         if (n != Width)
             throw Error($"line has {n} values, expected {Width} ({_widthReason})",
-                n > Width ? "remove the extra values, or check the file belongs to this model" : "add the missing values, or check the file belongs to this model",
+                n > Width ? "remove the extra values, or check the file belongs to this model"
+                : "add the missing values, or check the file belongs to this model",
                 line, n > Width ? extraAt : line.Length);
     }
 
@@ -345,7 +366,7 @@ public sealed class VectorReader : IDisposable
             hint = "values in this file are separated by spaces (set by its first line); use one separator throughout";
         else if (token.Length > 1 && token.IndexOfAnyExcept("01"u8) < 0)
             hint = "values must be separated by commas or spaces";
-        else if (token.IndexOfAnyExcept("0123456789.eE+-"u8) < 0)
+        else if (token.IndexOfAnyExcept(NumberBytes) < 0)
             hint = "write each value as the integer 0 or 1 (e.g. np.savetxt(f, X, fmt='%d', delimiter=','))";
         else
             hint = "each value must be 0 or 1";
@@ -362,13 +383,15 @@ public sealed class VectorReader : IDisposable
     private static bool LooksLikeValue(ReadOnlySpan<byte> token)
     {
         var text = Encoding.UTF8.GetString(token).AsSpan();
-        static bool Blank(char c) => char.IsWhiteSpace(c) || char.IsControl(c) || char.GetUnicodeCategory(c) == System.Globalization.UnicodeCategory.Format;
+        static bool Blank(char c) =>
+            char.IsWhiteSpace(c) || char.IsControl(c)
+            || char.GetUnicodeCategory(c) == System.Globalization.UnicodeCategory.Format;
         int a = 0, b = text.Length;
         while (a < b && Blank(text[a])) a++;
         while (b > a && Blank(text[b - 1])) b--;
         var core = text[a..b];
         if (core.IsEmpty) return false;
-        if (core.IndexOfAnyExcept("0123456789.eE+-") < 0 && core.IndexOfAny("0123456789") >= 0) return true;
+        if (core.IndexOfAnyExcept(NumberChars) < 0 && core.IndexOfAny(DigitChars) >= 0) return true;
         foreach (var word in (ReadOnlySpan<string>)["true", "false", "yes", "no"])
             if (core.Equals(word, StringComparison.OrdinalIgnoreCase)) return true;
         return false;
@@ -384,7 +407,9 @@ public sealed class VectorReader : IDisposable
             while (i < line.Length && IsSpace(line[i])) i++;
             if (i == line.Length)
             {
-                if (lastComma >= 0) throw Error("header ends with a separator ','", "remove the comma at the end of the line", line, lastComma);
+                if (lastComma >= 0)
+                    throw Error("header ends with a separator ','", "remove the comma at the end of the line", line,
+                        lastComma);
                 break;
             }
             int fieldStart = i;
@@ -395,7 +420,9 @@ public sealed class VectorReader : IDisposable
                 i++;
                 while (true)
                 {
-                    if (i == line.Length) throw Error("header has a quote that is not closed", "close the name with \"", line, fieldStart);
+                    if (i == line.Length)
+                        throw Error("header has a quote that is not closed", "close the name with \"", line,
+                            fieldStart);
                     if (line[i] == (byte)'"')
                     {
                         if (i + 1 < line.Length && line[i + 1] == (byte)'"') { bytes.Add((byte)'"'); i += 2; continue; }
@@ -406,7 +433,8 @@ public sealed class VectorReader : IDisposable
                 }
                 while (i < line.Length && IsSpace(line[i])) i++;
                 if (i < line.Length && !(comma && line[i] == (byte)',') && !(!comma && IsSpace(line[i - 1])))
-                    throw Error("header has text after a quoted name", "put a separator after the closing quote", line, i);
+                    throw Error("header has text after a quoted name", "put a separator after the closing quote", line,
+                        i);
                 name = Decode(bytes.ToArray(), line, fieldStart);
             }
             else
@@ -415,11 +443,15 @@ public sealed class VectorReader : IDisposable
                 while (end < line.Length && (comma ? line[end] != (byte)',' : !IsSpace(line[end]))) end++;
                 int trimmed = end;
                 while (trimmed > i && IsSpace(line[trimmed - 1])) trimmed--;
-                if (trimmed == i) throw Error($"header name {names.Count + 1} is empty", "give every column a name, or remove the header line", line, i);
+                if (trimmed == i)
+                    throw Error($"header name {names.Count + 1} is empty",
+                        "give every column a name, or remove the header line", line, i);
                 name = Decode(line[i..trimmed].ToArray(), line, i);
                 i = end;
             }
-            if (name.Length == 0) throw Error($"header name {names.Count + 1} is empty", "give every column a name, or remove the header line", line, fieldStart);
+            if (name.Length == 0)
+                throw Error($"header name {names.Count + 1} is empty",
+                    "give every column a name, or remove the header line", line, fieldStart);
             names.Add(name);
             if (names.Count > Emit.Model.ModelLimits.MaxUnits)
                 throw Error($"header has more than {Emit.Model.ModelLimits.MaxUnits} names", null, line, fieldStart);
@@ -450,7 +482,9 @@ public sealed class VectorReader : IDisposable
 
     // ---- errors ----------------------------------------------------------------------------------------------
 
-    /// <summary>An error at byte <paramref name="at"/> of the current line, reported as a character column from 1.</summary>
+    /// <summary>
+    /// An error at byte <paramref name="at"/> of the current line, reported as a character column from 1.
+    /// </summary>
     private EmitException Error(string problem, string? hint, ReadOnlySpan<byte> line, int at)
     {
         long column = 1;

@@ -12,6 +12,9 @@ public sealed class VectorWriter
     private readonly TextWriter _w;
     private readonly StringBuilder _line = new();
 
+    /// <summary>
+    /// A writer to <paramref name="writer"/>, with a header row of <paramref name="names"/> when given.
+    /// </summary>
     public VectorWriter(TextWriter writer, IReadOnlyList<string>? names)
     {
         _w = writer;
@@ -22,6 +25,7 @@ public sealed class VectorWriter
     private static string Quote(string name) =>
         name.IndexOfAny([',', '"', ' ', '\t']) >= 0 ? "\"" + name.Replace("\"", "\"\"") + "\"" : name;
 
+    /// <summary>Writes one vector (one byte per unit, 0 or 1) as a row.</summary>
     public void Write(ReadOnlySpan<byte> units)
     {
         _line.Clear();

@@ -42,7 +42,9 @@ public sealed class CDialect : TargetDialect
     /// <summary>The include guard.</summary>
     public string Guard => "EMIT_GENERATED_" + UName + "_H";
 
-    /// <summary>The model identity the header and source compare at compile time: the SHA-256's first 32 bits.</summary>
+    /// <summary>
+    /// The model identity the header and source compare at compile time: the SHA-256's first 32 bits.
+    /// </summary>
     public string ModelId => "0x" + Plan.Model.Sha256[..8].ToUpperInvariant() + "u";
 
     /// <inheritdoc/>
@@ -85,10 +87,13 @@ public sealed class CDialect : TargetDialect
             if (plan.HasHidden || plan.HasLinks)
             {
                 Need(wide ? "UINT64_MAX" : "UINT32_MAX", UAccType, "shifts of the accumulator");
-                Need(plan.WeightType switch { Quantize.WeightType.Int8 => "INT8_MAX", Quantize.WeightType.Int16 => "INT16_MAX", _ => "INT32_MAX" }, WeightType, "the weight type");
+                Need(plan.WeightType switch { Quantize.WeightType.Int8 => "INT8_MAX",
+                    Quantize.WeightType.Int16 => "INT16_MAX", _ => "INT32_MAX" }, WeightType, "the weight type");
             }
-            if (plan.HasHidden) Need(plan.TableEntriesUnsigned16 ? "UINT16_MAX" : "INT32_MAX", EntryType, "the softplus table");
-            if (plan.HasHidden && plan.UniformFractionBits is null) Need("INT8_MAX", "int8_t", "the per-unit fraction bits");
+            if (plan.HasHidden)
+                Need(plan.TableEntriesUnsigned16 ? "UINT16_MAX" : "INT32_MAX", EntryType, "the softplus table");
+            if (plan.HasHidden && plan.UniformFractionBits is null)
+                Need("INT8_MAX", "int8_t", "the per-unit fraction bits");
             return list;
         }
     }
@@ -97,7 +102,8 @@ public sealed class CDialect : TargetDialect
     public string LastByteMask => "0x" + Plan.LastByteMask.ToString("X2", Inv) + "u";
 
     /// <summary>Hidden units per block of the row additions (0: plain loops).</summary>
-    public int VectorBlock => Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
+    public int VectorBlock =>
+        Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
 
     /// <summary>The math functions of the float mode (<c>expf</c> or <c>exp</c>...).</summary>
     public string Exp => Plan.Mode == NumericMode.F32 ? "expf" : "exp";

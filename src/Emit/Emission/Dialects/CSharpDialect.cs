@@ -4,7 +4,8 @@ namespace Emit.Emission.Dialects;
 
 /// <summary>
 /// C#: one static class named in PascalCase (never equal to one of its members), unit constants in a nested class,
-/// BCL types (<c>sbyte</c>, <c>short</c>, <c>int</c>, <c>long</c>), <c>L</c>-suffixed wide constants, <c>//</c> comments.
+/// BCL types (<c>sbyte</c>, <c>short</c>, <c>int</c>, <c>long</c>), <c>L</c>-suffixed wide constants, <c>//</c>
+/// comments.
 /// </summary>
 public sealed class CSharpDialect : TargetDialect
 {
@@ -80,7 +81,8 @@ public sealed class CSharpDialect : TargetDialect
     {
         get
         {
-            var text = $"Free energy of model {Naming.CommentText(Plan.ModelLabel)} (kind {Kind}, {Plan.Visible} visible, " +
+            var text = $"Free energy of model {Naming.CommentText(Plan.ModelLabel)} (kind {Kind}, {Plan.Visible} " +
+                "visible, " +
                        $"{Plan.Hidden} hidden units) in ";
             return Plan is FixedScorerPlan f
                 ? text + $"fixed point ({f.WeightType.ToText()} weights, {f.Accumulator.ToText()} accumulator)."
@@ -90,11 +92,13 @@ public sealed class CSharpDialect : TargetDialect
 
     /// <summary>A C# integer constant of the accumulator type (<c>L</c> beyond the int range).</summary>
     public override string Int(long value) =>
-        Acc == AccumulatorType.Int64 && (value < int.MinValue || value > int.MaxValue) ? value.ToString(Inv) + "L" : value.ToString(Inv);
+        Acc == AccumulatorType.Int64 && (value < int.MinValue || value > int.MaxValue) ? value.ToString(Inv) +
+        "L" : value.ToString(Inv);
 
     /// <inheritdoc/>
     public override string Index(long value) => value.ToString(Inv);
 
     /// <inheritdoc/>
-    public override string Comment(IEnumerable<string> paragraphs, string indent) => Prefixed(paragraphs, indent + "// ");
+    public override string Comment(IEnumerable<string> paragraphs, string indent) =>
+        Prefixed(paragraphs, indent + "// ");
 }

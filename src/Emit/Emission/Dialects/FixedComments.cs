@@ -16,7 +16,10 @@ public sealed class FixedComments
     private readonly TargetDialect _d;
     private readonly string _bound;
 
-    /// <summary>Comments for <paramref name="plan"/> in <paramref name="dialect"/>; <paramref name="boundName"/> names the error bound constant.</summary>
+    /// <summary>
+    /// Comments for <paramref name="plan"/> in <paramref name="dialect"/>; <paramref name="boundName"/> names the error
+    /// bound constant.
+    /// </summary>
     public FixedComments(FixedScorerPlan plan, TargetDialect dialect, string boundName)
     {
         p = plan;
@@ -33,7 +36,8 @@ public sealed class FixedComments
     {
         var groups = formats.GroupBy(f => f).OrderByDescending(g => g.Count()).ThenBy(g => g.Key.FractionBits).ToList();
         if (groups.Count == 1) return groups[0].Key.ToString();
-        return string.Join(", ", groups.Select(g => g.Key + " (" + g.Count().ToString(Inv) + (g.Count() == 1 ? " unit)" : " units)")));
+        return string.Join(", ",
+            groups.Select(g => g.Key + " (" + g.Count().ToString(Inv) + (g.Count() == 1 ? " unit)" : " units)")));
     }
 
     private string Guard(IntRange r)
@@ -42,7 +46,8 @@ public sealed class FixedComments
         return g.ToString(Inv) + (g == 1 ? " guard bit" : " guard bits") + " in " + p.AccumulatorBits.ToString(Inv);
     }
 
-    private static IntRange Hull(IntRange? a, IntRange? b) => a is { } x ? (b is { } y ? x.Hull(y) : x) : b ?? IntRange.Point(0);
+    private static IntRange Hull(IntRange? a, IntRange? b) =>
+        a is { } x ? (b is { } y ? x.Hull(y) : x) : b ?? IntRange.Point(0);
 
     /// <summary>"weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j".</summary>
     public string FractionBitsFormats =>
@@ -54,24 +59,36 @@ public sealed class FixedComments
         var f = p.Fixed;
         var lines = new List<string>
         {
-            "Integer arithmetic only: no floating point, no division, no library call in the source. Q notation: a Qm.n value is an " +
+            "Integer arithmetic only: no floating point, no division, no library call in the source. Q notation: a " +
+                "Qm.n value is an " +
             "integer q standing for q / 2^n (m integer bits, n fraction bits, one sign bit; UQ has no sign bit).",
-            $"  free energy, visible biases{(p.Model.Kind == ModelKind.General ? ", hidden links, scores" : "")}: {f.EnergyFormat} ({p.AccumulatorBits}-bit)",
+            $"  free energy, visible biases{(p.Model.Kind == ModelKind.General ? ", hidden links, scores" : "")}: " +
+            $"{f.EnergyFormat} ({p.AccumulatorBits}-bit)",
         };
         if (p.Hidden > 0)
         {
             lines.Add($"  weights W ({_d.WeightType}): {f.WeightFormatSummary}; each hidden unit j has its own " +
                       "fraction bits f_j, shared by its weight column, bias and accumulator");
             lines.Add($"  hidden accumulators ({_d.AccType}): {f.AccumulatorFormatSummary}");
-            lines.Add($"  softplus table ({_d.EntryType}): {f.Table.EntryFormat}, {p.TableSegments} segments over [0, {f.Table.Range.ToString("R", Inv)}]");
+            lines.Add(
+                $"  softplus table ({_d.EntryType}): {f.Table.EntryFormat}, {p.TableSegments} segments over [0, " +
+                $"{f.Table.Range.ToString("R", Inv)}]");
         }
         if (!f.Lateral.IsEmpty)
-            lines.Add($"  lateral weights ({_d.WeightType}): {f.LateralFormat}; lateral sum: {new QFormat(p.AccumulatorBits, f.LateralFractionBits)}");
-        lines.Add("Rounding: half away from zero, both for the constants (emit rounds them) and wherever bits are dropped at " +
-                  "run time (half an LSB is added to the magnitude, which is shifted and given back its sign: no negative value " +
+            lines.Add(
+                $"  lateral weights ({_d.WeightType}): {f.LateralFormat}; lateral sum: " +
+                $"{new QFormat(p.AccumulatorBits, f.LateralFractionBits)}");
+        lines.Add(
+            "Rounding: half away from zero, both for the constants (emit rounds them) and wherever bits are dropped " +
+            "at " +
+                  "run time (half an LSB is added to the magnitude, which is shifted and given back its sign: no " +
+                  "negative value " +
                   "is ever shifted right).");
-        lines.Add($"Overflow: emit's range analysis proves that every intermediate stays within +-(2^{p.AccumulatorBits - 1} - 1) for " +
-                  "every binary input, so nothing saturates or wraps; each function's \"scaling and overflow\" comment gives the " +
+        lines.Add(
+            "Overflow: emit's range analysis proves that every intermediate stays within " +
+            $"+-(2^{p.AccumulatorBits - 1} - 1) for " +
+                  "every binary input, so nothing saturates or wraps; each function's \"scaling and overflow\" " +
+                  "comment gives the " +
                   "ranges (derivation: docs/fixed-point.md in the emit sources).");
         return lines;
     }
@@ -84,9 +101,12 @@ public sealed class FixedComments
         string tt = t.ToString("R", Inv);
         return
         [
-            $"An input is unusual when its free energy f > this: the model's threshold {tt} nats times 2^{e}, rounded down" +
-            $"{(p.ThresholdClamped ? " and clamped to the reachable results" : "")}, so f > this exactly when f / 2^{e} > {tt}. " +
-            $"Decisions can differ from the exact scorer's only for inputs whose exact free energy lies within {_bound} nats " +
+            $"An input is unusual when its free energy f > this: the model's threshold {tt} nats times 2^{e}, " +
+                "rounded down" +
+            $"{(p.ThresholdClamped ? " and clamped to the reachable results" : "")}, so f > this exactly when f / " +
+            $"2^{e} > {tt}. " +
+            "Decisions can differ from the exact scorer's only for inputs whose exact free energy lies within " +
+            $"{_bound} nats " +
             "of the threshold.",
         ];
     }
@@ -106,8 +126,10 @@ public sealed class FixedComments
         if (!f.Lateral.IsEmpty) callers.Add($"the lateral sum (s = f_L - E = {f.LateralShift.ToString(Inv)})");
         return
         [
-            $"to_energy(x, s): x has E + s fraction bits; the result has E = {p.EnergyFractionBits} ({f.EnergyFormat}). " +
-            "s > 0 drops s bits, rounding half away from zero: half an LSB is added to the magnitude, which is shifted " +
+            $"to_energy(x, s): x has E + s fraction bits; the result has E = {p.EnergyFractionBits} " +
+                $"({f.EnergyFormat}). " +
+            "s > 0 drops s bits, rounding half away from zero: half an LSB is added to the magnitude, which is " +
+            "shifted " +
             "right and given back its sign, so no negative value is shifted. s <= 0 multiplies by the constant 2^-s.",
             $"Scaling and overflow: used for {string.Join(" and ", callers)}; over all inputs the intermediate " +
             $"(|x| + 2^(s-1), or x * 2^-s) lies in {Range(mid)} ({Guard(mid)}).",
@@ -129,11 +151,16 @@ public sealed class FixedComments
         return
         [
             $"G_q(mag, d) = 2^E * G(mag / 2^(e + d)) for mag >= 0 with e + d fraction bits, G(x) = log(1 + e^-x), " +
-            $"E = {p.EnergyFractionBits}, e = {p.TableStepBits.ToString(Inv)} (segment width h = 2^-e): segment k = mag >> d, " +
-            "position r = mag & (2^d - 1), linear interpolation T[k+1] + ((T[k] - T[k+1]) * (2^d - r) + 2^(d-1)) >> d " +
-            $"from non-negative terms, rounding half up; 0 beyond the table (mag >= N * 2^d, N = {p.TableSegments}), where G < e^-R.",
-            $"Scaling and overflow: d = {Span(d)}; the limit N * 2^d is at most {Int(limit.Max)} and the interpolation " +
-            $"product plus half at most {Int(product.Max)} ({Guard(product)}); table entries lie in [0, {f.Table.Entries[0].ToString(Inv)}].",
+            $"E = {p.EnergyFractionBits}, e = {p.TableStepBits.ToString(Inv)} (segment width h = 2^-e): segment k = " +
+            "mag >> d, " +
+            "position r = mag & (2^d - 1), linear interpolation T[k+1] + ((T[k] - T[k+1]) * (2^d - r) + 2^(d-1)) >> " +
+            "d " +
+            $"from non-negative terms, rounding half up; 0 beyond the table (mag >= N * 2^d, N = {p.TableSegments}), " +
+            "where G < e^-R.",
+            $"Scaling and overflow: d = {Span(d)}; the limit N * 2^d is at most {Int(limit.Max)} and the " +
+            "interpolation " +
+            $"product plus half at most {Int(product.Max)} ({Guard(product)}); table entries lie in [0, " +
+            $"{f.Table.Entries[0].ToString(Inv)}].",
         ];
     }
 
@@ -144,8 +171,10 @@ public sealed class FixedComments
         var outRange = p.UnitCheckHull("softplus")!.Value;
         return
         [
-            "softplus_q(a, f) = (a > 0 ? to_energy(a, f - E) : 0) + G_q(|a|, f - e), from softplus(x) = max(x, 0) + G(|x|).",
-            $"Scaling and overflow: a is a hidden accumulator with f fraction bits ({f.AccumulatorFormatSummary}). Over all " +
+            "softplus_q(a, f) = (a > 0 ? to_energy(a, f - E) : 0) + G_q(|a|, f - e), from softplus(x) = max(x, 0) + " +
+                "G(|x|).",
+            $"Scaling and overflow: a is a hidden accumulator with f fraction bits ({f.AccumulatorFormatSummary}). " +
+            "Over all " +
             $"inputs a lies in {Range(acc)} ({Guard(acc)}), so -a cannot overflow; the result, in {f.EnergyFormat}, " +
             $"lies in {Range(outRange)}.",
         ];
@@ -157,9 +186,11 @@ public sealed class FixedComments
         var diff = p.Check("general.difference").Range;
         return
         [
-            $"lse2(a, b) = max(a, b) + G_q(|a - b|, d_E) approximates log(e^a + e^b) for a, b in {p.Fixed.EnergyFormat}; " +
+            "lse2(a, b) = max(a, b) + G_q(|a - b|, d_E) approximates log(e^a + e^b) for a, b in " +
+                $"{p.Fixed.EnergyFormat}; " +
             $"d_E = E - e = {p.Fixed.LseTableShift.ToString(Inv)}.",
-            $"Scaling and overflow: a, b and the result lie in {Range(tree)}; |a - b| <= {Int(diff.Max)} ({Guard(diff)}).",
+            $"Scaling and overflow: a, b and the result lie in {Range(tree)}; |a - b| <= {Int(diff.Max)} " +
+            $"({Guard(diff)}).",
         ];
     }
 
@@ -171,11 +202,15 @@ public sealed class FixedComments
         var tree = p.Check("general.tree").Range;
         return
         [
-            "log sum_h exp(s(h)) over all 2^HIDDEN hidden states, s(h) = z.h + sum_{k<l} M_kl h_k h_l, z_k = to_energy(a_k, f_k - E). " +
-            "The states are visited in Gray-code order: step t flips unit k = (trailing zero bits of t), and the score and " +
-            "the fields (field_l = change of the score when unit l flips) are updated by additions. Each score is merged " +
+            "log sum_h exp(s(h)) over all 2^HIDDEN hidden states, s(h) = z.h + sum_{k<l} M_kl h_k h_l, z_k = " +
+                "to_energy(a_k, f_k - E). " +
+            "The states are visited in Gray-code order: step t flips unit k = (trailing zero bits of t), and the " +
+            "score and " +
+            "the fields (field_l = change of the score when unit l flips) are updated by additions. Each score is " +
+            "merged " +
             "into partial[] like a binary counter, so lse2 is applied along a balanced tree of depth HIDDEN.",
-            $"Scaling and overflow: everything in {p.Fixed.EnergyFormat}; z_k lies in {Range(z)}, the fields in {Range(field)}, " +
+            $"Scaling and overflow: everything in {p.Fixed.EnergyFormat}; z_k lies in {Range(z)}, the fields in " +
+            $"{Range(field)}, " +
             $"the scores in {Range(score)} and the merged values in {Range(tree)} ({Guard(tree)}).",
         ];
     }
@@ -184,18 +219,23 @@ public sealed class FixedComments
     {
         var f = p.Fixed;
         bool general = p.Model.Kind == ModelKind.General;
-        var walk = "F(v) = -b.v - sum_{i<j} L_ij v_i v_j - " + (general ? "log sum_h exp(a.h + sum_{k<l} M_kl h_k h_l)" : "sum_j softplus(a_j)") +
-                   ", a = c + sum_{i on} W_i. For each set bit (bytes in order, lowest set bit first) the unit's bias joins the energy" +
+        var walk = "F(v) = -b.v - sum_{i<j} L_ij v_i v_j - " +
+            (general ? "log sum_h exp(a.h + sum_{k<l} M_kl h_k h_l)" : "sum_j softplus(a_j)") +
+                   ", a = c + sum_{i on} W_i. For each set bit (bytes in order, lowest set bit first) the unit's " +
+                   "bias joins the energy" +
                    (f.Lateral.IsEmpty ? "" : ", its links to active lower-numbered units join the lateral sum");
         if (p.Hidden > 0)
             walk += p.RowsPerAddition == 4
-                ? ", and its weight row is added to the hidden accumulators, four rows at a time (acc += r0 + r1 + r2 + r3; " +
-                  $"the weights are {p.WeightBits}-bit, so the sum of four always fits the {p.AccumulatorBits}-bit accumulator)."
+                ? ", and its weight row is added to the hidden accumulators, four rows at a time (acc += r0 + r1 + " +
+                "r2 + r3; " +
+                  $"the weights are {p.WeightBits}-bit, so the sum of four always fits the {p.AccumulatorBits}-bit " +
+                  "accumulator)."
                 : ", and its weight row is added to the hidden accumulators, one row at a time.";
         else walk += ".";
         var lines = new List<string>
         {
-            walk + " Integer additions that cannot overflow are exact, so the order of the walk does not change the result.",
+            walk + " Integer additions that cannot overflow are exact, so the order of the walk does not change the " +
+                "result.",
             "Scaling and overflow (ranges over all binary inputs, each holding every partial sum):",
         };
         if (p.Hidden > 0)
@@ -204,16 +244,23 @@ public sealed class FixedComments
             lines.Add($"  hidden accumulators, {f.AccumulatorFormatSummary}: {Range(acc)} ({Guard(acc)})");
         }
         var linear = p.Check("energy.linear").Range;
-        lines.Add($"  energy ({f.EnergyFormat}), starting at K = {f.EnergyOffset.ToString(Inv)} plus the visible biases: {Range(linear)}");
+        lines.Add(
+            $"  energy ({f.EnergyFormat}), starting at K = {f.EnergyOffset.ToString(Inv)} plus the visible biases: " +
+            $"{Range(linear)}");
         if (!f.Lateral.IsEmpty)
         {
             var lat = p.Check("lateral.accumulator").Range;
-            lines.Add($"  lateral sum ({new QFormat(p.AccumulatorBits, f.LateralFractionBits)}): {Range(lat)} ({Guard(lat)}); " +
+            lines.Add(
+                $"  lateral sum ({new QFormat(p.AccumulatorBits, f.LateralFractionBits)}): {Range(lat)} " +
+                $"({Guard(lat)}); " +
                       $"energy after adding it: {Range(p.Check("energy.base").Range)}");
         }
         var sum = p.Check("energy.sum").Range;
-        lines.Add($"  energy after the hidden part: {Range(sum)} ({Guard(sum)}); result -energy: {Range(p.ResultRange)}");
-        lines.Add($"No saturation is needed. Accuracy: |result / 2^{p.EnergyFractionBits} - exact F| <= {_bound} nats for every input.");
+        lines.Add(
+            $"  energy after the hidden part: {Range(sum)} ({Guard(sum)}); result -energy: {Range(p.ResultRange)}");
+        lines.Add(
+            $"No saturation is needed. Accuracy: |result / 2^{p.EnergyFractionBits} - exact F| <= {_bound} nats for " +
+            "every input.");
         return lines;
     }
 
@@ -229,7 +276,9 @@ public sealed class FixedComments
     /// <summary>The end of the softplus table's range.</summary>
     public string TableRange => p.Fixed.Table.Range.ToString("R", Inv);
 
-    /// <summary>The softplus table in lines of eight entries, each line with its first and last index and node.</summary>
+    /// <summary>
+    /// The softplus table in lines of eight entries, each line with its first and last index and node.
+    /// </summary>
     public IReadOnlyList<TableChunk> TableChunks
     {
         get

@@ -1,6 +1,8 @@
 namespace Emit.Emission.Dialects;
 
-/// <summary>Fills comment paragraphs to a width (generated comments are prose built in C#; templates print them).</summary>
+/// <summary>
+/// Fills comment paragraphs to a width (generated comments are prose built in C#; templates print them).
+/// </summary>
 public static class Paragraphs
 {
     /// <summary>

@@ -33,7 +33,9 @@ public abstract class TargetDialect
     /// <summary>Identifiers of the visible units (one per unit; empty when the model names none).</summary>
     public abstract IReadOnlyList<string> UnitIdentifiers { get; }
 
-    /// <summary>The type of a free energy value as returned to callers (C and C# spell float and double alike).</summary>
+    /// <summary>
+    /// The type of a free energy value as returned to callers (C and C# spell float and double alike).
+    /// </summary>
     public virtual string EnergyType => Plan.Mode switch
     {
         NumericMode.F32 => "float",
@@ -62,13 +64,17 @@ public abstract class TargetDialect
     /// <summary>An index literal (unsigned where the language has the suffix).</summary>
     public abstract string Index(long value);
 
-    /// <summary>A block comment of paragraphs at <paramref name="indent"/>, wrapped to <see cref="MaxLineLength"/>.</summary>
+    /// <summary>
+    /// A block comment of paragraphs at <paramref name="indent"/>, wrapped to <see cref="MaxLineLength"/>.
+    /// </summary>
     public abstract string Comment(IEnumerable<string> paragraphs, string indent);
 
     /// <summary>An unsigned 32-bit hexadecimal literal (the same syntax in C99 and C#): <c>0x0000001Fu</c>.</summary>
     public static string Hex32(long value) => "0x" + ((uint)value).ToString("X8", Inv) + "u";
 
-    /// <summary>A real literal of the plan's float mode (the syntax is shared by C99 and C#, see <see cref="Literals"/>).</summary>
+    /// <summary>
+    /// A real literal of the plan's float mode (the syntax is shared by C99 and C#, see <see cref="Literals"/>).
+    /// </summary>
     public string Real(double value) => Literals.Of(value, Plan.Mode);
 
     /// <summary>The literal of the smallest value of the mode at or above <paramref name="value"/>.</summary>
@@ -78,7 +84,8 @@ public abstract class TargetDialect
     /// The literal of a stated bound in nats: a float literal in f32 (so comparing it with a float does not promote to
     /// double), a double literal otherwise, rounded up.
     /// </summary>
-    public string Bound(double value) => Literals.Upward(value, Plan.Mode == NumericMode.F32 ? NumericMode.F32 : NumericMode.F64);
+    public string Bound(double value) =>
+        Literals.Upward(value, Plan.Mode == NumericMode.F32 ? NumericMode.F32 : NumericMode.F64);
 
     /// <summary>The real value q / 2^n, 7 significant digits, for review comments.</summary>
     public static string RealOf(long q, int fractionBits) => Math.ScaleB((double)q, -fractionBits).ToString("G7", Inv);
@@ -134,9 +141,13 @@ public abstract class TargetDialect
         return ((IEnumerable)values).Cast<object>().Skip(row * width).Take(width).ToArray();
     }
 
-    /// <summary>Paragraphs wrapped so that <paramref name="prefix"/> plus a line fits <see cref="MaxLineLength"/>, each line prefixed.</summary>
+    /// <summary>
+    /// Paragraphs wrapped so that <paramref name="prefix"/> plus a line fits <see cref="MaxLineLength"/>, each line
+    /// prefixed.
+    /// </summary>
     public static string Prefixed(IEnumerable<string> paragraphs, string prefix) =>
-        string.Join("\n", Paragraphs.Wrap(paragraphs, MaxLineLength - prefix.Length).Select(l => (prefix + l).TrimEnd()));
+        string.Join("\n",
+            Paragraphs.Wrap(paragraphs, MaxLineLength - prefix.Length).Select(l => (prefix + l).TrimEnd()));
 
     /// <summary>
     /// The comment for unit <paramref name="i"/>'s identifier: the unit's name, or empty when the identifier already
@@ -172,7 +183,8 @@ public abstract class TargetDialect
 
     /// <summary>
     /// Puts the dialect (<c>d</c>), the plan (<c>p</c>) and the formatting functions on the script object: <c>lit</c>,
-    /// <c>lit_up</c>, <c>bound</c>, <c>double_up</c>, <c>int</c>, <c>index</c>, <c>real</c>, <c>label</c>, <c>items</c>, <c>row</c>,
+    /// <c>lit_up</c>, <c>bound</c>, <c>double_up</c>, <c>int</c>, <c>index</c>, <c>real</c>, <c>label</c>,
+    /// <c>items</c>, <c>row</c>,
     /// <c>comment</c>, <c>prefixed</c>, <c>xml</c>.
     /// </summary>
     public virtual void Register(ScriptObject globals)
@@ -193,7 +205,8 @@ public abstract class TargetDialect
         globals.Import("comment", new Func<object, string, string>((lines, indent) => Comment(Lines(lines), indent)));
         globals.Import("prefixed", new Func<object, string, string>((lines, prefix) => Prefixed(Lines(lines), prefix)));
         globals.Import("xml", new Func<string, string>(Xml));
-        globals.Import("xml_prefixed", new Func<object, string, string>((lines, prefix) => Prefixed(Lines(lines).Select(Xml), prefix)));
+        globals.Import("xml_prefixed", new Func<object, string,
+            string>((lines, prefix) => Prefixed(Lines(lines).Select(Xml), prefix)));
         globals.Import("minus", new Func<string, long, string>(Minus));
         globals.Import("unit_note", new Func<int, string>(UnitNote));
         globals.Import("banner_lines", new Func<string, IReadOnlyList<string>>(Banner));
