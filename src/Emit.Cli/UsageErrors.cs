@@ -16,9 +16,15 @@ public static partial class UsageErrors
     {
         var command = parse.CommandResult.Command;
         var help = $"see {CommandPath(parse.CommandResult)} --help";
-        if (parse.UnmatchedTokens.Count > 0)
+        // a mistyped option after an argument that takes several files (compile MODEL1 MODEL2 ...) is read as one more
+        // file; say what it is rather than "file not found"
+        var swallowed = parse.CommandResult.Children.OfType<ArgumentResult>().SelectMany(a => a.Tokens)
+            .Select(t => t.Value)
+            .FirstOrDefault(v => v.StartsWith("--", StringComparison.Ordinal)
+                                 && !File.Exists(v) && !Directory.Exists(v));
+        if (parse.UnmatchedTokens.Count > 0 || swallowed is not null)
         {
-            var token = parse.UnmatchedTokens[0];
+            var token = parse.UnmatchedTokens.Count > 0 ? parse.UnmatchedTokens[0] : swallowed!;
             if (token.StartsWith('-'))
             {
                 var names = OptionNames(parse.CommandResult);

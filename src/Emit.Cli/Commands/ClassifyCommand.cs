@@ -77,7 +77,7 @@ public sealed class ClassifyCommand : ICliCommand
         }).ToArray();
     }
 
-    private static double[]? ParsePriors(string? text)
+    internal static double[]? ParsePriors(string? text)
     {
         if (text is null) return null;
         var parts = text.Split(',', StringSplitOptions.TrimEntries);

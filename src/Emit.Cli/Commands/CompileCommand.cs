@@ -8,10 +8,18 @@ namespace Emit.Cli.Commands;
 /// <summary><c>emit compile MODEL</c>: writes C99 and/or C# free-energy scorers for a model.</summary>
 public sealed class CompileCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model = new Argument<FileInfo>("MODEL")
+    private readonly Argument<FileInfo[]> _model = new Argument<FileInfo[]>("MODEL")
     {
-        Description = "Model file (.json or .npz)",
+        Description = "Model file (.json or .npz); several models of the same units make a classifier (each with a " +
+                      "stored log Z: emit logz MODEL --store)",
+        Arity = new ArgumentArity(1, 64),
     }.MustExist();
+
+    private readonly Option<string?> _priors = new("--priors")
+    {
+        HelpName = "P1,P2,...",
+        Description = "With several models: prior weight of each, comma-separated, in model order (default: equal)",
+    };
 
     private readonly Option<string[]> _target = CliOptions.ChoiceList(
         "--target", "Output languages, comma-separated", Targets.All.Select(t => t.Name).ToArray(), "c");
@@ -70,6 +78,10 @@ public sealed class CompileCommand : ICliCommand
                       "implies the streamed-scoring code; kinds rbm and lateral",
     };
 
+    private readonly Option<string?> _alarmFilter = AlarmFilterOption.Create(
+        "Also emit a K-of-N alarm filter over the decisions: on while K of the last N were unusual " +
+        "(1 <= K <= N <= 32; needs a model threshold)");
+
     private readonly Option<bool> _force = CliOptions.Force();
 
     public Command Build(CliContext ctx)
@@ -77,7 +89,7 @@ public sealed class CompileCommand : ICliCommand
         var cmd = new Command("compile", "Generate free-energy scorers (C99 NAME.h + NAME.c, C# NAME.cs) from a model");
         cmd.Arguments.Add(_model);
         foreach (var option in new Option[] { _target, _numeric, _name, _namespace, _out, _templates, _selfTest,
-            _optimize, _stream, _explain })
+            _optimize, _stream, _explain, _alarmFilter, _priors })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
         cmd.Options.Add(_force);
@@ -87,8 +99,27 @@ public sealed class CompileCommand : ICliCommand
             if (mode != NumericMode.Fixed && _fixed.GivenOption(parse) is { } given)
                 throw new EmitException($"{given} applies to --numeric fixed only",
                     "add --numeric fixed or leave the option out");
+            var models = parse.GetValue(_model)!;
+            var priors = ClassifyCommand.ParsePriors(parse.GetValue(_priors));
+            if (models.Length == 1 && priors is not null)
+                throw new EmitException("--priors applies to a classifier (several models)",
+                    "give two or more models, or leave --priors out");
+            if (models.Length > 1)
+            {
+                if (parse.GetValue(_stream) || parse.GetValue(_explain))
+                    throw new EmitException("--stream and --explain apply to one model, not to a classifier",
+                        "compile each model on its own with --stream or --explain");
+                var options = new CompileOptions(
+                    parse.GetValue(_target)!, mode,
+                    parse.GetValue(_name) ?? Naming.ScorerNameFromFile(models[0].FullName),
+                    parse.GetValue(_namespace)!, parse.GetValue(_selfTest), parse.GetValue(_templates)?.FullName,
+                    mode == NumericMode.Fixed ? _fixed.Read(parse) : null, parse.GetValue(_optimize),
+                    AlarmFilter: AlarmFilterOption.Read(parse, _alarmFilter));
+                return RunClassifier(ctx, models.Select(m => m.FullName).ToArray(), priors, options,
+                    parse.GetValue(_out)!, parse.GetValue(_force), parse.GetValue(_name) is not null);
+            }
             return Run(ctx,
-                parse.GetValue(_model)!.FullName,
+                models[0].FullName,
                 parse.GetValue(_target)!,
                 mode,
                 parse.GetValue(_name),
@@ -98,6 +129,7 @@ public sealed class CompileCommand : ICliCommand
                 parse.GetValue(_selfTest),
                 mode == NumericMode.Fixed ? _fixed.Read(parse) : null,
                 parse.GetValue(_optimize),
+                AlarmFilterOption.Read(parse, _alarmFilter),
                 parse.GetValue(_force),
                 parse.GetValue(_stream),
                 parse.GetValue(_explain));
@@ -105,14 +137,28 @@ public sealed class CompileCommand : ICliCommand
         return cmd;
     }
 
+    private static int RunClassifier(CliContext ctx, string[] modelPaths, double[]? priors, CompileOptions options,
+        string outDir, bool force, bool named)
+    {
+        if (!named)
+            throw new EmitException("a classifier needs a name",
+                "give --name NAME (files NAME.h, NAME.c, NAME.cs and NAME_1 ... per model)");
+        var models = modelPaths.Select(ModelLoader.Load).ToArray();
+        var labels = modelPaths.Select(p => Path.GetFileName(p)).ToArray();
+        var compiled = ClassifierCompiler.Build(models, labels, priors, options);
+        foreach (var path in OutputFolder.Write(outDir, compiled.AllFiles, force))
+            ctx.Out.WriteLine($"wrote {path}");
+        return CliApp.Ok;
+    }
+
     private static int Run(CliContext ctx, string modelPath, string[] targets, NumericMode mode, string? name,
         string ns,
         string outDir, string? templates, int selfTest, Emit.Quantize.FixedPointOptions? fixedOptions,
-        OptimizeFor optimize, bool force, bool stream, bool explain)
+        OptimizeFor optimize, Emit.Detection.AlarmFilterSpec? filter, bool force, bool stream, bool explain)
     {
         name ??= Naming.ScorerNameFromFile(modelPath);
         var options = new CompileOptions(targets, mode, name, ns, selfTest, templates, fixedOptions, optimize, stream,
-            explain);
+            explain, filter);
         Naming.CheckScorerName(name);
         var model = ModelLoader.Load(modelPath);
         CompiledScorer compiled;

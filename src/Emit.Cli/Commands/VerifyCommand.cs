@@ -15,8 +15,18 @@ namespace Emit.Cli.Commands;
 /// </summary>
 public sealed class VerifyCommand : ICliCommand
 {
-    private readonly Argument<FileInfo> _model =
-        new Argument<FileInfo>("MODEL") { Description = "Model file (.json or .npz)" }.MustExist();
+    private readonly Argument<FileInfo[]> _model = new Argument<FileInfo[]>("MODEL")
+    {
+        Description = "Model file (.json or .npz); several models: generate and check the classifier over them, " +
+            "as compile does",
+        Arity = new ArgumentArity(1, 64),
+    }.MustExist();
+    private readonly Option<string?> _priors = new("--priors")
+    {
+        HelpName = "P1,P2,...",
+        Description = "With several models: the classifier's prior weights, comma-separated, in model order " +
+            "(default: equal)",
+    };
     private readonly Option<string> _input = new("--input", "-i")
     {
         Description = "Vector file (CSV of 0/1, one vector per line), or - for standard input",
@@ -63,6 +73,9 @@ public sealed class VerifyCommand : ICliCommand
     {
         Description = "Without --generated: also emit explanations and check them against the reference explainer",
     };
+    private readonly Option<string?> _alarmFilter = AlarmFilterOption.Create(
+        "Also emit and check the K-of-N alarm filter (default: as recorded in --generated sources' manifest, " +
+        "else none)");
     private readonly Option<bool> _force = CliOptions.Force();
     private readonly Option<FileInfo?> _report = new("--report")
     {
@@ -102,7 +115,8 @@ public sealed class VerifyCommand : ICliCommand
             "scorer");
         cmd.Arguments.Add(_model);
         foreach (var option in new Option[] { _input, _target, _numeric, _generated, _name, _allowModelChange,
-            _failOnDecision, _templates, _stream, _explain, _report, _junit, _plot, _force, _cc, _cflags, _timeout,
+            _failOnDecision, _templates, _stream, _explain, _alarmFilter, _priors, _report, _junit, _plot, _force,
+            _cc, _cflags, _timeout,
             _work })
             cmd.Options.Add(option);
         _fixed.AddTo(cmd);
@@ -112,7 +126,12 @@ public sealed class VerifyCommand : ICliCommand
 
     private int Run(CliContext ctx, ParseResult parse)
     {
-        var modelPath = parse.GetRequiredValue(_model).FullName;
+        var modelFiles = parse.GetRequiredValue(_model);
+        var modelPath = modelFiles[0].FullName;
+        var priors = ClassifyCommand.ParsePriors(parse.GetValue(_priors));
+        if (modelFiles.Length == 1 && priors is not null)
+            throw new EmitException("--priors applies to a classifier (several models)",
+                "give two or more models, or leave --priors out");
         bool force = parse.GetValue(_force);
         foreach (var output in new[] { parse.GetValue(_report), parse.GetValue(_junit), parse.GetValue(_plot) })
         {
@@ -141,6 +160,9 @@ public sealed class VerifyCommand : ICliCommand
             Fixed = fixedGiven || mode == NumericMode.Fixed && parse.GetValue(_generated) is null ? _fixed.Read(parse)
             : null,
             GeneratedDirectory = parse.GetValue(_generated)?.FullName,
+            AlarmFilter = AlarmFilterOption.Read(parse, _alarmFilter),
+            MoreModels = modelFiles.Skip(1).Select(f => (ModelLoader.Load(f.FullName), f.Name)).ToArray(),
+            Priors = priors,
             Name = parse.GetValue(_name),
             AllowModelChange = parse.GetValue(_allowModelChange),
             FailOnDecisionMismatch = parse.GetValue(_failOnDecision),

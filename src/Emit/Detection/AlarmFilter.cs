@@ -10,7 +10,7 @@ public static class AlarmFilter
     public static AlarmFilterRun Run(IReadOnlyList<double> energies, double threshold, AlarmFilterSpec filter)
     {
         ArgumentNullException.ThrowIfNull(filter);
-        var window = new Window(filter);
+        var window = new AlarmFilterWindow(filter);
         long unusual = 0, raised = 0, inAlarm = 0;
         bool was = false;
         for (int r = 0; r < energies.Count; r++)
@@ -32,23 +32,9 @@ public static class AlarmFilter
     public static int? ReportsUntilRaised(IReadOnlyList<double> episode, double threshold, AlarmFilterSpec filter)
     {
         ArgumentNullException.ThrowIfNull(filter);
-        var window = new Window(filter);
+        var window = new AlarmFilterWindow(filter);
         for (int r = 0; r < episode.Count; r++)
             if (window.Push(episode[r] > threshold)) return r + 1;
         return null;
-    }
-
-    /// <summary>The last N decisions as bits of one word, and how many of them are set.</summary>
-    private struct Window(AlarmFilterSpec filter)
-    {
-        private readonly int _k = filter.K;
-        private readonly ulong _mask = (1UL << filter.N) - 1;
-        private ulong _bits;
-
-        public bool Push(bool unusual)
-        {
-            _bits = ((_bits << 1) | (unusual ? 1UL : 0UL)) & _mask;
-            return System.Numerics.BitOperations.PopCount(_bits) >= _k;
-        }
     }
 }

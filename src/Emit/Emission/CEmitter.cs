@@ -21,6 +21,10 @@ public sealed class CEmitter : ITargetEmitter
     public const string StreamHeaderTemplate = "stream.h.sbn";
     /// <summary>Included by both sources when streamed scoring or explanations are emitted.</summary>
     public const string StreamSourceTemplate = "stream.c.sbn";
+    /// <summary>Included in the header when the alarm filter is emitted.</summary>
+    public const string FilterHeaderTemplate = "filter.h.sbn";
+    /// <summary>Included in the source when the alarm filter is emitted.</summary>
+    public const string FilterSourceTemplate = "filter.c.sbn";
 
     /// <inheritdoc/>
     public string Name => "c";
@@ -32,7 +36,8 @@ public sealed class CEmitter : ITargetEmitter
     public IReadOnlyList<string> TemplateFiles { get; } =
         [
             HeaderTemplate, FloatSourceTemplate, FixedSourceTemplate, CommonTemplate, LicenceTemplate,
-            StreamHeaderTemplate, StreamSourceTemplate,
+            StreamHeaderTemplate, StreamSourceTemplate, FilterHeaderTemplate, FilterSourceTemplate,
+            ClassifierEmitter.CHeaderTemplate, ClassifierEmitter.CSourceTemplate,
         ];
 
     /// <inheritdoc/>

@@ -15,6 +15,8 @@ public sealed class CSharpEmitter : ITargetEmitter
     public const string LicenceTemplate = "licence.sbn";
     /// <summary>Included by the C# templates when streamed scoring or explanations are emitted.</summary>
     public const string StreamTemplate = "stream.cs.sbn";
+    /// <summary>Included when the alarm filter is emitted.</summary>
+    public const string FilterTemplate = "filter.cs.sbn";
 
     /// <inheritdoc/>
     public string Name => "csharp";
@@ -24,7 +26,7 @@ public sealed class CSharpEmitter : ITargetEmitter
     public IReadOnlyList<string> Extensions { get; } = [".cs"];
     /// <inheritdoc/>
     public IReadOnlyList<string> TemplateFiles { get; } = [FloatTemplate, FixedTemplate, CommonTemplate,
-        LicenceTemplate, StreamTemplate];
+        LicenceTemplate, StreamTemplate, FilterTemplate, ClassifierEmitter.CSharpTemplate];
 
     /// <inheritdoc/>
     public IReadOnlyList<GeneratedFile> Emit(ScorerPlan plan, TemplateRenderer templates)

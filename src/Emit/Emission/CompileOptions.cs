@@ -1,3 +1,4 @@
+using Emit.Detection;
 using Emit.Quantize;
 
 namespace Emit.Emission;
@@ -11,6 +12,7 @@ namespace Emit.Emission;
 /// <see cref="Stream"/> adds streamed scoring (a caller-owned state updated one flipped unit at a time) and
 /// <see cref="Explain"/> adds explanations (the units whose flip lowers the free energy most), which implies the
 /// streamed-scoring code; both are for kinds rbm and lateral (docs/generated-code.md).
+/// <see cref="AlarmFilter"/>, when set, adds the K-of-N alarm filter beside the scorer (docs/generated-code.md).
 /// </summary>
 public sealed record CompileOptions(
     IReadOnlyList<string> Targets,
@@ -22,7 +24,8 @@ public sealed record CompileOptions(
     FixedPointOptions? Fixed = null,
     OptimizeFor Optimize = OptimizeFor.Speed,
     bool Stream = false,
-    bool Explain = false)
+    bool Explain = false,
+    AlarmFilterSpec? AlarmFilter = null)
 {
     /// <summary>True when the streamed-scoring code is emitted (asked for, or needed by explanations).</summary>
     public bool EmitsStream => Stream || Explain;
@@ -49,12 +52,16 @@ public sealed record CompileOptions(
             var f = FixedOptions;
             text += $" --weights {f.Weights.ToText()} --accumulator {(f.Accumulator is { } a ? a.ToText() : "auto")} " +
                 $"--softplus-table {f.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
+            if (f.EnergyFractionBitsLimit is { } limit)
+                text += " --energy-fraction-bits-limit " +
+                        limit.ToString(System.Globalization.CultureInfo.InvariantCulture);
         }
         text += $" --name {Name}";
         if (target == "csharp") text += $" --namespace {Namespace}";
         text += $" --selftest-vectors {SelfTestVectors} --optimize {Optimize.ToText()}";
         if (Stream) text += " --stream";
         if (Explain) text += " --explain";
+        if (AlarmFilter is not null) text += $" --alarm-filter {AlarmFilter}";
         if (TemplatesDirectory is not null) text += " --templates (custom)";
         return text;
     }

@@ -15,13 +15,57 @@ public static class FootprintModel
         "-mfloat-abi=hard -Os";
 
     /// <summary>The predicted footprint and dependencies of <paramref name="plan"/>'s C output.</summary>
-    public static ScorerFootprint Predict(ScorerPlan plan) => plan switch
+    public static ScorerFootprint Predict(ScorerPlan plan)
     {
-        FixedScorerPlan f => new ScorerFootprint(FixedReference,
-            CortexM0Footprint.Predict(f.Fixed, f.SelfTest.Count, f.Options.Optimize), []),
-        FloatScorerPlan p => new ScorerFootprint(FloatReference, CortexM4FFootprint.Predict(p), LibmFunctions(p)),
-        _ => throw new ArgumentException("unknown plan type", nameof(plan)),
-    };
+        var footprint = plan switch
+        {
+            FixedScorerPlan f => new ScorerFootprint(FixedReference,
+                CortexM0Footprint.Predict(f.Fixed, f.SelfTest.Count, f.Options.Optimize), []),
+            FloatScorerPlan p => new ScorerFootprint(FloatReference, CortexM4FFootprint.Predict(p), LibmFunctions(p)),
+            _ => throw new ArgumentException("unknown plan type", nameof(plan)),
+        };
+        if (Filter(plan) is { } filter)
+            footprint = footprint with
+            {
+                Figures = footprint.Figures with
+                {
+                    FlashBytes = footprint.Figures.FlashBytes + filter.FlashBytes,
+                    CodeBytes = footprint.Figures.CodeBytes + filter.FlashBytes,
+                },
+            };
+        return footprint;
+    }
+
+    /// <summary>
+    /// Code of NAME_filter_reset and NAME_filter_update (Cortex-M0 -Os in fixed mode, Cortex-M4F -Os in the float
+    /// modes; the same C in every mode), measured with arm-none-eabi-size on Debian's arm-none-eabi-gcc 12.2 (46 bytes
+    /// on Cortex-M0, 44 on Cortex-M4F, for 3/5) and rounded up to leave a margin (docs/generated-code.md, "Costs").
+    /// </summary>
+    public const int FilterCodeBytesM0 = 64, FilterCodeBytesM4F = 64;
+
+    /// <summary>sizeof(NAME_filter_t) on a 32-bit core: a uint32_t and a uint8_t, padded to 4-byte alignment.</summary>
+    public const int FilterRamBytes = 8;
+
+    /// <summary>
+    /// Code of NAME_classify: a call and a subtraction per model and the argmax loop, measured with arm-none-eabi-nm
+    /// on Debian's arm-none-eabi-gcc 12.2 (docs/generated-code.md, "Classifier") and rounded up; the offsets table is
+    /// one energy value per model. RAM: the caller's scores array, one energy value per model.
+    /// </summary>
+    public const int ClassifierCodeBase = 64, ClassifierCodePerModel = 16;
+
+    /// <summary>The classifier's extra cost beside its models' scorers on the mode's reference core.</summary>
+    public static FeatureCost Classifier(ClassifierPlan plan)
+    {
+        int energy = plan.Models[0].Mode == NumericMode.F32 ? 4
+            : plan.Models[0] is FixedScorerPlan f && f.Accumulator == AccumulatorType.Int32 ? 4 : 8;
+        return new FeatureCost(ClassifierCodeBase + (ClassifierCodePerModel + energy) * plan.Count,
+            energy * plan.Count);
+    }
+
+    /// <summary>The alarm filter's extra cost on the mode's reference core, or null without a filter.</summary>
+    public static FeatureCost? Filter(ScorerPlan plan) => plan.HasFilter
+        ? new FeatureCost(plan.Mode == NumericMode.Fixed ? FilterCodeBytesM0 : FilterCodeBytesM4F, FilterRamBytes)
+        : null;
 
     /// <summary>
     /// The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units, except in

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using Emit.Detection;
 using Emit.Model;
 using Emit.Quantize;
 
@@ -26,6 +27,10 @@ public abstract class ScorerPlan
         LinkHigher = [.. byHigher.Select(l => l.J)];
         LinksByHigher = [.. byHigher];
         if (!model.Names.IsEmpty) UnitComments = model.Names.Select(Naming.CommentText).ToArray();
+        if (options.AlarmFilter is { } filter && model.Threshold is null)
+            throw new EmitException(
+                $"the alarm filter {filter} votes on the scorer's decisions, and the model has no threshold",
+                "set one first with emit calibrate (or give the model a threshold), or leave the alarm filter out");
         // every link of a unit, whichever end it is: streamed scoring and explanations update a unit's field
         var ends = new List<(int Other, int Link)>[model.Visible];
         for (int i = 0; i < model.Visible; i++) ends[i] = [];
@@ -41,6 +46,15 @@ public abstract class ScorerPlan
         AdjacentOther = [.. sorted.SelectMany(e => e.Select(x => x.Other))];
         AdjacentLink = [.. sorted.SelectMany(e => e.Select(x => x.Link))];
     }
+
+    /// <summary>The K-of-N alarm filter emitted beside the scorer (docs/generated-code.md), or null.</summary>
+    public AlarmFilterSpec? AlarmFilter => Options.AlarmFilter;
+
+    /// <summary>True when the alarm filter is emitted.</summary>
+    public bool HasFilter => AlarmFilter is not null;
+
+    /// <summary>The filter's history mask: the low N bits of a 32-bit word (0 without a filter).</summary>
+    public long FilterMask => AlarmFilter is { N: var n } ? (long)(uint.MaxValue >> (32 - n)) : 0;
 
     /// <summary>
     /// Refuses the streamed-scoring and explanation options for a model they do not support (kind general: a flip

@@ -81,6 +81,9 @@ public sealed record SourceManifest
     /// </summary>
     public FixedPointOptions? Fixed { get; init; }
 
+    /// <summary>The K-of-N alarm filter emitted beside the scorer, or null when there is none.</summary>
+    public Emit.Detection.AlarmFilterSpec? AlarmFilter { get; init; }
+
     /// <summary>The type of the scorer's result: f32, f64, int32 or int64.</summary>
     public required string EnergyType { get; init; }
 
@@ -127,7 +130,7 @@ public sealed record SourceManifest
     public CompileOptions ToCompileOptions(IReadOnlyList<string> targets, string? templatesDirectory) =>
         new(targets, Numeric, Name, Namespace, SelfTestVectors, templatesDirectory,
             Numeric == NumericMode.Fixed ? Fixed ?? new FixedPointOptions() : null, Stream: Stream, Explain: Explain,
-            Optimize: Optimize);
+            Optimize: Optimize, AlarmFilter: AlarmFilter);
 
     /// <summary>The manifest for a compilation.</summary>
     internal static SourceManifest Describe(ScorerPlan plan, IReadOnlyList<string> targets,
@@ -154,6 +157,7 @@ public sealed record SourceManifest
             Explain = options.Explain,
             CustomTemplates = options.TemplatesDirectory is not null,
             Fixed = fixedPlan is null ? null : options.FixedOptions,
+            AlarmFilter = options.AlarmFilter,
             EnergyType = fixedPlan is null ? options.Numeric.ToText() : fixedPlan.Accumulator.ToText(),
             EnergyScale = fixedPlan is null ? 1.0 : Math.ScaleB(1.0, fixedPlan.EnergyFractionBits),
             Weights = fixedPlan is null ? options.Numeric.ToText() : fixedPlan.WeightType.ToText(),

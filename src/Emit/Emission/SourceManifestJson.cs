@@ -56,9 +56,13 @@ public static class SourceManifestJson
                 w.WriteString("weights", f.Weights.ToText());
                 w.WriteString("accumulator", f.Accumulator is { } a ? a.ToText() : "auto");
                 w.WriteNumber("softplus_table", f.SoftplusTableSize);
+                // a classifier's models share one energy format (written only when set)
+                if (f.EnergyFractionBitsLimit is { } limit) w.WriteNumber("energy_fraction_bits_limit", limit);
                 w.WriteEndObject();
             }
             else w.WriteNull("fixed");
+            // written only when given, so the manifests of scorers without the filter stay as they were
+            if (m.AlarmFilter is { } filter) w.WriteString("alarm_filter", filter.ToString());
             w.WriteEndObject();
 
             w.WriteStartObject("scorer");
@@ -167,6 +171,7 @@ public static class SourceManifestJson
                     _ => throw r.Bad("options.templates is not shipped or custom"),
                 },
                 Fixed = options.Has("fixed") ? ReadFixed(options.Object("fixed")) : null,
+                AlarmFilter = options.Has("alarm_filter") ? ReadFilter(options) : null,
                 EnergyType = scorer.Text("energy_type"),
                 EnergyScale = scorer.Number("energy_scale"),
                 Weights = scorer.Text("weights"),
@@ -186,6 +191,12 @@ public static class SourceManifestJson
         }
     }
 
+    private static Emit.Detection.AlarmFilterSpec ReadFilter(Cursor options)
+    {
+        try { return Emit.Detection.AlarmFilterSpec.Parse(options.Text("alarm_filter")); }
+        catch (EmitException e) { throw options.Bad($"options.alarm_filter: {e.Problem}"); }
+    }
+
     private static FixedPointOptions ReadFixed(Cursor f)
     {
         var weights = WeightTypeInfo.Parse(f.Text("weights"))
@@ -194,7 +205,8 @@ public static class SourceManifestJson
         AccumulatorType? accumulator = text == "auto"
             ? null
             : AccumulatorTypeInfo.Parse(text) ?? throw f.Bad("options.fixed.accumulator is not auto, int32 or int64");
-        return new FixedPointOptions(weights, accumulator, f.Int("softplus_table"));
+        return new FixedPointOptions(weights, accumulator, f.Int("softplus_table"),
+            f.Has("energy_fraction_bits_limit") ? f.Int("energy_fraction_bits_limit") : null);
     }
 
     /// <summary>A JSON value being read, with the path of its fields for messages.</summary>

@@ -32,4 +32,10 @@ public sealed class CSharpHarnessModel
 
     /// <summary>Units asked for per explanation (<see cref="StreamWalk.ExplainUnits"/>).</summary>
     public int ExplainUnits { get; init; } = StreamWalk.ExplainUnits;
+
+    /// <summary>The classifier run beside the scorer (each line gets <c>classify:IDX,HEX1,...</c>), or null.</summary>
+    public ClassifierHarness? Classifier { get; init; }
+
+    /// <summary>True when the class has the alarm filter: each line gets <c>filter:0|1</c>.</summary>
+    public bool HasFilter { get; init; }
 }

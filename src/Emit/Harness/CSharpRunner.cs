@@ -26,6 +26,8 @@ public sealed class CSharpRunner : ITargetRunner
             [Path.GetFileName(sources.MainFile)] = File.ReadAllText(sources.MainFile),
             ["emit-harness.cs"] = HarnessTemplates.Program(sources, "emit-harness.cs"),
         };
+        foreach (var f in sources.CompanionFiles.Where(f => f.EndsWith(".cs", StringComparison.Ordinal)))
+            files[Path.GetFileName(f)] = File.ReadAllText(f);
         var dll = CSharpProject.Build(workDirectory, files, new CSharpProject.Settings(), settings.Limit, out failure);
         if (dll is null) return null;
         return ProcessSession.Start(CSharpProject.RequireDotnet(Name), [dll], workDirectory, layout, settings.Limit,

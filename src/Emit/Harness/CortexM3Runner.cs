@@ -59,6 +59,10 @@ public sealed class CortexM3Runner : ITargetRunner
             || !session.Compile(Path.Combine(workDirectory, "emit-startup.c"), "emit-startup.o", "the start-up code",
                 out failure))
             return null;
+        var companions = sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal)).ToArray();
+        for (int k = 0; k < companions.Length; k++)
+            if (!session.Compile(companions[k], $"emit-companion-{k}.o", "the generated C", out failure))
+                return null;
         return session;
     }
 
@@ -66,6 +70,9 @@ public sealed class CortexM3Runner : ITargetRunner
         RunnerSettings settings, string dir) : IScorerSession
     {
         private int _images;
+
+        // the generated decisions so far, the last N − 1 of them at most: the alarm filter's history for the next image
+        private readonly List<bool> _decisions = [];
 
         public int? SelfTestFailures { get; private set; }
 
@@ -101,14 +108,16 @@ public sealed class CortexM3Runner : ITargetRunner
             int image = ++_images;
             var main = $"emit-harness-main-{image}.c";
             File.WriteAllText(Path.Combine(dir, main),
-                HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows));
+                HarnessTemplates.EmbeddedMain(sources, layout, main, packed, rows, _decisions));
             var obj = $"emit-harness-main-{image}.o";
             if (!Compile(Path.Combine(dir, main), obj, "the harness main", out failure)) return false;
             var elf = Path.Combine(dir, $"emit-image-{image}.elf");
             var link = ExternalProcess.Run(gcc,
                 [.. CFlags.Split(CFlags.CortexM3), "--specs=rdimon.specs", "-T", Path.Combine(dir, "emit-cortex-m3.ld"),
-                 Path.Combine(dir, "emit-startup.o"), Path.Combine(dir, "emit-scorer.o"), Path.Combine(dir, obj), "-lm",
-                 "-o", elf],
+                 Path.Combine(dir, "emit-startup.o"), Path.Combine(dir, "emit-scorer.o"),
+                 .. sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal))
+                     .Select((_, k) => Path.Combine(dir, $"emit-companion-{k}.o")),
+                 Path.Combine(dir, obj), "-lm", "-o", elf],
                 settings.Limit, dir);
             if (!link.Ok)
             {
@@ -155,6 +164,11 @@ public sealed class CortexM3Runner : ITargetRunner
                     failure = $"image {image} printed an unexpected line: \"{HarnessLayout.Shorten(lines[r + 1])}\"";
                     return false;
                 }
+            if (sources.Manifest.AlarmFilter is { N: var n })
+            {
+                for (int r = 0; r < rows; r++) _decisions.Add(results[r].Decision == 1);
+                if (_decisions.Count > n - 1) _decisions.RemoveRange(0, _decisions.Count - (n - 1));
+            }
             failure = "";
             return true;
         }

@@ -27,17 +27,19 @@ public static class HarnessTemplates
     /// The C harness main for <paramref name="sources"/>, reading packed inputs as hex lines from standard input.
     /// </summary>
     public static string Main(ScorerSources sources, HarnessLayout layout, string fileName) =>
-        Main(sources, layout, fileName, default, 0, false);
+        Main(sources, layout, fileName, default, 0, false, []);
 
     /// <summary>
     /// The C harness main with <paramref name="rows"/> packed inputs compiled in (for an emulator image).
     /// </summary>
+    /// <remarks><paramref name="filterWarmup"/>: with the alarm filter, the decisions of earlier images, oldest first
+    /// (the filter takes them before the first input, so its state runs on across images).</remarks>
     public static string EmbeddedMain(ScorerSources sources, HarnessLayout layout, string fileName,
-        ReadOnlySpan<byte> inputs, int rows) =>
-        Main(sources, layout, fileName, inputs, rows, true);
+        ReadOnlySpan<byte> inputs, int rows, IReadOnlyList<bool>? filterWarmup = null) =>
+        Main(sources, layout, fileName, inputs, rows, true, filterWarmup ?? []);
 
     private static string Main(ScorerSources sources, HarnessLayout layout, string fileName,
-        ReadOnlySpan<byte> embedded, int embeddedRows, bool isEmbedded)
+        ReadOnlySpan<byte> embedded, int embeddedRows, bool isEmbedded, IReadOnlyList<bool> filterWarmup)
     {
         int partial = layout.Visible % 8;
         var rows = new StringBuilder();
@@ -61,6 +63,10 @@ public static class HarnessTemplates
             HasPartialByte = partial != 0,
             UnusedBitsMask = "0x" + ((0xFF << partial) & 0xFF).ToString("X2", CultureInfo.InvariantCulture) + "u",
             Embedded = isEmbedded,
+            HasFilter = sources.Manifest.AlarmFilter is not null,
+            Classifier = sources.Classifier,
+            FilterWarmup = filterWarmup.Count == 0 ? "0" : string.Join(", ", filterWarmup.Select(u => u ? "1u" : "0u")),
+            FilterWarmupCount = filterWarmup.Count,
             VectorCount = embeddedRows,
             VectorRows = rows.ToString().TrimEnd('\n'),
             Stream = sources.Manifest.HasStream,
@@ -90,6 +96,8 @@ public static class HarnessTemplates
             },
             StreamSteps = StreamWalk.Steps(sources.Manifest.Visible),
             StreamFirstRead = StreamWalk.FirstRead(sources.Manifest.Visible),
+            HasFilter = sources.Manifest.AlarmFilter is not null,
+            Classifier = sources.Classifier,
         });
 
     /// <summary>The Cortex-M3 start-up source, written as <paramref name="fileName"/>.</summary>

@@ -37,7 +37,9 @@ public sealed class HostCRunner : ITargetRunner
         args.AddRange(CFlags.Split(CFlags.Strict));
         args.Add("-O2");
         args.AddRange(CFlags.Split(settings.CFlags));
-        args.AddRange(["-I", sources.Directory, sources.SourceFile, main, "-o", exe, "-lm"]);
+        args.AddRange(["-I", sources.Directory, sources.SourceFile,
+            .. sources.CompanionFiles.Where(f => f.EndsWith(".c", StringComparison.Ordinal)),
+            main, "-o", exe, "-lm"]);
         var result = ExternalProcess.Run(cc, args, settings.Limit, workDirectory);
         if (!result.Ok)
         {

@@ -51,6 +51,23 @@ public sealed class ScorerSources
     /// <summary>C#: the class as a fully qualified expression.</summary>
     public string QualifiedClass => "global::" + Namespace + "." + ClassName;
 
+    /// <summary>
+    /// Sources built with the scorer when it is model 1 of a generated classifier (the other models' scorers and the
+    /// classifier's own files, full paths of this language); empty otherwise.
+    /// </summary>
+    public IReadOnlyList<string> CompanionFiles { get; private set; } = [];
+
+    /// <summary>The classifier the harness also runs (its C name, C# class and model count), or null.</summary>
+    public ClassifierHarness? Classifier { get; private set; }
+
+    /// <summary>These sources as model 1 of a classifier built beside them.</summary>
+    public ScorerSources WithClassifier(ClassifierHarness classifier, IReadOnlyList<string> companions)
+    {
+        CompanionFiles = companions;
+        Classifier = classifier;
+        return this;
+    }
+
     /// <summary>The C header (NAME.h), or the C# file.</summary>
     public string MainFile => Files[0];
 

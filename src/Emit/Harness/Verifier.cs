@@ -50,6 +50,19 @@ public static class Verifier
                 $"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to " +
                 $"{Setting.Numeric.Ref()} fixed, not {mode.ToText()}",
                 $"leave them out, or use {Setting.Numeric.Ref()} fixed");
+        var filter = ResolveFilter(request, located.Values);
+        CompiledClassifier? classifier = null;
+        if (request.MoreModels.Count > 0)
+        {
+            if (request.GeneratedDirectory is not null)
+                throw new EmitException("verify --generated checks one scorer of a classifier at a time",
+                    $"give one model with {Setting.Name.Ref()} NAME_k, or leave --generated out to generate and " +
+                    "check the classifier");
+            classifier = ClassifierCompiler.Build([model, .. request.MoreModels.Select(m => m.Model)],
+                [request.ModelLabel, .. request.MoreModels.Select(m => m.Label)], request.Priors,
+                new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter));
+            fixedOptions = classifier.Scorers[0].Manifest.Fixed;
+        }
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
 
@@ -78,13 +91,38 @@ public static class Verifier
                 var src = Path.Combine(work, "src");
                 Directory.CreateDirectory(src);
                 var options = new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions,
-                    Stream: request.Stream, Explain: request.Explain);
-                foreach (var f in ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles)
+                    Stream: request.Stream, Explain: request.Explain, AlarmFilter: filter);
+                var files = classifier?.AllFiles ?? ScorerCompiler.Build(model, request.ModelLabel, options).AllFiles;
+                foreach (var f in files)
                     File.WriteAllText(Path.Combine(src, f.FileName), f.Text);
                 foreach (var language in languages)
-                    located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
+                {
+                    if (classifier is null)
+                    {
+                        located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
+                        continue;
+                    }
+                    var first = classifier.Scorers[0].Plan.Options.Name;
+                    var sources = ScorerSources.Locate(src, language, first, first);
+                    var ext = language == "csharp" ? ".cs" : ".c";
+                    var companions = files
+                        .Where(f => !f.FileName.EndsWith(SourceManifest.Suffix, StringComparison.Ordinal)
+                                    && f.FileName.EndsWith(ext, StringComparison.Ordinal)
+                                    && !sources.Files.Any(s => Path.GetFileName(s) == f.FileName))
+                        .Select(f => Path.Combine(src, f.FileName)).ToArray();
+                    var view = new ClassifierView(classifier.Plan, language);
+                    var type = mode switch
+                    {
+                        NumericMode.F32 => "float",
+                        NumericMode.F64 => "double",
+                        _ => expectation.EnergyBytes == 4 ? "int" : "long",
+                    };
+                    located[language] = sources.WithClassifier(new ClassifierHarness(defaultName,
+                        $"global::{options.Namespace}.{view.ClassName}", classifier.Plan.Count, type), companions);
+                }
             }
-            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings);
+            return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings,
+                classifier?.Plan);
         }
         finally
         {
@@ -97,7 +135,7 @@ public static class Verifier
     private static VerifyReport Compare(VerifyRequest request, List<ITargetRunner> runners, Dictionary<string,
         ScorerSources> located,
         Dictionary<string, SourceCheckResult> checks, NumericExpectation expectation, HarnessLayout layout,
-        VectorReader reader, string work, List<string> warnings)
+        VectorReader reader, string work, List<string> warnings, ClassifierPlan? classifier)
     {
         var model = request.Model;
         var states = new List<State>();
@@ -106,6 +144,8 @@ public static class Verifier
             var state = new State(runner, located[runner.Language],
                 new TargetComparison(expectation, request.FailOnDecisionMismatch),
                 checks.GetValueOrDefault(runner.Language));
+            if (located[runner.Language].Manifest.AlarmFilter is { } spec) state.Filter = new FilterCheck(spec);
+            if (classifier is not null) state.Classify = new ClassifyCheck(classifier, expectation);
             if (state.Check is { } check)
             {
                 state.Failures.AddRange(check.Failures);
@@ -168,6 +208,8 @@ public static class Verifier
                             results[r]);
                         s.Stream?.Add(index + r, units.AsSpan(r * v, v), packed.AsSpan(r * pb, pb), results[r]);
                         s.Explain?.Add(index + r, units.AsSpan(r * v, v), results[r]);
+                        s.Filter?.Add(index + r, reference[r] > model.Threshold, results[r]);
+                        s.Classify?.Add(index + r, units.AsSpan(r * v, v), results[r]);
                     }
                 }
                 index += rows;
@@ -246,6 +288,26 @@ public static class Verifier
         return request.Fixed ?? recorded ?? new FixedPointOptions();
     }
 
+    /// <summary>
+    /// The alarm filter: the one requested, else the manifest's (none when neither has one); a request that
+    /// contradicts the manifest is an error.
+    /// </summary>
+    private static Emit.Detection.AlarmFilterSpec? ResolveFilter(VerifyRequest request,
+        IEnumerable<ScorerSources> sources)
+    {
+        foreach (var s in sources)
+        {
+            var m = s.Manifest.AlarmFilter;
+            if (request.AlarmFilter is { } asked && asked != m)
+                throw new EmitException(
+                    $"{Path.GetFileName(s.SourceFile)} was generated " +
+                    (m is null ? "without an alarm filter" : $"with the alarm filter {m}") + $", not {asked}",
+                    "leave --alarm-filter out to take it from the manifest", s.ManifestPath);
+            return m;
+        }
+        return request.AlarmFilter;
+    }
+
     private static string Describe(FixedPointOptions o) =>
         $"--weights {o.Weights.ToText()} --accumulator {(o.Accumulator is { } a ? a.ToText() : "auto")} " +
         $"--softplus-table {o.SoftplusTableSize.ToString(System.Globalization.CultureInfo.InvariantCulture)}";
@@ -264,8 +326,12 @@ public static class Verifier
         public double ScoreSeconds { get; set; }
         public StreamCheck? Stream { get; set; }
         public ExplainCheck? Explain { get; set; }
+        public FilterCheck? Filter { get; set; }
+        public ClassifyCheck? Classify { get; set; }
 
+        /// <summary>The results of the features checked on this target.</summary>
         public IReadOnlyList<FeatureResult> Features() =>
-            new[] { Stream?.Result(), Explain?.Result() }.OfType<FeatureResult>().ToArray();
+            new[] { Stream?.Result(), Explain?.Result(), Filter?.Finish(), Classify?.Finish() }
+                .OfType<FeatureResult>().ToArray();
     }
 }

@@ -28,6 +28,21 @@ public sealed record VerifyRequest
     /// <summary>Fixed-point options; null: those stamped in existing sources, else the defaults.</summary>
     public FixedPointOptions? Fixed { get; init; }
 
+    /// <summary>
+    /// The K-of-N alarm filter to emit beside the scorer and check; null: the one recorded in existing sources'
+    /// manifest, else none.
+    /// </summary>
+    public Emit.Detection.AlarmFilterSpec? AlarmFilter { get; init; }
+
+    /// <summary>
+    /// Several models make a classifier (models 2 and up and the priors; <see cref="Model"/> is model 1): verify
+    /// generates it, checks model 1's scorer as usual and the classifier's indices and scores beside it.
+    /// </summary>
+    public IReadOnlyList<(BoltzmannModel Model, string Label)> MoreModels { get; init; } = [];
+
+    /// <summary>The classifier's prior weights, one per model (null: equal).</summary>
+    public IReadOnlyList<double>? Priors { get; init; }
+
     /// <summary>Folder of existing generated sources to check; null: generate into the work folder.</summary>
     public string? GeneratedDirectory { get; init; }
 

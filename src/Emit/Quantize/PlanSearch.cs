@@ -85,7 +85,7 @@ internal sealed partial class PlanSearch
             // A table reaching past every input only gets coarser as R grows further.
             if (best is not null && Math.ScaleB(1.0, rho - 1) > reach) break;
             int step = logN - rho;
-            for (int e = FixedPointPlanner.MaxEnergyFractionBits; e >= 0; e--)
+            for (int e = _o.EnergyFractionBitsLimit ?? FixedPointPlanner.MaxEnergyFractionBits; e >= 0; e--)
             {
                 if (_m.Kind == ModelKind.General && e < step) break;
                 // The energy's partial sums reach about this magnitude · 2^E: skip E values that cannot fit.

@@ -250,6 +250,9 @@ public sealed class CDialect : TargetDialect
     /// <summary>Predicted footprint on the reference core of this mode (stated in the header).</summary>
     public ScorerFootprint Footprint => FootprintModel.Predict(Plan);
 
+    /// <summary>The alarm filter's extra flash and RAM on the reference core (null without a filter).</summary>
+    public FeatureCost? FilterFootprint => FootprintModel.Filter(Plan);
+
     /// <inheritdoc/>
     public override void Register(ScriptObject globals)
     {

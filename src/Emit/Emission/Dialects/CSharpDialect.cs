@@ -17,7 +17,7 @@ public sealed class CSharpDialect : TargetDialect
         "HiddenLogSumExp", "VisibleBiasTable", "HiddenBiasTable", "WeightTable", "LinkStartTable", "LinkOtherTable",
         "LinkWeightTable", "HiddenPairTable", "SelfTestInputTable", "SelfTestExpectedTable", "SelfTestToleranceTable",
         "EnergyFractionBits", "EnergyMin", "EnergyMax", "ToEnergy", "G", "Lse2", "FractionBitsTable", "SoftplusTable",
-        "AddRow", "AddRows",
+        "AddRow", "AddRows", "AlarmFilter", "FilterK", "FilterN",
     };
 
     /// <summary>Names the generated class uses itself, so unit constants avoid them.</summary>

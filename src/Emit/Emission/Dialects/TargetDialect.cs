@@ -69,6 +69,9 @@ public abstract class TargetDialect
     /// </summary>
     public abstract string Comment(IEnumerable<string> paragraphs, string indent);
 
+    /// <summary>An unsigned 32-bit hexadecimal literal (the same syntax in C99 and C#): <c>0x0000001Fu</c>.</summary>
+    public static string Hex32(long value) => "0x" + ((uint)value).ToString("X8", Inv) + "u";
+
     /// <summary>
     /// A real literal of the plan's float mode (the syntax is shared by C99 and C#, see <see cref="Literals"/>).
     /// </summary>
@@ -194,6 +197,7 @@ public abstract class TargetDialect
         globals.Import("double_up", new Func<double, string>(v => Literals.Upward(v, NumericMode.F64)));
         globals.Import("int", new Func<long, string>(Int));
         globals.Import("index", new Func<long, string>(Index));
+        globals.Import("hex32", new Func<long, string>(Hex32));
         globals.Import("real", new Func<long, int, string>(RealOf));
         globals.Import("label", new Func<int, string>(Plan.UnitLabel));
         globals.Import("items", new Func<object, int, string, string, string>(Wrap));

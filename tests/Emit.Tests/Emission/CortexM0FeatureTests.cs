@@ -1,0 +1,142 @@
+using System.Globalization;
+using Emit.Detection;
+using Emit.Emission;
+using Emit.Model;
+using Emit.Quantize;
+
+namespace Emit.Tests.Emission;
+
+/// <summary>
+/// The firmware features on the reference cores, judged by the Arm toolchain (Debian gcc-arm-none-eabi): fixed mode
+/// with the features on still builds for Cortex-M0 with float and double poisoned and needs no floating-point,
+/// division or libm symbol; the extra flash each feature's header states (<see cref="FootprintModel"/>) covers its
+/// functions as <c>arm-none-eabi-nm -S</c> measures them, on Cortex-M0 (fixed) and Cortex-M4F (float), with the
+/// margin stated; the RAM it states is <c>sizeof</c> of the caller-owned state on the core.
+/// </summary>
+public sealed partial class CortexM0Tests
+{
+    private const string M4FFeatureFlags =
+        "-mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 -mfloat-abi=hard -Os -Werror " + Toolchain.StrictC;
+
+    /// <summary>Compiles <paramref name="name"/>.c; returns the undefined symbols and the size of each function.</summary>
+    private static (string[] Undefined, Dictionary<string, int> Sizes) CompileFeatures(string dir, string name,
+        BoltzmannModel model, CompileOptions options, string gcc, string flags, string? poison)
+    {
+        foreach (var f in ScorerCompiler.Compile(model, name + ".json", options))
+            File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+        var obj = Path.Combine(dir, name + ".o");
+        string[] include = poison is null ? [] : ["-include", poison];
+        Toolchain.RunOk(gcc, [.. Toolchain.Split(flags), .. include, "-I", dir, "-c", Path.Combine(dir, name + ".c"), "-o", obj]);
+        var nm = Toolchain.Require("arm-none-eabi-nm");
+        var undefined = Toolchain.RunOk(nm, ["-u", obj]).Split('\n', StringSplitOptions.RemoveEmptyEntries)
+            .Select(l => l.Trim().Split(' ')[^1]).ToArray();
+        var sizes = new Dictionary<string, int>(StringComparer.Ordinal);
+        foreach (var line in Toolchain.RunOk(nm, ["-S", obj]).Split('\n', StringSplitOptions.RemoveEmptyEntries))
+        {
+            var w = line.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+            if (w.Length == 4 && w[2] is "T" or "t")
+                sizes[w[3]] = int.Parse(w[1], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
+        }
+        // the caller-owned state's size on the core, as the header states it
+        var probe = Path.Combine(dir, name + "_probe.c");
+        File.WriteAllText(probe, $"#include \"{name}.h\"\n" +
+            $"_Static_assert(sizeof({name}_filter_t) == {Naming.MacroPrefix(name)}_FILTER_RAM_BYTES, \"filter RAM\");\n" +
+            "int probe_unused;\n");
+        Toolchain.RunOk(gcc, [.. Toolchain.Split(flags.Replace("-std=c99", "-std=c11", StringComparison.Ordinal)), "-I", dir,
+            "-c", probe, "-o", Path.Combine(dir, name + "_probe.o")]);
+        return (undefined, sizes);
+    }
+
+    [SkippableFact]
+    public void Fixed_c_with_the_alarm_filter_links_on_cortex_m0_integer_only_and_the_stated_costs_cover_it()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        Toolchain.Require("arm-none-eabi-nm");
+        var dir = Toolchain.TempDir("m0-features");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var demo = ModelLoader.Load(ReferenceModelPath());
+        output.WriteLine("build | filter code measured / stated (bytes)");
+        foreach (var (k, n) in new[] { (3, 5), (1, 1), (32, 32), (7, 31) })
+        {
+            foreach (var mode in new[] { NumericMode.Fixed, NumericMode.F32 })
+            {
+                string name = $"reefer_{mode.ToText()}_{k}_{n}";
+                var options = new CompileOptions(["c"], mode, name, AlarmFilter: new AlarmFilterSpec(k, n));
+                bool isFixed = mode == NumericMode.Fixed;
+                var (undefined, sizes) = CompileFeatures(dir, name, demo, options, gcc,
+                    isFixed ? M0Flags : M4FFeatureFlags, isFixed ? poison : null);
+                if (isFixed)
+                    foreach (var symbol in undefined)
+                    {
+                        Assert.False(Forbidden.IsMatch(symbol), $"{name} needs {symbol}");
+                        Assert.True(Allowed.IsMatch(symbol), $"{name} needs {symbol}, not on the list of integer helpers");
+                    }
+                int measured = sizes[name + "_filter_reset"] + sizes[name + "_filter_update"];
+                int stated = isFixed ? FootprintModel.FilterCodeBytesM0 : FootprintModel.FilterCodeBytesM4F;
+                output.WriteLine($"{name} | {measured} / {stated}");
+                // stated: an upper bound with at most 32 bytes of margin
+                Assert.True(measured <= stated && stated <= measured + 32, $"{name}: measured {measured}, stated {stated}");
+                var header = File.ReadAllText(Path.Combine(dir, name + ".h"));
+                Assert.Contains($"_FILTER_FLASH_BYTES {stated}\n", header);
+            }
+        }
+    }
+
+    [SkippableFact]
+    public void Fixed_c_classifier_links_on_cortex_m0_integer_only_and_the_stated_costs_cover_it()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        var nm = Toolchain.Require("arm-none-eabi-nm");
+        var dir = Toolchain.TempDir("m0-classifier");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var demo = ModelLoader.Load(ReferenceModelPath());
+        output.WriteLine("build | classify code + offsets measured / stated flash (bytes)");
+        foreach (int count in new[] { 2, 3, 5 })
+        {
+            foreach (var mode in new[] { NumericMode.Fixed, NumericMode.F32 })
+            {
+                bool isFixed = mode == NumericMode.Fixed;
+                string name = $"modes_{mode.ToText()}_{count}";
+                var models = Enumerable.Range(0, count)
+                    .Select(k => TestModels.Random(ModelKind.Rbm, demo.Visible, 8, seed: 40 + k)
+                        .With(null, new LogPartition(30 + k, "exact", 0)))
+                    .ToArray();
+                var compiled = ClassifierCompiler.Build(models, models.Select((_, k) => $"m{k}.json").ToArray(), null,
+                    new CompileOptions(["c"], mode, name));
+                foreach (var f in compiled.AllFiles) File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+                var objects = new List<string>();
+                foreach (var c in Directory.GetFiles(dir, name + "*.c"))
+                {
+                    var obj = Path.ChangeExtension(c, ".o");
+                    string[] include = isFixed ? ["-include", poison] : [];
+                    Toolchain.RunOk(gcc, [.. Toolchain.Split(isFixed ? M0Flags : M4FFeatureFlags), .. include, "-I", dir,
+                        "-c", c, "-o", obj]);
+                    objects.Add(obj);
+                }
+                if (isFixed)
+                    foreach (var obj in objects)
+                        foreach (var symbol in Toolchain.RunOk(nm, ["-u", obj]).Split('\n', StringSplitOptions.RemoveEmptyEntries)
+                                     .Select(l => l.Trim().Split(' ')[^1])
+                                     .Where(s => !s.StartsWith(name, StringComparison.Ordinal)))
+                        {
+                            Assert.False(Forbidden.IsMatch(symbol), $"{name} needs {symbol}");
+                            Assert.True(Allowed.IsMatch(symbol), $"{name} needs {symbol}, not on the list of integer helpers");
+                        }
+                int measured = 0;
+                foreach (var line in Toolchain.RunOk(nm, ["-S", Path.Combine(dir, name + ".o")])
+                             .Split('\n', StringSplitOptions.RemoveEmptyEntries))
+                {
+                    var w = line.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+                    if (w.Length == 4 && (w[3] == name + "_classify" || w[3] == name + "_offsets"))
+                        measured += int.Parse(w[1], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
+                }
+                var stated = FootprintModel.Classifier(compiled.Plan);
+                output.WriteLine($"{name} | {measured} / {stated.FlashBytes}");
+                Assert.True(measured <= stated.FlashBytes && stated.FlashBytes <= measured + 64,
+                    $"{name}: measured {measured}, stated {stated.FlashBytes}");
+            }
+        }
+    }
+}
