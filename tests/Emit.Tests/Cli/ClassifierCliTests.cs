@@ -75,5 +75,9 @@ public sealed class ClassifierCliTests
         OneLineError(CliRunner.Run("compile", a, b, "--priors", "1,2,3", "--name", "m", "--out", dir), "3 priors for 2 models");
         OneLineError(CliRunner.Run("compile", a, b, "--priors", "1,0", "--name", "m", "--out", dir), "positive finite");
         OneLineError(CliRunner.Run("compile", a, "--priors", "1", "--out", dir), "--priors applies to a classifier");
+        OneLineError(CliRunner.Run("compile", a, b, "--stream", "--name", "m", "--out", dir),
+            "--stream and --explain apply to one model");
+        OneLineError(CliRunner.Run("compile", a, b, "--explain", "--name", "m", "--out", dir),
+            "--stream and --explain apply to one model");
     }
 }
