@@ -23,7 +23,8 @@ public static class FeatureFootprint
         long code = plan is FixedScorerPlan ? (wide ? 300 : 240) : (wide ? 360 : 340);
         if (!plan.HasHidden) code = wide ? 150 : 115; // no row loops
         // packed weight rows (speed layout): each weight read unpacks its lane (measured on Cortex-M0: c12 +196)
-        if (plan is FixedScorerPlan packed && Dialects.CDialect.UsesPackedRows(packed.Fixed, plan.Optimize)) code += 200;
+        if (plan is FixedScorerPlan packed && Dialects.CDialect.UsesPackedRows(packed.Fixed, plan.Optimize))
+            code += 200;
         if (plan.HasLinks)
         {
             long links = plan.LinkCount;
