@@ -106,15 +106,12 @@ public sealed class CompileCommand : ICliCommand
                     "give two or more models, or leave --priors out");
             if (models.Length > 1)
             {
-                if (parse.GetValue(_stream) || parse.GetValue(_explain))
-                    throw new EmitException("--stream and --explain apply to one model, not to a classifier",
-                        "compile each model on its own with --stream or --explain");
                 var options = new CompileOptions(
                     parse.GetValue(_target)!, mode,
                     parse.GetValue(_name) ?? Naming.ScorerNameFromFile(models[0].FullName),
                     parse.GetValue(_namespace)!, parse.GetValue(_selfTest), parse.GetValue(_templates)?.FullName,
                     mode == NumericMode.Fixed ? _fixed.Read(parse) : null, parse.GetValue(_optimize),
-                    AlarmFilter: AlarmFilterOption.Read(parse, _alarmFilter));
+                    parse.GetValue(_stream), parse.GetValue(_explain), AlarmFilterOption.Read(parse, _alarmFilter));
                 return RunClassifier(ctx, models.Select(m => m.FullName).ToArray(), priors, options,
                     parse.GetValue(_out)!, parse.GetValue(_force), parse.GetValue(_name) is not null);
             }

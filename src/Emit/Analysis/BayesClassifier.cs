@@ -23,6 +23,20 @@ public sealed class BayesClassifier
         if (models.Count < 2)
             throw new EmitException("Bayes' rule needs at least two models", "give one model per class");
         if (labels.Count != models.Count) throw new ArgumentException("one label per model", nameof(labels));
+        CheckModels(models, labels, priors);
+        var logPriors = LogPriors(models.Count, priors);
+        _scorers = models.Select(m => new ReferenceScorer(m)).ToArray();
+        _offset = models.Select((m, k) => logPriors[k] - m.LogPartition!.Value).ToArray();
+        Visible = models[0].Visible;
+    }
+
+    /// <summary>
+    /// Refuses models Bayes' rule cannot combine (shared by <c>emit classify</c> and the generated classifier): other
+    /// visible counts, a missing stored log Z, priors that are not one positive finite weight per model.
+    /// </summary>
+    public static void CheckModels(IReadOnlyList<BoltzmannModel> models, IReadOnlyList<string> labels,
+        IReadOnlyList<double>? priors)
+    {
         for (int k = 1; k < models.Count; k++)
             if (models[k].Visible != models[0].Visible)
                 throw new EmitException(
@@ -32,23 +46,26 @@ public sealed class BayesClassifier
             if (models[k].LogPartition is null)
                 throw new EmitException("the model has no log_partition, so p(v) is unknown",
                     "run emit logz MODEL --store first", labels[k]);
-        if (priors is not null)
-        {
-            if (priors.Count != models.Count)
-                throw new EmitException($"{priors.Count} priors for {models.Count} models",
-                    "give one prior per model, in the same order");
-            if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
-                throw new EmitException("every prior must be a positive finite number",
-                    "priors are relative weights, e.g. 0.9,0.1");
-        }
-        // log π_k = log w_k − log Σ_m w_m, the sum taken in log space: w = 1e308, 1e308 would overflow a plain Σ.
-        var logW = models.Select((_, k) => Math.Log(priors?[k] ?? 1.0)).ToArray();
+        if (priors is null) return;
+        if (priors.Count != models.Count)
+            throw new EmitException($"{priors.Count} priors for {models.Count} models",
+                "give one prior per model, in the same order");
+        if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
+            throw new EmitException("every prior must be a positive finite number",
+                "priors are relative weights, e.g. 0.9,0.1");
+    }
+
+    /// <summary>
+    /// log π_k = log w_k − log Σ_m w_m (equal weights when <paramref name="priors"/> is null), the sum taken in log
+    /// space: w = 1e308, 1e308 would overflow a plain Σ.
+    /// </summary>
+    public static double[] LogPriors(int count, IReadOnlyList<double>? priors)
+    {
+        var logW = Enumerable.Range(0, count).Select(k => Math.Log(priors?[k] ?? 1.0)).ToArray();
         double logMax = logW.Max(), scaled = 0;
         foreach (double lw in logW) scaled += Math.Exp(lw - logMax);
         double logTotal = logMax + Math.Log(scaled);
-        _scorers = models.Select(m => new ReferenceScorer(m)).ToArray();
-        _offset = models.Select((m, k) => logW[k] - logTotal - m.LogPartition!.Value).ToArray();
-        Visible = models[0].Visible;
+        return logW.Select(w => w - logTotal).ToArray();
     }
 
     /// <summary>Number of classes (models).</summary>

@@ -18,7 +18,7 @@ public static class ClassifierCompiler
     {
         Naming.CheckScorerName(options.Name);
         Check(models, labels, priors, options);
-        var logPriors = LogPriors(models.Count, priors);
+        var logPriors = Analysis.BayesClassifier.LogPriors(models.Count, priors);
         var scorers = options.Numeric == NumericMode.Fixed
             ? FixedScorers(models, labels, logPriors, options)
             : models.Select((m, k) => ScorerCompiler.Build(m, labels[k], Component(options, k, null))).ToArray();
@@ -45,37 +45,15 @@ public static class ClassifierCompiler
         if (options.AlarmFilter is not null)
             throw new EmitException("the alarm filter votes on one model's decisions, not on a classifier's",
                 "compile the alarm filter with a single model");
+        if (options.Stream || options.Explain)
+            throw new EmitException("streamed scoring and explanations are for one model, not a classifier",
+                "compile each model on its own with them");
+        Analysis.BayesClassifier.CheckModels(models, labels, priors);
         for (int k = 1; k < models.Count; k++)
-        {
-            if (models[k].Visible != models[0].Visible)
-                throw new EmitException(
-                    $"{labels[k]} has {models[k].Visible} visible units and {labels[0]} has {models[0].Visible}",
-                    "every model of a classifier must describe the same units", labels[k]);
             if (!models[k].Names.SequenceEqual(models[0].Names))
                 throw new EmitException($"{labels[k]} names its units differently from {labels[0]}",
                     "every model of a classifier must describe the same units, with the same names in the same order",
                     labels[k]);
-        }
-        for (int k = 0; k < models.Count; k++)
-            if (models[k].LogPartition is null)
-                throw new EmitException("the model has no stored log Z, so its scores are unknown",
-                    "store it first with emit logz MODEL --store", labels[k]);
-        if (priors is null) return;
-        if (priors.Count != models.Count)
-            throw new EmitException($"{priors.Count} priors for {models.Count} models",
-                "give one prior per model, in the same order");
-        if (priors.Any(p => !(p > 0) || !double.IsFinite(p)))
-            throw new EmitException("every prior must be a positive finite number",
-                "priors are relative weights, e.g. 0.9,0.1");
-    }
-
-    /// <summary>log π_k with π normalised to sum to 1, the sum taken in log space (as emit classify does).</summary>
-    private static double[] LogPriors(int count, IReadOnlyList<double>? priors)
-    {
-        var logW = Enumerable.Range(0, count).Select(k => Math.Log(priors?[k] ?? 1.0)).ToArray();
-        double max = logW.Max(), scaled = logW.Sum(w => Math.Exp(w - max));
-        double total = max + Math.Log(scaled);
-        return logW.Select(w => w - total).ToArray();
     }
 
     /// <summary>Fixed mode: every model with one accumulator type and one energy format E.</summary>

@@ -76,8 +76,8 @@ public sealed class ClassifierCliTests
         OneLineError(CliRunner.Run("compile", a, b, "--priors", "1,0", "--name", "m", "--out", dir), "positive finite");
         OneLineError(CliRunner.Run("compile", a, "--priors", "1", "--out", dir), "--priors applies to a classifier");
         OneLineError(CliRunner.Run("compile", a, b, "--stream", "--name", "m", "--out", dir),
-            "--stream and --explain apply to one model");
+            "streamed scoring and explanations are for one model, not a classifier");
         OneLineError(CliRunner.Run("compile", a, b, "--explain", "--name", "m", "--out", dir),
-            "--stream and --explain apply to one model");
+            "streamed scoring and explanations are for one model, not a classifier");
     }
 }
