@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using System.Runtime.CompilerServices;
 using Emit.Model;
 
 namespace Emit.Training;
@@ -51,6 +52,7 @@ internal sealed class Parameters
     /// Rewrites rows [16 b, 16 b + 16) of <see cref="WT"/> from <see cref="W"/>, in 16 × 16 tiles so both matrices
     /// are read and written a cache line at a time; blocks write disjoint rows, so they may run on different threads.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Transpose(int block)
     {
         int nv = Visible, nh = Hidden;

@@ -1,5 +1,6 @@
 using System.Numerics;
 using System.Numerics.Tensors;
+using System.Runtime.CompilerServices;
 using Emit.Model;
 
 namespace Emit.Training;
@@ -40,6 +41,7 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>a = c + Σ_{i: v_i = 1} W_i (rows of W added in unit order).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void HiddenInput(ReadOnlySpan<byte> v, Span<double> a)
     {
         _p.C.CopyTo(a);
@@ -181,19 +183,31 @@ internal sealed partial class TrainingRun
     private const int UpdateChunk = 2048;
 
     private OnUnits? _posOn, _negOn;
+    private bool _rowListsSet;
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Update(double lr, double momentum)
     {
         int n = _rowsInBatch, nNeg = _negRows, nv = _nv, nh = _nh;
         double wd = _s.WeightDecay;
         _posOn ??= new OnUnits(nv, _slots);
         _negOn ??= new OnUnits(nv, _slots);
-        _posOn.SetColumns(_data.Units, nv, n, _order, _batchStart);
-        _negOn.SetColumns(_vNeg, nv, nNeg, [], 0);
+        if (!_rowListsSet)
+        {
+            // The kinds with links sample slot by slot and leave no lists of the units on.
+            _onData ??= new OnUnits(_slots, nv);
+            _onV ??= new OnUnits(_slots, nv);
+            for (int r = 0; r < n; r++) _onData.Set(r, _data.Row(_order[_batchStart + r]));
+            for (int r = 0; r < nNeg; r++) _onV.Set(r, _vNeg.AsSpan(r * nv, nv));
+        }
+        _rowListsSet = false;
+        _posOn.SetTransposed(_onData!, n);
+        _negOn.SetTransposed(_onV!, nNeg);
         // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call and
         // each chunk's sums stay in the thread's cache.
         int chunk = Math.Max(1, UpdateChunk / nh);
-        For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3, c =>
+        For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3,
+            [MethodImpl(MethodImplOptions.AggressiveOptimization)] (c) =>
         {
             int i0 = c * chunk, i1 = Math.Min(nv, i0 + chunk), span = (i1 - i0) * nh;
             var scratch = _chunkScratch.Value!;
@@ -279,20 +293,20 @@ internal sealed partial class TrainingRun
 
     /// <summary>
     /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
-    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression
-    /// would be. pos and neg are overwritten; t is scratch.
+    /// TensorPrimitives call, and MultiplyAdd rounds the product before it adds (it is not the fused multiply-add),
+    /// so every element is rounded exactly as the scalar expression would be: θ·(-λ) + g is g - λθ bit for bit.
+    /// pos and neg are overwritten; t is scratch.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
         Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
     {
         TensorPrimitives.Divide(pos, (double)n, pos);
         TensorPrimitives.Divide(neg, (double)nNeg, neg);
-        TensorPrimitives.Subtract(pos, neg, pos);            // g
-        TensorPrimitives.Multiply(theta, decay, t);          // λθ
-        TensorPrimitives.Subtract(pos, t, t);                // g - λθ
-        TensorPrimitives.Multiply(t, lr, t);                 // ε(g - λθ)
-        TensorPrimitives.Multiply(velocity, momentum, velocity);
-        TensorPrimitives.Add(velocity, t, velocity);
+        TensorPrimitives.Subtract(pos, neg, pos);                // g
+        TensorPrimitives.MultiplyAdd(theta, -decay, pos, t);     // g - λθ
+        TensorPrimitives.Multiply(t, lr, t);                     // ε(g - λθ)
+        TensorPrimitives.MultiplyAdd(velocity, momentum, t, velocity);
         TensorPrimitives.Add(theta, velocity, theta);
     }
 }

@@ -14,6 +14,7 @@ public sealed class RowSumsTests
     [InlineData(7, 3, 5)]      // narrower than one vector register group: the TensorPrimitives tail only
     [InlineData(10, 64, 16)]   // the small benchmark's shape
     [InlineData(13, 100, 150)] // several column blocks, a partial last block, a tail after the sixteen-column groups
+    [InlineData(5, 20, 53)]    // one block of 32 + 16 + 4 + 1 columns: every register group width and the tail
     public void Products_equal_the_in_order_sum_and_MathNet(int rows, int depth, int width)
     {
         var rng = new SplitMix64((ulong)(rows * 1000 + width));
@@ -42,7 +43,7 @@ public sealed class RowSumsTests
 
         // The transposed lists: unit i's rows with x[r, i] = 1, ascending; Rows sums them without a bias.
         var columns = new OnUnits(depth, rows);
-        columns.SetColumns(x, depth, rows, [], 0);
+        columns.SetTransposed(on, rows);
         var yt = new double[depth * width];
         var mr = new double[rows * width];
         Array.Copy(m, mr, Math.Min(m.Length, mr.Length));
