@@ -76,6 +76,7 @@ internal sealed partial class TrainingRun
         int width = bias.Length, depth = m.Length / width;
         // About a third of the units are on in typical binary data: the work estimate only picks serial or parallel.
         long work = (long)rows * depth * Math.Min(width, RowSums.BlockColumns) / 3;
-        For(RowSums.Blocks(width), work, b => RowSums.Block(b, on, rows, m, bias, y));
+        For(RowSums.Blocks(width), work,
+            [MethodImpl(MethodImplOptions.AggressiveOptimization)] (b) => RowSums.Block(b, on, rows, m, bias, y));
     }
 }
