@@ -184,6 +184,7 @@ internal sealed partial class TrainingRun
 
     private OnUnits? _posOn, _negOn;
     private bool _rowListsSet;
+    private int[]? _allRows; // 0, 1, …, slots - 1
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Update(double lr, double momentum)
@@ -234,8 +235,10 @@ internal sealed partial class TrainingRun
             var t = scratch.AsSpan(2 * nh, nh);
             pos.Clear();
             neg.Clear();
-            for (int r = 0; r < n; r++) TensorPrimitives.Add(pos, _phPos.AsSpan(r * nh, nh), pos);
-            for (int r = 0; r < nNeg; r++) TensorPrimitives.Add(neg, _hNeg.AsSpan(r * nh, nh), neg);
+            // Rows 0, 1, … added in order with the row sums' register-held loop (one call, not one per row).
+            _allRows ??= Enumerable.Range(0, _slots).ToArray();
+            RowSums.Add(_allRows.AsSpan(0, n), _phPos, nh, 0, pos);
+            RowSums.Add(_allRows.AsSpan(0, nNeg), _hNeg, nh, 0, neg);
             Step(pos, n, neg, nNeg, _p.C, _velocity!.C, t, lr, momentum, 0);
         }
         if (_p.M is { } mm)
