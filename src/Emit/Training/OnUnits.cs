@@ -1,4 +1,6 @@
+using System.Numerics;
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 
 namespace Emit.Training;
 
@@ -19,13 +21,30 @@ internal sealed class OnUnits
         _count = new int[rows];
     }
 
-    /// <summary>Records which units of <paramref name="v"/> are on, as row <paramref name="r"/>.</summary>
+    /// <summary>
+    /// Records which units of <paramref name="v"/> (0/1 values) are on, as row <paramref name="r"/>. Sixty-four (or
+    /// sixteen) units at a time become a bit mask whose set bits are listed, so the work follows the units that are on.
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Set(int r, ReadOnlySpan<byte> v)
     {
         var index = _index.AsSpan(r * _width, _width);
-        int n = 0;
-        for (int i = 0; i < v.Length; i++)
+        int n = 0, i = 0;
+        if (Vector512.IsHardwareAccelerated)
+            for (; i + 64 <= v.Length; i += 64)
+            {
+                ulong mask = Vector512.GreaterThan(Vector512.Create(v.Slice(i, 64)), Vector512<byte>.Zero)
+                    .ExtractMostSignificantBits();
+                for (; mask != 0; mask &= mask - 1) index[n++] = i + BitOperations.TrailingZeroCount(mask);
+            }
+        if (Vector128.IsHardwareAccelerated)
+            for (; i + 16 <= v.Length; i += 16)
+            {
+                uint mask = Vector128.GreaterThan(Vector128.Create(v.Slice(i, 16)), Vector128<byte>.Zero)
+                    .ExtractMostSignificantBits();
+                for (; mask != 0; mask &= mask - 1) index[n++] = i + BitOperations.TrailingZeroCount(mask);
+            }
+        for (; i < v.Length; i++)
         {
             index[n] = i;
             n += v[i]; // 0 or 1: branch-free

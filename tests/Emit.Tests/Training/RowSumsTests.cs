@@ -15,6 +15,7 @@ public sealed class RowSumsTests
     [InlineData(10, 64, 16)]   // the small benchmark's shape
     [InlineData(13, 100, 150)] // several column blocks, a partial last block, a tail after the sixteen-column groups
     [InlineData(5, 20, 53)]    // one block of 32 + 16 + 4 + 1 columns: every register group width and the tail
+    [InlineData(6, 211, 9)]    // rows of 211 units: three 64-unit masks, a 16-unit mask, three single units
     public void Products_equal_the_in_order_sum_and_MathNet(int rows, int depth, int width)
     {
         var rng = new SplitMix64((ulong)(rows * 1000 + width));
@@ -26,6 +27,8 @@ public sealed class RowSumsTests
         for (int k = 0; k < x.Length; k++) x[k] = rng.Chance(0.3) ? (byte)1 : (byte)0;
         var on = new OnUnits(rows, depth);
         for (int r = 0; r < rows; r++) on.Set(r, x.AsSpan(r * depth, depth));
+        for (int r = 0; r < rows; r++) // the units on, ascending
+            Assert.Equal(Enumerable.Range(0, depth).Where(i => x[r * depth + i] == 1), on.Of(r).ToArray());
         var y = new double[rows * width];
         for (int b = 0; b < RowSums.Blocks(width); b++) RowSums.Block(b, on, rows, m, bias, y);
 
