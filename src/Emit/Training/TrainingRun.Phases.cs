@@ -1,6 +1,7 @@
 using System.Numerics;
 using System.Numerics.Tensors;
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using Emit.Model;
 
 namespace Emit.Training;
@@ -295,21 +296,50 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>
-    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
-    /// TensorPrimitives call, and MultiplyAdd rounds the product before it adds (it is not the fused multiply-add),
-    /// so every element is rounded exactly as the scalar expression would be: θ·(-λ) + g is g - λθ bit for bit.
-    /// pos and neg are overwritten; t is scratch.
+    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element, eight (or four) elements at a time in one
+    /// pass. Every operation is rounded on its own (no fused multiply-add), so each element gets the bits of the
+    /// scalar expression whatever the vector width. t is unused scratch kept for the callers' layout.
     /// </summary>
+    /// <remarks>
+    /// Own loop rather than one TensorPrimitives call per operation: in the small benchmark the library's kernels ran
+    /// unoptimised (tier 0) for the first part of every run under .NET's default tiered compilation, and making them
+    /// optimised from the start needed a runtime setting that slowed every command's start-up (docs/train.md, "Speed").
+    /// </remarks>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
         Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
     {
-        TensorPrimitives.Divide(pos, (double)n, pos);
-        TensorPrimitives.Divide(neg, (double)nNeg, neg);
-        TensorPrimitives.Subtract(pos, neg, pos);                // g
-        TensorPrimitives.MultiplyAdd(theta, -decay, pos, t);     // g - λθ
-        TensorPrimitives.Multiply(t, lr, t);                     // ε(g - λθ)
-        TensorPrimitives.MultiplyAdd(velocity, momentum, t, velocity);
-        TensorPrimitives.Add(theta, velocity, theta);
+        _ = t;
+        double dn = n, dNeg = nNeg;
+        int k = 0, len = theta.Length;
+        if (Vector512.IsHardwareAccelerated)
+            for (; k + 8 <= len; k += 8)
+            {
+                var th = Vector512.Create((ReadOnlySpan<double>)theta.Slice(k, 8));
+                var g = Vector512.Create((ReadOnlySpan<double>)pos.Slice(k, 8)) / dn
+                        - Vector512.Create((ReadOnlySpan<double>)neg.Slice(k, 8)) / dNeg;
+                var step = (g - th * decay) * lr;
+                var v = Vector512.Create((ReadOnlySpan<double>)velocity.Slice(k, 8)) * momentum + step;
+                v.CopyTo(velocity.Slice(k, 8));
+                (th + v).CopyTo(theta.Slice(k, 8));
+            }
+        if (Vector256.IsHardwareAccelerated)
+            for (; k + 4 <= len; k += 4)
+            {
+                var th = Vector256.Create((ReadOnlySpan<double>)theta.Slice(k, 4));
+                var g = Vector256.Create((ReadOnlySpan<double>)pos.Slice(k, 4)) / dn
+                        - Vector256.Create((ReadOnlySpan<double>)neg.Slice(k, 4)) / dNeg;
+                var step = (g - th * decay) * lr;
+                var v = Vector256.Create((ReadOnlySpan<double>)velocity.Slice(k, 4)) * momentum + step;
+                v.CopyTo(velocity.Slice(k, 4));
+                (th + v).CopyTo(theta.Slice(k, 4));
+            }
+        for (; k < len; k++)
+        {
+            double g = pos[k] / dn - neg[k] / dNeg;
+            double v = velocity[k] * momentum + (g - theta[k] * decay) * lr;
+            velocity[k] = v;
+            theta[k] += v;
+        }
     }
 }
