@@ -70,11 +70,11 @@ public sealed record TrainerSettings
 
     /// <summary>
     /// The least work, in additions (about), for which a loop of the trainer is split over <see cref="Threads"/>:
-    /// below it, handing the pieces to other threads and waiting for them costs more than it saves. 300 000
-    /// additions take roughly 20–40 µs on one core here; with 60 000 the small digits benchmark (64 visible × 16 hidden,
-    /// batch 10) split its per-epoch reconstruction figure over two threads and ran slower with two threads than with
-    /// one (docs/train.md, "Speed"). Only tests change it (to force every loop onto threads); the model never depends
-    /// on it.
+    /// below it, handing the pieces to other threads and waiting for them costs more than it saves. With 60 000 the
+    /// small digits benchmark (64 visible × 16 hidden, batch 10) split its per-epoch reconstruction figure
+    /// (256 × 64 × 16 = 262 144) over two threads and ran slower with two threads than with one; the large benchmark's
+    /// loops (784 × 500, batch 100) have millions and are still split (docs/train.md, "Speed"). Only tests change it
+    /// (to force every loop onto threads); the model never depends on it.
     /// </summary>
     internal long ParallelWork { get; init; } = 300_000;
 

@@ -218,8 +218,8 @@ internal sealed partial class TrainingRun
             // Σ over batch rows with v_i = 1 of p(h | v), rows in order: the products V0ᵀP and VnegᵀQ.
             RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
             RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
-            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span),
-                scratch.AsSpan(2 * span, span), lr, momentum, wd);
+            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span), lr, momentum,
+                wd);
             for (int i = i0; i < i1; i++)
             {
                 double gb = (double)_posOn.Of(i).Length / n - (double)_negOn.Of(i).Length / nNeg;
@@ -233,14 +233,13 @@ internal sealed partial class TrainingRun
             var scratch = _rowScratch.Value!;
             var pos = scratch.AsSpan(0, nh);
             var neg = scratch.AsSpan(nh, nh);
-            var t = scratch.AsSpan(2 * nh, nh);
             pos.Clear();
             neg.Clear();
             // Rows 0, 1, … added in order with the row sums' register-held loop (one call, not one per row).
             _allRows ??= Enumerable.Range(0, _slots).ToArray();
             RowSums.Add(_allRows.AsSpan(0, n), _phPos, nh, 0, pos);
             RowSums.Add(_allRows.AsSpan(0, nNeg), _hNeg, nh, 0, neg);
-            Step(pos, n, neg, nNeg, _p.C, _velocity!.C, t, lr, momentum, 0);
+            Step(pos, n, neg, nNeg, _p.C, _velocity!.C, lr, momentum, 0);
         }
         if (_p.M is { } mm)
         {
@@ -298,7 +297,7 @@ internal sealed partial class TrainingRun
     /// <summary>
     /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element, eight (or four) elements at a time in one
     /// pass. Every operation is rounded on its own (no fused multiply-add), so each element gets the bits of the
-    /// scalar expression whatever the vector width. t is unused scratch kept for the callers' layout.
+    /// scalar expression whatever the vector width.
     /// </summary>
     /// <remarks>
     /// Own loop rather than one TensorPrimitives call per operation: in the small benchmark the library's kernels ran
@@ -306,18 +305,17 @@ internal sealed partial class TrainingRun
     /// optimised from the start needed a runtime setting that slowed every command's start-up (docs/train.md, "Speed").
     /// </remarks>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
-        Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
+    private static void Step(ReadOnlySpan<double> pos, int n, ReadOnlySpan<double> neg, int nNeg, Span<double> theta,
+        Span<double> velocity, double lr, double momentum, double decay)
     {
-        _ = t;
         double dn = n, dNeg = nNeg;
         int k = 0, len = theta.Length;
         if (Vector512.IsHardwareAccelerated)
             for (; k + 8 <= len; k += 8)
             {
                 var th = Vector512.Create((ReadOnlySpan<double>)theta.Slice(k, 8));
-                var g = Vector512.Create((ReadOnlySpan<double>)pos.Slice(k, 8)) / dn
-                        - Vector512.Create((ReadOnlySpan<double>)neg.Slice(k, 8)) / dNeg;
+                var g = Vector512.Create(pos.Slice(k, 8)) / dn
+                        - Vector512.Create(neg.Slice(k, 8)) / dNeg;
                 var step = (g - th * decay) * lr;
                 var v = Vector512.Create((ReadOnlySpan<double>)velocity.Slice(k, 8)) * momentum + step;
                 v.CopyTo(velocity.Slice(k, 8));
@@ -327,8 +325,8 @@ internal sealed partial class TrainingRun
             for (; k + 4 <= len; k += 4)
             {
                 var th = Vector256.Create((ReadOnlySpan<double>)theta.Slice(k, 4));
-                var g = Vector256.Create((ReadOnlySpan<double>)pos.Slice(k, 4)) / dn
-                        - Vector256.Create((ReadOnlySpan<double>)neg.Slice(k, 4)) / dNeg;
+                var g = Vector256.Create(pos.Slice(k, 4)) / dn
+                        - Vector256.Create(neg.Slice(k, 4)) / dNeg;
                 var step = (g - th * decay) * lr;
                 var v = Vector256.Create((ReadOnlySpan<double>)velocity.Slice(k, 4)) * momentum + step;
                 v.CopyTo(velocity.Slice(k, 4));

@@ -73,13 +73,17 @@ internal sealed partial class TrainingRun : IDisposable
         _order = Enumerable.Range(0, data.Rows).ToArray();
         int scratch = Math.Max(_nv, _nh) * 4;
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
-        int chunkScratch = 3 * Math.Max(UpdateChunk, _nh);
+        int chunkScratch = 2 * Math.Max(UpdateChunk, _nh);
         _chunkScratch = new ThreadLocal<double[]>(() => new double[chunkScratch]);
         PrepareEvaluation();
     }
 
     /// <summary>Releases the per-thread scratch rows.</summary>
-    public void Dispose() => _rowScratch.Dispose();
+    public void Dispose()
+    {
+        _rowScratch.Dispose();
+        _chunkScratch.Dispose();
+    }
 
     public ImmutableArray<int> ConstantUnits { get; }
 
