@@ -57,8 +57,8 @@ internal static class RowSums
     }
 
     /// <summary>
-    /// acc += m[i, c0 …] for each i in <paramref name="on"/>, in that order. Thirty-two (or sixteen) columns at a
-    /// time are held in four (or two) vector registers while the rows are added, then stored once.
+    /// acc += m[i, c0 …] for each i in <paramref name="on"/>, in that order. Thirty-two (or sixteen, eight, four)
+    /// columns at a time are held in vector registers while the rows are added, then stored once.
     /// TensorPrimitives.Add(acc, row, acc) per row loads and stores acc on every row and costs a call per row, which
     /// dominated the small benchmark's rows of 16 (docs/train.md, "Speed"); the additions, and so the bits, are the
     /// same at every vector width.
@@ -103,8 +103,15 @@ internal static class RowSums
                 a1.CopyTo(acc.Slice(c + Lane, Lane));
                 c += 2 * Lane;
             }
+            if (c + Lane <= n)
+            {
+                var a0 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                foreach (int i in on) a0 += Vector512.Create(new ReadOnlySpan<double>(m, i * width + c0 + c, Lane));
+                a0.CopyTo(acc.Slice(c, Lane));
+                c += Lane;
+            }
         }
-        if (Vector256.IsHardwareAccelerated)
+        else if (Vector256.IsHardwareAccelerated)
         {
             const int Lane = 4; // Vector256<double>.Count
             for (; c + 4 * Lane <= n; c += 4 * Lane)
@@ -127,6 +134,13 @@ internal static class RowSums
                 a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
             }
         }
+        if (Vector256.IsHardwareAccelerated)
+            for (; c + 4 <= n; c += 4) // the last columns of a row, four at a time in one register
+            {
+                var a0 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c, 4));
+                foreach (int i in on) a0 += Vector256.Create(new ReadOnlySpan<double>(m, i * width + c0 + c, 4));
+                a0.CopyTo(acc.Slice(c, 4));
+            }
         if (c == n) return;
         var rest = acc[c..];
         foreach (int i in on) TensorPrimitives.Add(rest, m.AsSpan(i * width + c0 + c, rest.Length), rest);

@@ -11,7 +11,7 @@ namespace Emit.Tests.Training;
 public sealed class RowSumsTests
 {
     [Theory]
-    [InlineData(7, 3, 5)]      // narrower than one vector register group: the TensorPrimitives tail only
+    [InlineData(7, 3, 5)]      // one four-column register and a one-column TensorPrimitives tail
     [InlineData(10, 64, 16)]   // the small benchmark's shape
     [InlineData(13, 100, 150)] // several column blocks, a partial last block, a tail after the sixteen-column groups
     [InlineData(5, 20, 53)]    // one block of 32 + 16 + 4 + 1 columns: every register group width and the tail
