@@ -180,7 +180,7 @@ internal static class RowSums
                 a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
             }
         }
-        if (Vector256.IsHardwareAccelerated)
+        else if (Vector256.IsHardwareAccelerated)
         {
             const int Lane = 4; // Vector256<double>.Count
             for (; c + 4 * Lane <= n; c += 4 * Lane)

@@ -75,7 +75,7 @@ public sealed class SplitMix64
                     Bmi2.X64.ParallelBitDeposit(on, 0x0101010101010101UL));
             }
         }
-        if (Vector256.IsHardwareAccelerated)
+        else if (Vector256.IsHardwareAccelerated)
         {
             var step = Vector256.Create(Increment, unchecked(2 * Increment), unchecked(3 * Increment),
                 unchecked(4 * Increment));

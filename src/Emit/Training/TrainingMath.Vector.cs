@@ -51,19 +51,8 @@ public static partial class TrainingMath
                 Logistic(v0, z0).CopyTo(destination.Slice(k, Lanes));
                 Logistic(v1, z1).CopyTo(destination.Slice(k + Lanes, Lanes));
             }
-            for (; k <= x.Length - Lanes; k += Lanes)
-            {
-                var v = Vector512.Create(x.Slice(k, Lanes));
-                if (Special(v))
-                {
-                    for (int l = k; l < k + Lanes; l++) destination[l] = Sigmoid(x[l]);
-                    continue;
-                }
-                var (z, _) = ExpNonPositive(-Vector512.Abs(v), Vector512<double>.Zero);
-                Logistic(v, z).CopyTo(destination.Slice(k, Lanes));
-            }
         }
-        if (Vector256.IsHardwareAccelerated)
+        else if (Vector256.IsHardwareAccelerated)
         {
             const int Lanes = 4; // Vector256<double>.Count
             for (; k <= x.Length - Lanes; k += Lanes)

@@ -321,7 +321,7 @@ internal sealed partial class TrainingRun
                 v.CopyTo(velocity.Slice(k, 8));
                 (th + v).CopyTo(theta.Slice(k, 8));
             }
-        if (Vector256.IsHardwareAccelerated)
+        else if (Vector256.IsHardwareAccelerated)
             for (; k + 4 <= len; k += 4)
             {
                 var th = Vector256.Create((ReadOnlySpan<double>)theta.Slice(k, 4));
