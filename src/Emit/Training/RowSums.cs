@@ -57,6 +57,38 @@ internal static class RowSums
     }
 
     /// <summary>
+    /// y[i, ·] = Σ m[r, ·] over the first <paramref name="rows"/> rows r of <paramref name="byRow"/> that have unit i
+    /// on, rows in ascending order (the sums <see cref="Rows"/> makes from the transposed lists, the same additions in
+    /// the same order), and count[i] = the number of those rows. Walks the rows once, adding each to the sums of the
+    /// units it has on, so no transposed lists are needed; y (units × width) should stay in cache.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public static void Scatter(OnUnits byRow, int rows, double[] m, int width, Span<double> y, Span<int> count)
+    {
+        y.Clear();
+        count.Clear();
+        for (int r = 0; r < rows; r++)
+        {
+            var src = new ReadOnlySpan<double>(m, r * width, width);
+            foreach (int i in byRow.Of(r))
+            {
+                var dst = y.Slice(i * width, width);
+                int c = 0;
+                if (Vector512.IsHardwareAccelerated)
+                    for (; c + 8 <= width; c += 8)
+                        (Vector512.Create((ReadOnlySpan<double>)dst.Slice(c, 8)) + Vector512.Create(src.Slice(c, 8)))
+                            .CopyTo(dst.Slice(c, 8));
+                else if (Vector256.IsHardwareAccelerated)
+                    for (; c + 4 <= width; c += 4)
+                        (Vector256.Create((ReadOnlySpan<double>)dst.Slice(c, 4)) + Vector256.Create(src.Slice(c, 4)))
+                            .CopyTo(dst.Slice(c, 4));
+                for (; c < width; c++) dst[c] += src[c];
+                count[i]++;
+            }
+        }
+    }
+
+    /// <summary>
     /// acc += m[i, c0 …] for each i in <paramref name="on"/>, in that order. Thirty-two (or sixteen, eight, four)
     /// columns at a time are held in vector registers while the rows are added, then stored once.
     /// TensorPrimitives.Add(acc, row, acc) per row loads and stores acc on every row and costs a call per row, which

@@ -186,6 +186,7 @@ internal sealed partial class TrainingRun
     private OnUnits? _posOn, _negOn;
     private bool _rowListsSet;
     private int[]? _allRows; // 0, 1, …, slots - 1
+    private int[]? _posCount, _negCount; // batch rows and chains with each visible unit on (one-chunk update)
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Update(double lr, double momentum)
@@ -203,26 +204,44 @@ internal sealed partial class TrainingRun
             for (int r = 0; r < nNeg; r++) _onV.Set(r, _vNeg.AsSpan(r * nv, nv));
         }
         _rowListsSet = false;
-        _posOn.SetTransposed(_onData!, n);
-        _negOn.SetTransposed(_onV!, nNeg);
         // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call and
         // each chunk's sums stay in the thread's cache.
-        int chunk = Math.Max(1, UpdateChunk / nh);
-        For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3,
-            [MethodImpl(MethodImplOptions.AggressiveOptimization)] (c) =>
+        int chunk = Math.Max(1, UpdateChunk / nh), chunks = (nv + chunk - 1) / chunk;
+        // One chunk (all of W, at most UpdateChunk weights): each batch row's p(h | v) is added to the rows of the
+        // units it has on, rows in order, with no per-unit lists; several chunks: per-unit lists, so each chunk
+        // (thread) sums only its own units. The same additions in the same order either way.
+        bool byRow = chunks == 1;
+        if (!byRow)
+        {
+            _posOn.SetTransposed(_onData!, n);
+            _negOn.SetTransposed(_onV!, nNeg);
+        }
+        _posCount ??= new int[nv];
+        _negCount ??= new int[nv];
+        For(chunks, (long)(n + nNeg) * nh * chunk / 3, [MethodImpl(MethodImplOptions.AggressiveOptimization)] (c) =>
         {
             int i0 = c * chunk, i1 = Math.Min(nv, i0 + chunk), span = (i1 - i0) * nh;
             var scratch = _chunkScratch.Value!;
             var pos = scratch.AsSpan(0, span);
             var neg = scratch.AsSpan(span, span);
             // Σ over batch rows with v_i = 1 of p(h | v), rows in order: the products V0ᵀP and VnegᵀQ.
-            RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
-            RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
+            if (byRow)
+            {
+                RowSums.Scatter(_onData!, n, _phPos, nh, pos, _posCount);
+                RowSums.Scatter(_onV!, nNeg, _hNeg, nh, neg, _negCount);
+            }
+            else
+            {
+                RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
+                RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
+            }
             Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span), lr, momentum,
                 wd);
             for (int i = i0; i < i1; i++)
             {
-                double gb = (double)_posOn.Of(i).Length / n - (double)_negOn.Of(i).Length / nNeg;
+                int onPos = byRow ? _posCount[i] : _posOn.Of(i).Length;
+                int onNeg = byRow ? _negCount[i] : _negOn.Of(i).Length;
+                double gb = (double)onPos / n - (double)onNeg / nNeg;
                 _velocity.B[i] = momentum * _velocity.B[i] + lr * gb;
                 _p.B[i] += _velocity.B[i];
                 if (_p.L is { } l) UpdateLinks(l, i, lr, momentum);

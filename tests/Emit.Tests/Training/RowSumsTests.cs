@@ -62,5 +62,13 @@ public sealed class RowSumsTests
                 Assert.Equal(BitConverter.DoubleToInt64Bits(expected), BitConverter.DoubleToInt64Bits(yt[i * width + c]));
             }
         }
+
+        // Scatter makes the same sums from the row lists (each row added to the units it has on, rows in order).
+        var ys = new double[depth * width];
+        Array.Fill(ys, double.NaN);
+        var counts = new int[depth];
+        RowSums.Scatter(on, rows, mr, width, ys, counts);
+        Assert.Equal(yt.Select(BitConverter.DoubleToInt64Bits), ys.Select(BitConverter.DoubleToInt64Bits));
+        for (int i = 0; i < depth; i++) Assert.Equal(columns.Of(i).Length, counts[i]);
     }
 }
