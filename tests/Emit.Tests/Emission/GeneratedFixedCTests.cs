@@ -18,13 +18,42 @@ public sealed class GeneratedFixedCTests
 
     [SkippableTheory]
     [MemberData(nameof(Combos))]
-    public void Generated_c_gives_the_simulators_integers_and_stays_within_the_bound(string combo)
+    public void Generated_c_gives_the_simulators_integers_and_stays_within_the_bound(string combo) =>
+        CheckAgainstSimulator(combo, pointerPasses: false);
+
+    /// <summary>Combinations whose C stores packed rows (speed, int16/int8 weights, int32 accumulator, H >= 16).</summary>
+    public static TheoryData<string> PackedCombos()
+    {
+        var data = new TheoryData<string>();
+        foreach (var c in FixedCodegenCases.All)
+            if (Emit.Emission.Dialects.CDialect.UsesPackedRows(FixedCodegenCases.Plan(c), OptimizeFor.Speed))
+                data.Add(c.Name);
+        return data;
+    }
+
+    /// <summary>
+    /// The row additions that Thumb-2 M-profile cores compile (eight rows per pass through row pointers, lane sums
+    /// side by side), chosen here on the host with the file's _ROW_POINTERS macro: the same integers as the simulator.
+    /// </summary>
+    [SkippableTheory]
+    [MemberData(nameof(PackedCombos))]
+    public void Pointer_pass_row_additions_give_the_simulators_integers(string combo) =>
+        CheckAgainstSimulator(combo, pointerPasses: true);
+
+    private static void CheckAgainstSimulator(string combo, bool pointerPasses)
     {
         var c = FixedCodegenCases.Find(combo);
         var plan = FixedCodegenCases.Plan(c);
-        var dir = Toolchain.TempDir("cfix-" + combo);
+        var dir = Toolchain.TempDir((pointerPasses ? "cfixp-" : "cfix-") + combo);
         var name = FixedCodegenCases.Generate(c, dir);
-        var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue, integer: true);
+        var flags = "";
+        if (pointerPasses)
+        {
+            var macro = Regex.Match(File.ReadAllText(Path.Combine(dir, name + ".c")), @"#ifndef (\w+_ROW_POINTERS)\n");
+            Assert.True(macro.Success, "no _ROW_POINTERS switch in " + name + ".c");
+            flags = "-D" + macro.Groups[1].Value + "=1";
+        }
+        var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue, flags, integer: true);
         var vectors = FixedCodegenCases.Vectors(c);
         var result = CHarness.Run(exe, vectors);
         var sim = new FixedPointSimulator(plan);

@@ -138,6 +138,53 @@ public sealed class CDialect : TargetDialect
         && plan.Accumulator == AccumulatorType.Int32
         && plan.WeightType is Quantize.WeightType.Int16 or Quantize.WeightType.Int8 && plan.Model.Visible <= 32768;
 
+    /// <summary>
+    /// Rows per pass of the packed-row additions on Thumb-2 M-profile cores, where each row has a pointer advanced
+    /// word by word and a word's two lane sums stay in registers while all rows are added: 8 (three instructions per
+    /// row and word for int16, four for int8, plus a load and a store of each lane sum per pass; measured on
+    /// bench/cortex-m3, docs/benchmarks.md); 0 without packed rows. Other targets keep 4 rows per pass in vectorizable
+    /// blocks.
+    /// </summary>
+    public int RowPointerPass => PackedRows ? 8 : 0;
+
+    /// <summary>The waiting rows of a full pointer pass: waiting[0] .. waiting[7].</summary>
+    public IReadOnlyList<string> PointerPassBlock =>
+        Enumerable.Range(0, RowPointerPass).Select(k => $"waiting[{k}]").ToArray();
+
+    /// <summary>The initialiser of the pointer passes' waiting rows: NULL, one per row of a pass.</summary>
+    public string PointerPassNulls => string.Join(", ", Enumerable.Repeat("NULL", RowPointerPass));
+
+    /// <summary>
+    /// The smaller passes over the last rows (fewer than <see cref="RowPointerPass"/>), halving: the waiting rows of
+    /// each from waiting[count] after count is lowered by its size; a single last row has a pass of its own.
+    /// </summary>
+    public IReadOnlyList<IReadOnlyList<string>> PointerPassRests
+    {
+        get
+        {
+            var rests = new List<IReadOnlyList<string>>();
+            for (int n = RowPointerPass / 2; n >= 2; n /= 2)
+                rests.Add(Enumerable.Range(0, n).Select(k => k == 0 ? "waiting[count]" : $"waiting[count + {k}u]")
+                    .ToArray());
+            return rests;
+        }
+    }
+
+    /// <summary>
+    /// Whether the 16-bit lanes of int8 packed rows can fill before the last row (more than 256 visible units), so the
+    /// row loop must empty them every 256 rows.
+    /// </summary>
+    public bool LanesCanFill => PackedLanes == 4 && Plan.Visible > 256;
+
+    /// <summary>
+    /// Whether the lane sums of int16 packed rows go straight into the softplus loop (unit j's pre-activation is its bias
+    /// plus its lane's sum minus the rows' offset) instead of through an accumulator array: packed int16 rows of an RBM.
+    /// </summary>
+    public bool FusedSoftplus => PackedRows && PackedLanes == 2 && !Plan.IsGeneral;
+
+    /// <summary>Words of a packed row whose every lane is a unit: ⌊H / lanes⌋.</summary>
+    public int FullWords => Plan.Hidden / PackedLanes;
+
     /// <summary>Weights to a packed word: 2 (int16) or 4 (int8).</summary>
     public int PackedLanes => ((FixedScorerPlan)Plan).WeightType == Quantize.WeightType.Int8 ? 4 : 2;
 
