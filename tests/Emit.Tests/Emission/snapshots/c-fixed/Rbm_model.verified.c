@@ -581,11 +581,10 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
         for (j = 0u; j < 9u; ++j) {
             const uint32_t lane_high = lanes[RBM_SECOND(j)];
             const uint32_t lane_low = lanes[RBM_FIRST(j)] - (lane_high << 16u);
-            const rbm_acc_t first = rbm_hidden_bias[j] + ((rbm_acc_t)lane_low - offset);
-            const rbm_acc_t second =
-                rbm_hidden_bias[j + RBM_ROW_WORDS] + ((rbm_acc_t)lane_high - offset);
-            energy += rbm_softplus(first, (int)rbm_fraction_bits[j]);
-            energy += rbm_softplus(second, (int)rbm_fraction_bits[j + RBM_ROW_WORDS]);
+            rbm_acc_t a = rbm_hidden_bias[j] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, (int)rbm_fraction_bits[j]);
+            a = rbm_hidden_bias[j + RBM_ROW_WORDS] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, (int)rbm_fraction_bits[j + RBM_ROW_WORDS]);
         }
     }
     return -energy;
