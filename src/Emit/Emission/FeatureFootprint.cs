@@ -71,8 +71,16 @@ public static class FeatureFootprint
         long now = plan is FixedScorerPlan f ? (long)plan.Hidden * f.AccumulatorBits / 8 : 0;
         long frame = streamBytes + now + (wide ? 112 : 80);
         long callees = wide ? 96 : 64;
-        return (int)(frame + callees + CortexM0Footprint.LibraryStackAllowance);
+        return (int)(frame + callees + ExplainLibraryAllowance(plan));
     }
+
+    /// <summary>
+    /// The library allowance inside <see cref="ExplainStack"/>: the reference core's, as for the scorer (Cortex-M0
+    /// for fixed point, Cortex-M4F for float, whose library calls include libm's in f64).
+    /// </summary>
+    public static int ExplainLibraryAllowance(ScorerPlan plan) => plan is FixedScorerPlan
+        ? CortexM0Footprint.LibraryStackAllowance
+        : CortexM4FFootprint.LibraryStackAllowance;
 
     private static bool Wide(ScorerPlan plan) =>
         plan is FixedScorerPlan f ? f.Accumulator == AccumulatorType.Int64 : plan.Mode == NumericMode.F64;
