@@ -86,6 +86,27 @@ public sealed class VerifyGeneratedClassifierTests
         Assert.Contains("a classifier over 3 models", e.Message);
     }
 
+    [Theory]
+    [InlineData("\"scorer\": \"modes_2\"", "\"scorer\": \"modes_9\"", "do not go together")]
+    [InlineData("\"log_z\"", "\"log_zz\"", "field classifier.models[0].log_z is missing")]
+    [InlineData("\"score_bound\": ", "\"score_bound\": \"", "not valid JSON")]
+    [InlineData("\"energy_scale\"", "\"energy_scalex\"", "field classifier.energy_scale is missing")]
+    [InlineData("\"format\": \"emit.manifest\"", "\"format\": \"emit.project\"", "not an emit manifest")]
+    public void A_damaged_classifier_manifest_is_refused_naming_the_field(string from, string to, string message)
+    {
+        var compiled = ClassifierCompiler.Build([Model(1), Model(2), Model(3)], ["a.json", "b.json", "c.json"],
+            [1, 2, 3], new CompileOptions(["c"], Emit.Quantize.NumericMode.F32, "modes"));
+        var text = compiled.ManifestFile.Text;
+        var damaged = new Regex(Regex.Escape(from)).Replace(text, to, 1);
+        Assert.NotEqual(text, damaged);
+        var e = Assert.Throws<EmitException>(() => ClassifierManifestJson.Read(damaged, "modes.emit.json"));
+        Assert.Contains(message, e.Message);
+        Assert.Equal("modes.emit.json", e.File);
+        // what was written reads back as written
+        Assert.Equal(compiled.ManifestFile.Text,
+            ClassifierManifestJson.Write(ClassifierManifestJson.Read(compiled.ManifestFile.Text, "modes.emit.json")));
+    }
+
     [SkippableTheory]
     [InlineData("f32")]
     [InlineData("fixed")]
