@@ -53,15 +53,24 @@ public static class ClassifierManifestJson
     /// Reads the classifier manifest at <paramref name="path"/>; throws <see cref="EmitException"/> naming the file
     /// when it is not one.
     /// </summary>
-    public static ClassifierManifest ReadFile(string path)
+    public static ClassifierManifest ReadFile(string path) => Read(ReadText(path), path);
+
+    /// <summary>
+    /// Throws <see cref="EmitException"/> (with line and column) when the file at <paramref name="path"/> cannot be
+    /// read or is not JSON, so that a damaged manifest is reported as such, not as a manifest of the other layout.
+    /// </summary>
+    public static void CheckJson(string path)
     {
-        string text;
-        try { text = File.ReadAllText(path); }
+        using var doc = SourceManifestJson.Parse(ReadText(path), path);
+    }
+
+    private static string ReadText(string path)
+    {
+        try { return File.ReadAllText(path); }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
             throw new EmitException($"cannot read the manifest: {e.Message}", null, path);
         }
-        return Read(text, path);
     }
 
     /// <summary>True when the file at <paramref name="path"/> is JSON with a <c>classifier</c> object at its top.

@@ -57,6 +57,7 @@ public sealed class ClassifierSources
                 present.Count == 0
                     ? "run emit compile MODEL1 MODEL2 ... --name NAME --out DIR first"
                     : $"the classifiers here: {string.Join(", ", present)}", directory);
+        ClassifierManifestJson.CheckJson(path);
         if (!ClassifierManifestJson.IsClassifier(path))
             throw new EmitException($"{name} is a scorer, not a classifier",
                 present.Count == 0

@@ -192,4 +192,16 @@ public sealed class VerifyGeneratedClassifierTests
             StringComparison.Ordinal));
         OneLineError(CliRunner.Run(Verify(models)), "describes classifier \"other\", not \"modes\"");
     }
+
+    [Fact]
+    public void A_classifier_manifest_damaged_into_invalid_json_is_reported_as_such()
+    {
+        var (_, models, vectors, gen) = Compiled("classifier-verify-damaged", "--target", "c");
+        var path = Path.Combine(gen, "modes.emit.json");
+        File.AppendAllText(path, "\u0001\u0002");
+        var r = CliRunner.Run(["verify", .. models, "--input", vectors, "--generated", gen, "--target", "c",
+            "--name", "modes"]);
+        OneLineError(r, "not valid JSON");
+        Assert.Contains("modes.emit.json", r.Error);
+    }
 }
