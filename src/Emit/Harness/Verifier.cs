@@ -222,6 +222,9 @@ public static class Verifier
             ToolVersion = ScorerPlan.ToolVersion,
             Model = request.ModelLabel,
             ModelSha256 = model.Sha256,
+            ClassifierModels = classifier is null
+                ? []
+                : [(request.ModelLabel, model.Sha256), .. request.MoreModels.Select(m => (m.Label, m.Model.Sha256))],
             Input = reader.Source,
             Vectors = index,
             Threshold = model.Threshold,

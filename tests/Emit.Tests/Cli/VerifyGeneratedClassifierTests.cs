@@ -119,8 +119,14 @@ public sealed class VerifyGeneratedClassifierTests
         var r = CliRunner.Run(["verify", .. models, "--input", vectors, "--generated", gen, "--target",
             "c,csharp,cortex-m3", "--report", json]);
         Assert.True(r.ExitCode == 0, r.Out + r.Error);
-        foreach (var t in JsonDocument.Parse(File.ReadAllText(json)).RootElement.GetProperty("targets")
-                     .EnumerateArray())
+        // the report names every model in class order, and says what the table's rows are
+        var report = VerifyCommandTests.ReadReport(json);
+        var named = report.GetProperty("classifier_models").EnumerateArray()
+            .Select(m => (m.GetProperty("model").GetString()!, m.GetProperty("model_sha256").GetString()!)).ToArray();
+        Assert.Equal(models.Select(m => (Path.GetFileName(m), ModelLoader.Load(m).Sha256)).ToArray(), named);
+        Assert.StartsWith("emit verify: classifier over 3 models idle.json (sha256 ", r.Out);
+        Assert.Contains("the table is idle.json's scorer", r.Out);
+        foreach (var t in report.GetProperty("targets").EnumerateArray())
         {
             Assert.True(t.GetProperty("sources_match").GetBoolean());
             var f = Assert.Single(t.GetProperty("features").EnumerateArray());
