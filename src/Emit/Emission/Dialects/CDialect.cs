@@ -288,23 +288,8 @@ public sealed class CDialect : TargetDialect
     /// <summary>The type of the adjacency list starts of streamed scoring (2 entries per link).</summary>
     public string AdjacentStartType => 2L * Plan.LinkCount <= 0xFFFF ? "uint16_t" : "uint32_t";
 
-    /// <summary>
-    /// Bytes of <c>NAME_stream_t</c> under the usual C layout (members aligned to their size, as on the reference
-    /// cores and x86-64): HIDDEN pre-activations and the linear sum in the energy type, the lateral sum (fixed mode
-    /// with links), the flip count (float modes), the packed input, then padding to the energy type's alignment.
-    /// </summary>
-    public long StreamBytes
-    {
-        get
-        {
-            long e = Plan is FixedScorerPlan f ? f.AccumulatorBits / 8 : Plan.Mode == NumericMode.F32 ? 4 : 8;
-            long bytes = (Plan.Hidden + 1) * e;
-            if (Plan is FixedScorerPlan && Plan.HasLinks) bytes += e;
-            if (Plan is not FixedScorerPlan) bytes += 4;
-            bytes += Plan.PackedBytes;
-            return (bytes + e - 1) / e * e;
-        }
-    }
+    /// <summary>Bytes of <c>NAME_stream_t</c> (<see cref="FeatureFootprint.StreamRam"/>).</summary>
+    public long StreamBytes => FeatureFootprint.StreamRam(Plan);
 
     /// <summary>Predicted extra flash of the stream code on the reference core.</summary>
     public long StreamFlashBytes => FeatureFootprint.StreamFlash(Plan);
