@@ -123,10 +123,12 @@ public sealed class CDialect : TargetDialect
     /// int32 accumulator and at least <see cref="SpeedVectorBlock"/> hidden units. int16: word k of a row holds unit
     /// k's weight + 2^15 in bits 0..15 and unit k + P's in bits 16..31 (P = ⌈H/2⌉ words a row); one accumulator sums
     /// whole words, another the words shifted right by 16, and the low lane's sum is their difference. int8: word k
-    /// holds the weights + 2^7 of units k, k + Q, k + 2Q, k + 3Q (Q = ⌈H/4⌉ words a row, padded as <see cref="PackedWords"/> says) in its four bytes; the even and odd
-    /// bytes are added into 16-bit lanes, which are emptied into the accumulators every 256 rows, before a lane can
-    /// overflow. Missing units (H not a multiple of 2 or 4) have weight 0. The integers are the same as the plain
-    /// loop's: every partial sum is the pre-activation of some input, inside the proved range. With at most 32768
+    /// holds the weights + 2^7 of units k, k + Q, k + 2Q, k + 3Q (Q = ⌈H/4⌉ words a row, padded as
+    /// <see cref="PackedWords"/> says) in its four bytes; the even bytes are added into two 16-bit lanes, the words
+    /// shifted right by 8 (unmasked: B1 + 2^8·B2 + 2^16·B3, from which B2 is taken off when the lanes are emptied)
+    /// into a second sum, and both are emptied into the accumulators every 256 rows, before a lane can overflow.
+    /// Missing units (H not a multiple of 2 or 4, and padding words) have weight 0. The integers are the same as the
+    /// plain loop's: every partial sum is the pre-activation of some input, inside the proved range. With at most 32768
     /// visible units an int16 lane's sum stays below 2^31 (measured on bench/generated-c and bench/cortex-m3,
     /// docs/benchmarks.md).
     /// </summary>
@@ -177,8 +179,9 @@ public sealed class CDialect : TargetDialect
     public bool LanesCanFill => PackedLanes == 4 && Plan.Visible > 256;
 
     /// <summary>
-    /// Whether the lane sums of int16 packed rows go straight into the softplus loop (unit j's pre-activation is its bias
-    /// plus its lane's sum minus the rows' offset) instead of through an accumulator array: packed int16 rows of an RBM.
+    /// Whether the lane sums of int16 packed rows go straight into the softplus loop (unit j's pre-activation is its
+    /// bias plus its lane's sum minus the rows' offset) instead of through an accumulator array: packed int16 rows of
+    /// an RBM.
     /// </summary>
     public bool FusedSoftplus => PackedRows && PackedLanes == 2 && !Plan.IsGeneral;
 
