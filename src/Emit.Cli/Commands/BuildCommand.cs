@@ -10,7 +10,8 @@ public sealed class BuildCommand : ICliCommand
 {
     private readonly Argument<FileInfo> _project = new Argument<FileInfo>("PROJECT")
     {
-        Description = "Project file (format emit.project): the models and compile options of every scorer to generate",
+        Description = "Project file (format emit.project): the models and compile options of every scorer and " +
+            "classifier to generate",
     }.MustExist();
 
     private readonly Option<bool> _force = CliOptions.Force();
@@ -18,7 +19,8 @@ public sealed class BuildCommand : ICliCommand
     public Command Build(CliContext ctx)
     {
         var cmd = new Command("build",
-            "Generate every scorer listed in a project file; nothing is written unless all of them compile")
+            "Generate every scorer and classifier listed in a project file; nothing is written unless all of " +
+            "them compile")
         {
             _project, _force,
         };

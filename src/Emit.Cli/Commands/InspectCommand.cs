@@ -8,7 +8,8 @@ using Emit.Quantize;
 namespace Emit.Cli.Commands;
 
 /// <summary>
-/// <c>emit inspect MODEL [--json]</c>: kind, sizes, parameter statistics, hidden input ranges, table sizes, SHA-256.
+/// <c>emit inspect MODEL [--json]</c>: kind, sizes, parameter statistics, hidden input ranges, table sizes, SHA-256;
+/// with <c>--numeric</c> the predicted footprint and what each firmware feature adds.
 /// </summary>
 public sealed class InspectCommand : ICliCommand
 {
@@ -19,7 +20,8 @@ public sealed class InspectCommand : ICliCommand
     private readonly Option<Chosen<NumericMode>> _numeric = CliOptions.Choice(
         "--numeric",
         "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
-                     "the predicted flash, stack and run-time dependencies of the generated C", NumericChoices.All);
+                     "the predicted flash, stack and run-time dependencies of the generated C and the extra flash " +
+                     "and RAM of each firmware feature (alarm filter, stream, explain)", NumericChoices.All);
 
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
     {
@@ -45,6 +47,7 @@ public sealed class InspectCommand : ICliCommand
             var mode = parse.GetValue(_numeric)?.Value;
             FixedPointPlan? plan = null;
             ScorerFootprint? footprint = null;
+            Features? features = null;
             try
             {
                 var fixedOptions = mode == NumericMode.Fixed ? _fixed.Read(parse) : null;
@@ -53,17 +56,21 @@ public sealed class InspectCommand : ICliCommand
                 {
                     var options = new CompileOptions(["c"], m, "model", Fixed: fixedOptions,
                         Optimize: parse.GetValue(_optimize));
-                    ScorerPlan scorer = plan is null ? FloatScorerPlan.Build(model, options, Path.GetFileName(path))
-                        : FixedScorerPlan.Build(model, options, Path.GetFileName(path), plan);
-                    footprint = FootprintModel.Predict(scorer);
+                    ScorerPlan Plan(CompileOptions o) =>
+                        plan is null ? FloatScorerPlan.Build(model, o, Path.GetFileName(path))
+                            : FixedScorerPlan.Build(model, o, Path.GetFileName(path), plan);
+                    footprint = FootprintModel.Predict(Plan(options));
+                    // the figures of the stream and explanation code, from a plan that emits them
+                    var explained = model.Kind == ModelKind.General ? null : Plan(options with { Explain = true });
+                    features = new Features(FootprintModel.FilterCost(m), explained);
                 }
             }
             catch (EmitException e) when (e.File is null && e.Line is null)
             {
                 throw e.InFile(path);
             }
-            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan, footprint);
-            else WriteText(ctx.Out, path, model, stats, plan, footprint);
+            if (parse.GetValue(_json)) WriteJson(ctx.Out, path, model, stats, plan, footprint, features);
+            else WriteText(ctx.Out, path, model, stats, plan, footprint, features);
             return CliApp.Ok;
         });
         return cmd;
@@ -71,8 +78,21 @@ public sealed class InspectCommand : ICliCommand
 
     private static string N(double x) => x.ToString("G6", CultureInfo.InvariantCulture);
 
+    /// <summary>What the alarm filter costs, and a plan emitting stream and explanation code (null: kind general).
+    /// The figures are read from <see cref="FeatureFootprint"/> and <see cref="FootprintModel"/>, as the header's.
+    /// </summary>
+    private sealed record Features(FeatureCost Filter, ScorerPlan? Explained)
+    {
+        public const string FilterAssumption = "any K/N with N <= 32: the window is one 32-bit word";
+        public const string NoStream = "not for kind general (a flip changes every term of the hidden sum)";
+        public long StreamFlash => Explained is { } p ? FeatureFootprint.StreamFlash(p) : 0;
+        public long StreamRam => Explained is { } p ? FeatureFootprint.StreamRam(p) : 0;
+        public long ExplainFlash => Explained is { } p ? FeatureFootprint.ExplainFlash(p) : 0;
+        public int ExplainStack => Explained is { } p ? FeatureFootprint.ExplainStack(p, StreamRam) : 0;
+    }
+
     private static void WriteText(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan,
-        ScorerFootprint? footprint)
+        ScorerFootprint? footprint, Features? features)
     {
         o.WriteLine($"model          {path}");
         o.WriteLine($"sha256         {m.Sha256}");
@@ -120,6 +140,24 @@ public sealed class InspectCommand : ICliCommand
                 ? "no libm function"
                 : string.Join(", ", fp.LibmFunctions) + " (libm: link with -lm)";
             o.WriteLine($"  run time     {libm}; a compiler may call memcpy and memset");
+            if (features is { } x)
+            {
+                o.WriteLine("extra cost of each firmware feature (compile options), on the same core:");
+                o.WriteLine($"  alarm filter flash +{x.Filter.FlashBytes} bytes, RAM {x.Filter.RamBytes} bytes per " +
+                            $"filter ({Features.FilterAssumption})");
+                if (x.Explained is null)
+                {
+                    o.WriteLine($"  stream       {Features.NoStream}");
+                    o.WriteLine($"  explain      {Features.NoStream}");
+                }
+                else
+                {
+                    o.WriteLine($"  stream       flash +{x.StreamFlash} bytes, RAM {x.StreamRam} bytes per stream " +
+                                "state (NAME_stream_t)");
+                    o.WriteLine($"  explain      flash +{x.ExplainFlash} bytes beyond the stream code, stack " +
+                                $"{x.ExplainStack} bytes worst case (implies the stream code)");
+                }
+            }
         }
         if (plan is null) return;
         o.WriteLine();
@@ -141,7 +179,7 @@ public sealed class InspectCommand : ICliCommand
     }
 
     private static void WriteJson(TextWriter o, string path, BoltzmannModel m, ModelStatistics s, FixedPointPlan? plan,
-        ScorerFootprint? footprint) => JsonOut.Write(o, w =>
+        ScorerFootprint? footprint, Features? features) => JsonOut.Write(o, w =>
     {
         w.WriteStartObject();
         w.WriteString("model", path);
@@ -257,6 +295,32 @@ public sealed class InspectCommand : ICliCommand
             w.WriteStartArray("memory_functions");
             foreach (var f in ScorerFootprint.MemoryFunctions) w.WriteStringValue(f);
             w.WriteEndArray();
+            if (features is { } x)
+            {
+                w.WriteStartObject("features");
+                w.WriteStartObject("alarm_filter");
+                w.WriteNumber("flash_bytes", x.Filter.FlashBytes);
+                w.WriteNumber("ram_bytes", x.Filter.RamBytes);
+                w.WriteString("assumption", Features.FilterAssumption);
+                w.WriteEndObject();
+                if (x.Explained is null)
+                {
+                    w.WriteNull("stream");
+                    w.WriteNull("explain");
+                }
+                else
+                {
+                    w.WriteStartObject("stream");
+                    w.WriteNumber("flash_bytes", x.StreamFlash);
+                    w.WriteNumber("ram_bytes", x.StreamRam);
+                    w.WriteEndObject();
+                    w.WriteStartObject("explain");
+                    w.WriteNumber("flash_bytes", x.ExplainFlash);
+                    w.WriteNumber("stack_bytes", x.ExplainStack);
+                    w.WriteEndObject();
+                }
+                w.WriteEndObject();
+            }
             w.WriteEndObject();
         }
         w.WriteEndObject();

@@ -18,7 +18,7 @@ public sealed class VerifyCommand : ICliCommand
     private readonly Argument<FileInfo[]> _model = new Argument<FileInfo[]>("MODEL")
     {
         Description = "Model file (.json or .npz); several models: generate and check the classifier over them, " +
-            "as compile does",
+            "as compile does (with --generated: the classifier compiled from them, in the same order)",
         Arity = new ArgumentArity(1, 64),
     }.MustExist();
     private readonly Option<string?> _priors = new("--priors")
@@ -47,7 +47,8 @@ public sealed class VerifyCommand : ICliCommand
     }.MustExist();
     private readonly Option<string?> _name = new("--name")
     {
-        Description = "Scorer name (default: the one scorer in --generated, else from the model file name)",
+        Description = "Scorer name, or with several models the classifier's (default: the one scorer or classifier " +
+            "in --generated, else from the model file name)",
     };
     private readonly Option<bool> _allowModelChange = new("--allow-model-change")
     {

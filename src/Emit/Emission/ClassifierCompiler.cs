@@ -24,8 +24,10 @@ public static class ClassifierCompiler
             : models.Select((m, k) => ScorerCompiler.Build(m, labels[k], Component(options, k, null))).ToArray();
         var plan = new ClassifierPlan(options, scorers.Select(s => s.Plan).ToArray(), logPriors);
         var templates = new TemplateRenderer(options.TemplatesDirectory);
-        var files = options.Targets.Distinct().SelectMany(t => ClassifierEmitter.Emit(t, plan, templates)).ToArray();
-        return new CompiledClassifier(plan, scorers, files);
+        var files = options.Targets.Distinct()
+            .SelectMany(t => ClassifierEmitter.Emit(t, plan, templates).Select(f => (t, f))).ToArray();
+        return new CompiledClassifier(plan, scorers, priors, files,
+            ScorerCompiler.TemplatesRead(files.Select(f => f.f)));
     }
 
     /// <summary>The options of model k's scorer: the classifier's, named NAME_k, with the fixed options given.

@@ -63,9 +63,14 @@ public static class FootprintModel
     }
 
     /// <summary>The alarm filter's extra cost on the mode's reference core, or null without a filter.</summary>
-    public static FeatureCost? Filter(ScorerPlan plan) => plan.HasFilter
-        ? new FeatureCost(plan.Mode == NumericMode.Fixed ? FilterCodeBytesM0 : FilterCodeBytesM4F, FilterRamBytes)
-        : null;
+    public static FeatureCost? Filter(ScorerPlan plan) => plan.HasFilter ? FilterCost(plan.Mode) : null;
+
+    /// <summary>
+    /// The alarm filter's extra cost in <paramref name="mode"/> on the mode's reference core: the same for every K/N
+    /// with N ≤ 32 (the window is one 32-bit word), and for every model (the filter sees decisions only).
+    /// </summary>
+    public static FeatureCost FilterCost(NumericMode mode) =>
+        new(mode == NumericMode.Fixed ? FilterCodeBytesM0 : FilterCodeBytesM4F, FilterRamBytes);
 
     /// <summary>
     /// The libm functions the float C calls: exp and log (float forms in f32) when there are hidden units, except in

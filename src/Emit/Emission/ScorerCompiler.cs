@@ -45,7 +45,7 @@ public static class ScorerCompiler
     /// <summary>
     /// Every template behind the files, once each, in the order first read, with the SHA-256 of its text as read.
     /// </summary>
-    private static IReadOnlyList<TemplateUse> TemplatesRead(IEnumerable<GeneratedFile> files)
+    internal static IReadOnlyList<TemplateUse> TemplatesRead(IEnumerable<GeneratedFile> files)
     {
         var used = new List<TemplateUse>();
         foreach (var t in files.SelectMany(f => f.Templates))

@@ -17,6 +17,18 @@ public static class ReportJson
         w.WriteBoolean("passed", report.Passed);
         w.WriteString("model", report.Model);
         w.WriteString("model_sha256", report.ModelSha256);
+        if (report.ClassifierModels.Count > 0)
+        {
+            w.WriteStartArray("classifier_models");
+            foreach (var (file, sha) in report.ClassifierModels)
+            {
+                w.WriteStartObject();
+                w.WriteString("model", file);
+                w.WriteString("model_sha256", sha);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+        }
         w.WriteString("input", report.Input);
         w.WriteNumber("vectors", report.Vectors);
         Number(w, "threshold", report.Threshold);

@@ -9,9 +9,16 @@ public static class ReportText
     public static void Write(VerifyReport report, TextWriter o)
     {
         var inv = CultureInfo.InvariantCulture;
-        o.WriteLine(
-            $"emit verify: {report.Model} (sha256 {report.ModelSha256[..16]}...), {report.Vectors} vectors from " +
-            $"{report.Input}");
+        if (report.ClassifierModels.Count == 0)
+            o.WriteLine(
+                $"emit verify: {report.Model} (sha256 {report.ModelSha256[..16]}...), {report.Vectors} vectors from " +
+                $"{report.Input}");
+        else
+            o.WriteLine(
+                $"emit verify: classifier over {report.ClassifierModels.Count} models " +
+                string.Join(", ", report.ClassifierModels.Select(m => $"{m.File} (sha256 {m.Sha256[..16]}...)")) +
+                $", {report.Vectors} vectors from {report.Input}; the table is {report.Model}'s scorer, the " +
+                "classify lines the classifier");
         foreach (var w in report.Warnings) o.WriteLine("warning: " + w);
         string[] head = ["target", "numeric", "weights", "vectors", "max |err|", "mean |err|", "bound", "bit-exact",
             "decisions", "unexplained", "s/vector", "verdict"];

@@ -101,6 +101,16 @@ public sealed class ScorerSources
                         $"run emit compile --target {language} --out {directory}, or pass {Setting.Name.Ref()}",
                         directory);
             }
+            if (candidates.Count > 1 && !candidates.Contains(defaultName)
+                && ClassifierSources.Classifiers(directory) is [var classifier, ..])
+            {
+                int models = ClassifierManifestJson.ReadFile(
+                    Path.Combine(directory, SourceManifest.FileNameFor(classifier))).Models.Count;
+                throw new EmitException(
+                    $"{classifier} is a classifier over {models} models, with a scorer for each",
+                    $"give all {models} models to check the classifier, or one with {Setting.Name.Ref()} " +
+                    $"{classifier}_k to check one scorer", directory);
+            }
             name = candidates.Count == 1 ? candidates[0]
                 : candidates.Contains(defaultName) ? defaultName
                 : throw new EmitException($"several generated scorers here ({string.Join(", ", candidates)})",

@@ -71,33 +71,22 @@ public static class SourceCheck
         }
         var options = m.ToCompileOptions([sources.Language], m.CustomTemplates ? templatesDirectory : null);
         var compiled = ScorerCompiler.Build(model, m.ModelFile, options);
-        var notes = TemplateNotes(m, compiled.Templates);
+        var notes = TemplateNotes(m.Templates, compiled.Templates);
         var expected = compiled.Files.ToDictionary(f => f.FileName, f => f.Text, StringComparer.Ordinal);
         var recorded = m.FilesOf(sources.Language);
         var failures = new List<string>();
         var edits = new List<SourceEdit>();
         foreach (var entry in recorded)
         {
-            var path = Path.Combine(sources.Directory, entry.File);
-            string found;
-            // decoded without dropping a byte-order mark, so every byte counts
-            try { found = new UTF8Encoding(false).GetString(File.ReadAllBytes(path)); }
-            catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-            {
-                throw new EmitException($"cannot read: {e.Message}", null, path);
-            }
             if (!expected.TryGetValue(entry.File, out var want))
             {
                 failures.Add($"{entry.File}: emit {ScorerPlan.ToolVersion} no longer generates this file with the " +
                              "recorded options; regenerate the sources");
                 continue;
             }
-            if (want == found) continue;
-            bool asWritten = HashOf(path) == entry.Sha256;
-            var (line, wantLine, foundLine) = FirstDifference(want, found);
-            edits.Add(new SourceEdit(entry.File, line, wantLine, foundLine, asWritten));
-            bool onlyLineEnds = found.Replace("\r\n", "\n", StringComparison.Ordinal) == want;
-            failures.Add(Describe(entry.File, (line, wantLine, foundLine), asWritten, onlyLineEnds, m, notes));
+            if (Compare(sources.Directory, entry.File, want, entry.Sha256, m.ModelFile, m.ToolVersion, notes, edits)
+                is { } failure)
+                failures.Add(failure);
         }
         foreach (var name in expected.Keys.Where(n => recorded.All(e => e.File != n)))
             failures.Add($"{name}: emit {ScorerPlan.ToolVersion} generates this file, but the manifest does not " +
@@ -105,9 +94,36 @@ public static class SourceCheck
         return Result(modelChanged: false, compare: true, failures, edits, []);
     }
 
+    /// <summary>
+    /// Compares the file <paramref name="file"/> in <paramref name="directory"/> with the text emit generates for it
+    /// (<paramref name="want"/>); returns null when they are equal, else the failure sentence, and notes the edit.
+    /// <paramref name="recordedSha256"/> is the file's hash as its manifest records it (null: none recorded), telling
+    /// a hand edit from a change of emit's output; <paramref name="modelFile"/> and <paramref name="toolVersion"/>
+    /// (the emit that wrote the sources) name what the sources were generated from.
+    /// </summary>
+    internal static string? Compare(string directory, string file, string want, string? recordedSha256,
+        string modelFile, string toolVersion, IReadOnlyList<string> templateNotes, List<SourceEdit> edits)
+    {
+        var path = Path.Combine(directory, file);
+        string found;
+        // decoded without dropping a byte-order mark, so every byte counts
+        try { found = new UTF8Encoding(false).GetString(File.ReadAllBytes(path)); }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new EmitException($"cannot read: {e.Message}", null, path);
+        }
+        if (want == found) return null;
+        bool asWritten = recordedSha256 is not null && HashOf(path) == recordedSha256;
+        var (line, wantLine, foundLine) = FirstDifference(want, found);
+        edits.Add(new SourceEdit(file, line, wantLine, foundLine, asWritten));
+        bool onlyLineEnds = found.Replace("\r\n", "\n", StringComparison.Ordinal) == want;
+        return Describe(file, (line, wantLine, foundLine), asWritten, onlyLineEnds, modelFile, toolVersion,
+            templateNotes);
+    }
+
     /// <summary>One sentence for a file that differs.</summary>
     private static string Describe(string file, (int Line, string? Want, string? Found) at, bool asWritten,
-        bool onlyLineEnds, SourceManifest m, IReadOnlyList<string> templateNotes)
+        bool onlyLineEnds, string modelFile, string toolVersion, IReadOnlyList<string> templateNotes)
     {
         var (line, wantLine, foundLine) = at;
         if (onlyLineEnds)
@@ -117,18 +133,19 @@ public static class SourceCheck
         var where = $"line {line}: emit generates {Quote(wantLine)}, the file has {Quote(foundLine)}";
         if (!asWritten) return $"{file}: edited after generation; first difference at {where}";
         var notes = templateNotes.Count > 0 ? "; " + string.Join("; ", templateNotes) : "";
-        return $"{file}: not what emit {ScorerPlan.ToolVersion} generates from {Naming.CommentText(m.ModelFile)} " +
-               $"with the recorded options (the sources were written by emit {m.ToolVersion}{notes}); " +
+        return $"{file}: not what emit {ScorerPlan.ToolVersion} generates from {Naming.CommentText(modelFile)} " +
+               $"with the recorded options (the sources were written by emit {toolVersion}{notes}); " +
                $"first difference at {where}; regenerate the sources";
     }
 
     /// <summary>Templates read now that differ from those the manifest records.</summary>
-    private static IReadOnlyList<string> TemplateNotes(SourceManifest m, IReadOnlyList<TemplateUse> used)
+    internal static IReadOnlyList<string> TemplateNotes(IReadOnlyList<TemplateUse> recordedTemplates,
+        IReadOnlyList<TemplateUse> used)
     {
         var notes = new List<string>();
         foreach (var u in used)
         {
-            var recorded = m.Templates.FirstOrDefault(t => t.Target == u.Target && t.File == u.File);
+            var recorded = recordedTemplates.FirstOrDefault(t => t.Target == u.Target && t.File == u.File);
             if (recorded is null) notes.Add($"{u.Target}/{u.File} is new");
             else if (recorded.Sha256 != u.Sha256 || recorded.Custom != u.Custom)
                 notes.Add($"{u.Target}/{u.File} ({(u.Custom ? "custom" : "shipped")}) differs from the one used");
@@ -155,7 +172,7 @@ public static class SourceCheck
             ? "nothing (end of file)"
             : "\"" + (line.Length > MaxLineText ? line[..MaxLineText] + "..." : line).Trim() + "\"";
 
-    private static string HashOf(string path)
+    internal static string HashOf(string path)
     {
         try
         {

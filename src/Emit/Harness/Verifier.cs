@@ -40,24 +40,33 @@ public static class Verifier
         var defaultName = request.Name ?? Naming.ScorerNameFromFile(request.ModelLabel);
         var warnings = new List<string>();
         var located = new Dictionary<string, ScorerSources>();
-        if (request.GeneratedDirectory is { } dir)
-            foreach (var language in languages)
-                located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
-        var mode = ResolveMode(request, located.Values);
-        var fixedOptions = mode == NumericMode.Fixed ? ResolveFixed(request, located.Values) : null;
-        if (request.Fixed is not null && mode != NumericMode.Fixed)
-            throw new EmitException(
-                $"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply to " +
-                $"{Setting.Numeric.Ref()} fixed, not {mode.ToText()}",
-                $"leave them out, or use {Setting.Numeric.Ref()} fixed");
-        var filter = ResolveFilter(request, located.Values);
+        var checks = new Dictionary<string, SourceCheckResult>();
         CompiledClassifier? classifier = null;
-        if (request.MoreModels.Count > 0)
+        NumericMode mode;
+        FixedPointOptions? fixedOptions;
+        Emit.Detection.AlarmFilterSpec? filter = null;
+        if (request.MoreModels.Count > 0 && request.GeneratedDirectory is { } classifierDir)
         {
-            if (request.GeneratedDirectory is not null)
-                throw new EmitException("verify --generated checks one scorer of a classifier at a time",
-                    $"give one model with {Setting.Name.Ref()} NAME_k, or leave --generated out to generate and " +
-                    "check the classifier");
+            classifier = ExistingClassifier.Check(request, classifierDir, languages, located, checks);
+            mode = classifier.Plan.Options.Numeric;
+            fixedOptions = classifier.Scorers[0].Manifest.Fixed;
+        }
+        else
+        {
+            if (request.GeneratedDirectory is { } dir)
+                foreach (var language in languages)
+                    located[language] = ScorerSources.Locate(dir, language, request.Name, defaultName);
+            mode = ResolveMode(request, located.Values);
+            fixedOptions = mode == NumericMode.Fixed ? ResolveFixed(request, located.Values) : null;
+            if (request.Fixed is not null && mode != NumericMode.Fixed)
+                throw new EmitException(
+                    $"{Setting.Weights.Ref()}, {Setting.Accumulator.Ref()} and {Setting.SoftplusTable.Ref()} apply " +
+                    $"to {Setting.Numeric.Ref()} fixed, not {mode.ToText()}",
+                    $"leave them out, or use {Setting.Numeric.Ref()} fixed");
+            filter = ResolveFilter(request, located.Values);
+        }
+        if (request.MoreModels.Count > 0 && request.GeneratedDirectory is null)
+        {
             classifier = ClassifierCompiler.Build([model, .. request.MoreModels.Select(m => m.Model)],
                 [request.ModelLabel, .. request.MoreModels.Select(m => m.Label)], request.Priors,
                 new CompileOptions(languages, mode, defaultName, Fixed: fixedOptions, AlarmFilter: filter));
@@ -66,10 +75,11 @@ public static class Verifier
         var expectation = NumericExpectation.For(model, mode, fixedOptions);
         var layout = expectation.Layout(model);
 
-        // The strict check of existing sources, before anything is built (a missing templates folder is exit 2).
-        var checks = new Dictionary<string, SourceCheckResult>();
+        // The strict check of existing sources, before anything is built (a missing templates folder is exit 2);
+        // a classifier's folder was checked as a whole above.
         foreach (var (language, sources) in located)
         {
+            if (checks.ContainsKey(language)) continue;
             var check = SourceCheck.Run(sources, model, request.ModelLabel, request.AllowModelChange,
                 request.TemplatesDirectory);
             checks[language] = check;
@@ -102,23 +112,7 @@ public static class Verifier
                         located[language] = ScorerSources.Locate(src, language, defaultName, defaultName);
                         continue;
                     }
-                    var first = classifier.Scorers[0].Plan.Options.Name;
-                    var sources = ScorerSources.Locate(src, language, first, first);
-                    var ext = language == "csharp" ? ".cs" : ".c";
-                    var companions = files
-                        .Where(f => !f.FileName.EndsWith(SourceManifest.Suffix, StringComparison.Ordinal)
-                                    && f.FileName.EndsWith(ext, StringComparison.Ordinal)
-                                    && !sources.Files.Any(s => Path.GetFileName(s) == f.FileName))
-                        .Select(f => Path.Combine(src, f.FileName)).ToArray();
-                    var view = new ClassifierView(classifier.Plan, language);
-                    var type = mode switch
-                    {
-                        NumericMode.F32 => "float",
-                        NumericMode.F64 => "double",
-                        _ => expectation.EnergyBytes == 4 ? "int" : "long",
-                    };
-                    located[language] = sources.WithClassifier(new ClassifierHarness(defaultName,
-                        $"global::{options.Namespace}.{view.ClassName}", classifier.Plan.Count, type), companions);
+                    located[language] = ExistingClassifier.Attach(src, language, classifier);
                 }
             }
             return Compare(request, runners, located, checks, expectation, layout, reader, work, warnings,
@@ -228,6 +222,9 @@ public static class Verifier
             ToolVersion = ScorerPlan.ToolVersion,
             Model = request.ModelLabel,
             ModelSha256 = model.Sha256,
+            ClassifierModels = classifier is null
+                ? []
+                : [(request.ModelLabel, model.Sha256), .. request.MoreModels.Select(m => (m.Label, m.Model.Sha256))],
             Input = reader.Source,
             Vectors = index,
             Threshold = model.Threshold,

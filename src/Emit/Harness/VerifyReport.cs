@@ -12,6 +12,13 @@ public sealed record VerifyReport
     /// <summary>SHA-256 of the model verified.</summary>
     public required string ModelSha256 { get; init; }
 
+    /// <summary>
+    /// For a classifier, every model in class order (file name, SHA-256), the first being <see cref="Model"/>, whose
+    /// scorer the per-target figures describe; the classifier's own results are the targets' features. Empty for one
+    /// scorer.
+    /// </summary>
+    public IReadOnlyList<(string File, string Sha256)> ClassifierModels { get; init; } = [];
+
     /// <summary>The vector file's name as given.</summary>
     public required string Input { get; init; }
 

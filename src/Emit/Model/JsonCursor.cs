@@ -275,6 +275,18 @@ public ref struct JsonCursor
         return Text();
     }
 
+    /// <summary>Reads <c>true</c> or <c>false</c> for <paramref name="field"/>.</summary>
+    public bool Boolean(string field)
+    {
+        Read();
+        return R.TokenType switch
+        {
+            JsonTokenType.True => true,
+            JsonTokenType.False => false,
+            _ => throw Error($"expected true or false for {field}, found {Describe(R.TokenType)}"),
+        };
+    }
+
     /// <summary>Reads a finite number for <paramref name="field"/>.</summary>
     public double Number(string field)
     {

@@ -4,8 +4,9 @@ using Emit.Model;
 namespace Emit.Project;
 
 /// <summary>
-/// Generates every scorer of a project: all are compiled in memory first, and only when every one succeeded are the
-/// files written (each scorer's sources with its manifest, docs/manifest.md), all folders in one step
+/// Generates every scorer and classifier of a project: all are compiled in memory first, and only when every one
+/// succeeded are the files written (each scorer's sources with its manifest, a classifier's files with its own and its
+/// models' scorers, docs/manifest.md), all folders in one step
 /// (<see cref="OutputFolder.WriteAll"/>), so a failing project changes nothing.
 /// </summary>
 public static class ProjectBuilder
@@ -20,11 +21,15 @@ public static class ProjectBuilder
             var scorer = project.Scorers[k];
             try
             {
-                if (!models.TryGetValue(scorer.ModelPath, out var model))
-                    models[scorer.ModelPath] = model = ModelLoader.Load(scorer.ModelPath);
-                groups.Add(
-                    (scorer.OutDirectory,
-                        ScorerCompiler.Build(model, Path.GetFileName(scorer.ModelPath), scorer.Options).AllFiles));
+                var loaded = scorer.ModelPaths.Select(path =>
+                {
+                    if (!models.TryGetValue(path, out var model)) models[path] = model = ModelLoader.Load(path);
+                    return model;
+                }).ToArray();
+                var labels = scorer.ModelPaths.Select(Path.GetFileName).ToArray();
+                groups.Add((scorer.OutDirectory, scorer.IsClassifier
+                    ? ClassifierCompiler.Build(loaded, labels!, scorer.Priors, scorer.Options).AllFiles
+                    : ScorerCompiler.Build(loaded[0], labels[0]!, scorer.Options).AllFiles));
             }
             catch (EmitException e) when (e.File is null)
             {

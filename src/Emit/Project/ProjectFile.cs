@@ -1,4 +1,5 @@
 using System.Text.Json;
+using Emit.Detection;
 using Emit.Emission;
 using Emit.Model;
 using Emit.Quantize;
@@ -22,6 +23,9 @@ public static class ProjectFile
 
     /// <summary>Most scorers one project may list.</summary>
     public const int MaxScorers = 256;
+
+    /// <summary>Most models one classifier entry may list (as <c>emit compile</c> accepts).</summary>
+    public const int MaxModels = 64;
 
     /// <summary>Reads and checks a project file; errors carry <paramref name="path"/>.</summary>
     public static EmitProject Read(string path) =>
@@ -98,14 +102,17 @@ public static class ProjectFile
                 if (list.Count == MaxScorers) throw _c.Error($"more than {MaxScorers} scorers", "split the project");
                 long offset = _c.R.TokenStartIndex;
                 var scorer = Scorer(list.Count, offset);
-                // Two scorers must not write the same file: the second would silently replace the first.
-                foreach (var target in scorer.Options.Targets)
-                    foreach (var ext in Targets.Find(target)!.Extensions)
+                // Two entries must not write the same file: the second would silently replace the first. An entry
+                // writes each name's sources and manifest (a classifier: its own and those of NAME_1 ... NAME_n).
+                var extensions = scorer.Options.Targets.SelectMany(t => Targets.Find(t)!.Extensions).Distinct();
+                foreach (var name in scorer.Names)
+                    foreach (var fileName in extensions.Select(ext => name + ext)
+                                 .Append(SourceManifest.FileNameFor(name)))
                     {
-                        var file = Path.Combine(scorer.OutDirectory, scorer.Options.Name + ext);
+                        var file = Path.Combine(scorer.OutDirectory, fileName);
                         if (outputs.TryGetValue(file, out int other))
                             throw _c.Error(
-                                $"scorers[{list.Count}] writes {Naming.CommentText(Path.GetFileName(file))} in the " +
+                                $"scorers[{list.Count}] writes {Naming.CommentText(fileName)} in the " +
                                 $"same folder as scorers[{other}]",
                                 "give one of them another name or out folder", offset);
                         outputs[file] = list.Count;
@@ -132,6 +139,14 @@ public static class ProjectFile
             int table = FixedPointOptions.DefaultTableSize;
             (string Key, long Offset)? fixedOnly = null; // the first fixed-point field, refused unless numeric is fixed
             long nsOffset = 0;
+            // a classifier: its models, their offset, its priors (and where they start)
+            List<string>? models = null;
+            List<double>? priors = null;
+            long modelsOffset = 0, priorsKey = 0, priorsOffset = 0;
+            // firmware features, for one model only; the first one given, refused for a classifier
+            AlarmFilterSpec? filter = null;
+            bool stream = false, explain = false;
+            (string Key, long Offset)? singleOnly = null;
             while (_c.NextField(seen, at, out string key))
             {
                 long keyOffset = _c.R.TokenStartIndex;
@@ -206,13 +221,64 @@ public static class ProjectFile
                                 $"{FixedPointOptions.MaxTableSize}");
                         fixedOnly ??= (key, keyOffset);
                         break;
+                    case "models":
+                        models = ModelList(field, out modelsOffset);
+                        break;
+                    case "priors":
+                        priorsKey = keyOffset;
+                        priors = NumberArray(field, out priorsOffset);
+                        break;
+                    case "alarm_filter":
+                        {
+                            var text = _c.String(field);
+                            try { filter = AlarmFilterSpec.Parse(text); }
+                            catch (EmitException e) { throw _c.Error($"{field}: {e.Problem}", e.Hint); }
+                            singleOnly ??= (key, keyOffset);
+                            break;
+                        }
+                    case "stream":
+                        stream = _c.Boolean(field);
+                        if (stream) singleOnly ??= (key, keyOffset);
+                        break;
+                    case "explain":
+                        explain = _c.Boolean(field);
+                        if (explain) singleOnly ??= (key, keyOffset);
+                        break;
                     default:
                         throw _c.Error($"unknown field \"{Naming.CommentText(key)}\" in {at}",
-                            "a scorer has model, name, targets, numeric, namespace, out, templates, " +
-                            "selftest_vectors, optimize, and for numeric fixed weights, accumulator, softplus_table");
+                            "a scorer has model (or models, priors for a classifier), name, targets, numeric, " +
+                            "namespace, out, templates, selftest_vectors, optimize, alarm_filter, stream, explain, " +
+                            "and for numeric fixed weights, accumulator, softplus_table");
                 }
             }
-            if (model is null) throw _c.Error($"{at} has no model", "add \"model\": \"path/to/model.json\"", offset);
+            if (model is not null && models is not null)
+                throw _c.Error($"{at} has both model and models",
+                    "give model for one scorer, or models for a classifier over several", offset);
+            if (models is not null)
+            {
+                if (models.Count < 2)
+                    throw _c.Error($"{at}.models lists {models.Count} model{(models.Count == 1 ? "" : "s")}",
+                        "a classifier needs two or more; give model for one scorer", modelsOffset);
+                if (name is null)
+                    throw _c.Error($"{at} is a classifier and needs a name",
+                        "add \"name\": \"NAME\" (files NAME.h, NAME.c, NAME.cs and NAME_1 ... per model)", offset);
+                if (singleOnly is { } single)
+                    throw _c.Error($"{at}.{single.Key} is for one model, not a classifier",
+                        "compile each model on its own with it", single.Offset);
+                if (priors is not null && priors.Count != models.Count)
+                    throw _c.Error($"{at}.priors: {priors.Count} priors for {models.Count} models",
+                        "give one prior per model, in the same order", priorsOffset);
+                if (priors is not null && priors.Any(p => !(p > 0)))
+                    throw _c.Error($"{at}.priors: every prior must be a positive finite number",
+                        "priors are relative weights, e.g. [0.9, 0.1]", priorsOffset);
+                model = models[0];
+            }
+            else if (priors is not null)
+                throw _c.Error($"{at}.priors applies to a classifier (models)",
+                    "list two or more models in models, or leave priors out", priorsKey);
+            if (model is null)
+                throw _c.Error($"{at} has no model",
+                    "add \"model\": \"path/to/model.json\" (or \"models\": [...] for a classifier)", offset);
             if (fixedOnly is { } f && numeric != NumericMode.Fixed)
                 throw _c.Error($"{at}.{f.Key} applies to numeric fixed only",
                     "add \"numeric\": \"fixed\" or leave the field out", f.Offset);
@@ -231,16 +297,26 @@ public static class ProjectFile
                         $"use one or more of: {Targets.NameList}", offset);
             var fixedOptions = numeric == NumericMode.Fixed ? new FixedPointOptions(weights, accumulator, table) : null;
             var options = new CompileOptions(targets.Distinct().ToArray(), numeric, name,
-                ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions, optimize);
-            return new ProjectScorer(model, outDir ?? Path.Combine(_base, "out"), options, _c.Position(offset).Line);
+                ns ?? CompileOptions.DefaultNamespace, selfTest, templates, fixedOptions, optimize, stream, explain,
+                filter);
+            return new ProjectScorer(model, outDir ?? Path.Combine(_base, "out"), options, _c.Position(offset).Line)
+            {
+                ModelPaths = models ?? [model],
+                Priors = priors,
+            };
         }
 
         /// <summary>
         /// A path value, made absolute against the project folder; control characters and NUL are refused.
         /// </summary>
-        private string PathValue(string field)
+        private string PathValue(string field) => PathText(field, _c.String(field));
+
+        /// <summary>
+        /// <paramref name="text"/> as a path made absolute against the project folder; control characters and NUL are
+        /// refused.
+        /// </summary>
+        private readonly string PathText(string field, string text)
         {
-            var text = _c.String(field);
             if (text.Length == 0) throw _c.Error($"{field} is empty", "give a path");
             if (text.Any(char.IsControl) || text.IndexOfAny(Path.GetInvalidPathChars()) >= 0)
                 throw _c.Error($"{field} holds characters a path cannot have");
@@ -249,6 +325,52 @@ public static class ProjectFile
             {
                 throw _c.Error($"{field} is not a usable path: {e.Message}");
             }
+        }
+
+        /// <summary>
+        /// A classifier's model files: an array of paths, each of an existing file; <paramref name="start"/> is where
+        /// it starts, for messages.
+        /// </summary>
+        private List<string> ModelList(string field, out long start)
+        {
+            _c.Read();
+            _c.Expect(JsonTokenType.StartArray, $"an array of model files for {field}");
+            start = _c.R.TokenStartIndex;
+            var list = new List<string>();
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndArray) break;
+                if (list.Count == MaxModels) throw _c.Error($"{field} lists more than {MaxModels} models");
+                var item = $"{field}[{list.Count}]";
+                _c.Expect(JsonTokenType.String, $"a string for {item}");
+                var path = PathText(item, _c.Text());
+                if (!File.Exists(path))
+                    throw _c.Error($"{item}: file not found: {Naming.CommentText(path)}",
+                        "check the path; paths are relative to the project file's folder");
+                list.Add(path);
+            }
+            return list;
+        }
+
+        /// <summary>An array of finite numbers; <paramref name="start"/> is where it starts, for messages.</summary>
+        private List<double> NumberArray(string field, out long start)
+        {
+            _c.Read();
+            _c.Expect(JsonTokenType.StartArray, $"an array of numbers for {field}");
+            start = _c.R.TokenStartIndex;
+            var list = new List<double>();
+            while (true)
+            {
+                _c.Read();
+                if (_c.R.TokenType == JsonTokenType.EndArray) break;
+                if (list.Count == MaxModels) throw _c.Error($"{field} lists more than {MaxModels} numbers");
+                _c.Expect(JsonTokenType.Number, $"a number in {field}");
+                if (!_c.R.TryGetDouble(out double d) || !double.IsFinite(d))
+                    throw _c.Error($"{field} holds a number that is not finite", "every number must be finite");
+                list.Add(d);
+            }
+            return list;
         }
 
         private List<string> StringArray(string field)

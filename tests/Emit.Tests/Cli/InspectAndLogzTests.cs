@@ -154,6 +154,62 @@ public sealed class InspectFixedPointTests
         Assert.Contains($"#define M_FLASH_BYTES {flash}\n#define M_STACK_BYTES {stack}\n", header);
     }
 
+    /// <summary>
+    /// What each firmware feature costs (alarm filter, streamed scoring, explanations) reaches both outputs of inspect
+    /// in every mode, equal to the figures the header of a scorer compiled with those features states; the Arm
+    /// toolchain checks the figures themselves against arm-none-eabi-size (CortexM0FeatureTests).
+    /// </summary>
+    [Theory]
+    [InlineData("fixed", ModelKind.Rbm, "speed")]
+    [InlineData("fixed", ModelKind.Lateral, "size")]
+    [InlineData("f32", ModelKind.Rbm, "speed")]
+    [InlineData("f64", ModelKind.Lateral, "speed")]
+    public void Inspect_states_what_each_feature_costs_as_the_header_does(string numeric, ModelKind kind,
+        string optimize)
+    {
+        var dir = CliRunner.TempDir();
+        var path = Path.Combine(dir, "m.json");
+        ModelJson.WriteFile(TestModels.Random(kind, 30, 12, 3).With(-20.5, null), path, force: true);
+        var r = CliRunner.Run("inspect", path, "--numeric", numeric, "--optimize", optimize, "--json");
+        Assert.True(r.ExitCode == 0, r.Error);
+        var features = JsonDocument.Parse(r.Out).RootElement.GetProperty("footprint").GetProperty("features");
+        long Figure(string feature, string field) => features.GetProperty(feature).GetProperty(field).GetInt64();
+        Assert.Equal(0, CliRunner.Run("compile", path, "--numeric", numeric, "--optimize", optimize, "--name", "m",
+            "--explain", "--alarm-filter", "3/5", "--out", dir).ExitCode);
+        var header = File.ReadAllText(Path.Combine(dir, "m.h"));
+        long Define(string macro) => long.Parse(
+            System.Text.RegularExpressions.Regex.Match(header, $@"#define M_{macro} (\d+)\n").Groups[1].Value,
+            System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(Define("FILTER_FLASH_BYTES"), Figure("alarm_filter", "flash_bytes"));
+        Assert.Equal(Define("FILTER_RAM_BYTES"), Figure("alarm_filter", "ram_bytes"));
+        Assert.Equal(Define("STREAM_FLASH_BYTES"), Figure("stream", "flash_bytes"));
+        Assert.Equal(Define("STREAM_BYTES"), Figure("stream", "ram_bytes"));
+        Assert.Equal(Define("EXPLAIN_FLASH_BYTES"), Figure("explain", "flash_bytes"));
+        Assert.Equal(Define("EXPLAIN_STACK_BYTES"), Figure("explain", "stack_bytes"));
+        Assert.Contains("N <= 32", features.GetProperty("alarm_filter").GetProperty("assumption").GetString());
+        var text = CliRunner.Run("inspect", path, "--numeric", numeric, "--optimize", optimize).Out;
+        Assert.Contains($"  alarm filter flash +{Define("FILTER_FLASH_BYTES")} bytes, RAM {Define("FILTER_RAM_BYTES")} " +
+                        "bytes per filter", text);
+        Assert.Contains($"  stream       flash +{Define("STREAM_FLASH_BYTES")} bytes, RAM {Define("STREAM_BYTES")} " +
+                        "bytes per stream", text);
+        Assert.Contains($"  explain      flash +{Define("EXPLAIN_FLASH_BYTES")} bytes beyond the stream code, stack " +
+                        $"{Define("EXPLAIN_STACK_BYTES")} bytes", text);
+    }
+
+    [Fact]
+    public void Inspect_says_stream_and_explain_do_not_apply_to_a_general_model()
+    {
+        var path = Path.Combine(CliRunner.TempDir(), "m.json");
+        ModelJson.WriteFile(TestModels.Random(ModelKind.General, 6, 3, 1), path, force: true);
+        var r = CliRunner.Run("inspect", path, "--numeric", "f64", "--json");
+        Assert.True(r.ExitCode == 0, r.Error);
+        var features = JsonDocument.Parse(r.Out).RootElement.GetProperty("footprint").GetProperty("features");
+        Assert.Equal(JsonValueKind.Null, features.GetProperty("stream").ValueKind);
+        Assert.Equal(JsonValueKind.Null, features.GetProperty("explain").ValueKind);
+        Assert.Equal(JsonValueKind.Object, features.GetProperty("alarm_filter").ValueKind);
+        Assert.Contains("not for kind general", CliRunner.Run("inspect", path, "--numeric", "f64").Out);
+    }
+
     [Fact]
     public void Bad_fixed_point_options_exit_2()
     {

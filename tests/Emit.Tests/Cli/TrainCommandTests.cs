@@ -130,7 +130,7 @@ public sealed class TrainCommandTests
         Assert.Single(lines);
         Assert.Contains(where, lines[0]);
         Assert.False(File.Exists(output));
-        Assert.Empty(Directory.GetFiles(dir).Where(f => f != data));
+        Assert.DoesNotContain(Directory.GetFiles(dir), f => f != data);
     }
 
     [Fact]
@@ -164,7 +164,7 @@ public sealed class TrainCommandTests
 
     /// <summary>SIGINT to a real emit process (as Ctrl-C sends): it stops, says so, writes nothing and exits 130 (128 + SIGINT, common practice).</summary>
     [Fact]
-    public void Ctrl_C_stops_training_writes_nothing_and_exits_130()
+    public async Task Ctrl_C_stops_training_writes_nothing_and_exits_130()
     {
         var (dir, data) = Setup(Csv(4000, 6));
         var output = Path.Combine(dir, "model.json");
@@ -184,11 +184,12 @@ public sealed class TrainCommandTests
         Assert.NotNull(line);
         using (var kill = Process.Start("kill", ["-INT", p.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)])) kill.WaitForExit();
         var rest = p.StandardOutput.ReadToEndAsync();
-        Assert.True(p.WaitForExit(TimeSpan.FromSeconds(60)));
+        await p.WaitForExitAsync().WaitAsync(TimeSpan.FromSeconds(60));
         Assert.Equal(130, p.ExitCode);
-        Assert.Contains("training interrupted", err.Result);
-        Assert.Contains("nothing written", err.Result);
+        string errText = await err;
+        Assert.Contains("training interrupted", errText);
+        Assert.Contains("nothing written", errText);
         Assert.False(File.Exists(output));
-        _ = rest.Result;
+        _ = await rest;
     }
 }

@@ -43,7 +43,7 @@ public sealed class VerifyCommandTests
         return JsonSchema.FromText(File.ReadAllText(Path.Combine(dir, "docs", "verify-report.schema.json")));
     });
 
-    private static JsonElement ReadReport(string path)
+    internal static JsonElement ReadReport(string path)
     {
         var doc = JsonDocument.Parse(File.ReadAllText(path));
         var result = Schema.Value.Evaluate(doc.RootElement, new EvaluationOptions { OutputFormat = OutputFormat.List });

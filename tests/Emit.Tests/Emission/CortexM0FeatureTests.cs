@@ -139,4 +139,75 @@ public sealed partial class CortexM0Tests
             }
         }
     }
+
+    /// <summary>
+    /// Fixed mode with every feature on links into one Cortex-M0 image with no floating-point, division or libm code:
+    /// a scorer with the alarm filter, streamed scoring and explanations (the most one scorer takes) and a classifier
+    /// of three models, called from one <c>main</c>, linked against newlib and libgcc with float and double poisoned.
+    /// The linked image, not just each object, is searched, so a helper pulled in by another helper would be caught.
+    /// </summary>
+    [SkippableFact]
+    public void Fixed_c_with_every_feature_links_into_one_cortex_m0_image_integer_only()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        var nm = Toolchain.Require("arm-none-eabi-nm");
+        var dir = Toolchain.TempDir("m0-all-features");
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var demo = ModelLoader.Load(ReferenceModelPath());
+        var scorer = new CompileOptions(["c"], NumericMode.Fixed, "reefer_all", AlarmFilter: new AlarmFilterSpec(3, 5),
+            Stream: true, Explain: true);
+        foreach (var f in ScorerCompiler.Compile(demo, "reefer-fleet.json", scorer))
+            File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+        var models = Enumerable.Range(0, 3)
+            .Select(k => TestModels.Random(ModelKind.Rbm, demo.Visible, 8, seed: 70 + k)
+                .With(null, new LogPartition(30 + k, "exact", 0)))
+            .ToArray();
+        var classifier = ClassifierCompiler.Build(models, ["m0.json", "m1.json", "m2.json"], null,
+            new CompileOptions(["c"], NumericMode.Fixed, "modes"));
+        foreach (var f in classifier.AllFiles) File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+        File.WriteAllText(Path.Combine(dir, "main.c"), """
+            #include "reefer_all.h"
+            #include "modes.h"
+            volatile uint8_t input_byte;
+            volatile int32_t sink;
+            int main(void)
+            {
+                static uint8_t packed[REEFER_ALL_PACKED_BYTES];
+                reefer_all_filter_t filter;
+                reefer_all_stream_t stream;
+                uint16_t units[4];
+                reefer_all_energy_t deltas[4];
+                modes_energy_t scores[MODES_MODELS];
+                reefer_all_energy_t f;
+                bool alarm;
+                unsigned n, c;
+                packed[0] = input_byte;
+                f = reefer_all_free_energy(packed);
+                reefer_all_filter_reset(&filter);
+                alarm = reefer_all_filter_update(&filter, reefer_all_is_unusual(f));
+                reefer_all_stream_reset(&stream, packed);
+                reefer_all_stream_flip(&stream, 3u);
+                f = reefer_all_stream_free_energy(&stream);
+                n = reefer_all_explain(packed, 4u, units, deltas);
+                c = modes_classify(packed, scores);
+                sink = (int32_t)(f & 0xFFFF) + (int32_t)n + (int32_t)c + (alarm ? 1 : 0) + reefer_all_selftest();
+                return 0;
+            }
+            """);
+        var sources = Directory.GetFiles(dir, "*.c").Order(StringComparer.Ordinal).ToArray();
+        var image = Path.Combine(dir, "image.elf");
+        Toolchain.RunOk(gcc, [.. Toolchain.Split(M0Flags), "-include", poison, "-I", dir, "-ffunction-sections",
+            "-fdata-sections", "--specs=nosys.specs", "-nostartfiles", "-Wl,-e,main", "-Wl,--gc-sections",
+            .. sources, "-o", image]);
+        var symbols = Toolchain.RunOk(nm, [image]).Split('\n', StringSplitOptions.RemoveEmptyEntries)
+            .Select(l => l.Trim().Split(' ')[^1]).ToArray();
+        foreach (var needed in new[] { "reefer_all_explain", "reefer_all_stream_flip", "reefer_all_filter_update",
+                     "modes_classify" })
+            Assert.Contains(needed, symbols);
+        var forbidden = symbols.Where(s => Forbidden.IsMatch(s)).ToArray();
+        output.WriteLine($"{sources.Length} sources, {symbols.Length} symbols in the image; forbidden: " +
+                         (forbidden.Length == 0 ? "none" : string.Join(", ", forbidden)));
+        Assert.Empty(forbidden);
+    }
 }

@@ -113,4 +113,48 @@ public sealed class CortexM4FTests(ITestOutputHelper output)
                 Assert.True(Math.Abs(both - stream - pe) <= 0.15 * (both - stream) + 128, $"{n}: explain {both - stream}, predicted {pe}");
             }
     }
+
+    /// <summary>
+    /// The worst-case stack the header states for <c>NAME_explain</c> in the float modes
+    /// (<see cref="FeatureFootprint.ExplainStack"/>), less the library allowance it includes, is an upper bound of
+    /// the stack measured on Cortex-M4F (<c>-fstack-usage</c> frames along the <c>-fcallgraph-info=su</c> call graph
+    /// from NAME_explain; library frames are not in these figures, hence the allowance) and not far above it, as for
+    /// the scorer.
+    /// </summary>
+    [SkippableFact]
+    public void Float_explain_stack_stated_in_the_header_bounds_the_measured_one()
+    {
+        var gcc = Toolchain.Require("arm-none-eabi-gcc");
+        var dir = Toolchain.TempDir("m4f-explain-stack");
+        var models = new List<(string Id, BoltzmannModel Model)> { ("reefer", ModelLoader.Load(ReferenceModelPath())) };
+        models.AddRange(CodegenCases.All.Where(c => c.Model.Kind != ModelKind.General && c.Model.Visible > 1)
+            .Select(c => (c.Id, c.Model)));
+        var failures = new List<string>();
+        output.WriteLine("build | explain stack measured / stated less allowance (allowance)");
+        foreach (var (id, model) in models)
+            foreach (var mode in new[] { NumericMode.F32, NumericMode.F64 })
+            {
+                string name = id + "_" + mode.ToText() + "x";
+                var options = new CompileOptions(["c"], mode, name, Explain: true);
+                foreach (var f in ScorerCompiler.Compile(model, name + ".json", options))
+                    File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+                Toolchain.RunOk(gcc, [.. Toolchain.Split(M4FFlags), "-fstack-usage", "-fcallgraph-info=su",
+                    "-dumpdir", dir + "/", "-I", dir, "-c", Path.Combine(dir, name + ".c"),
+                    "-o", Path.Combine(dir, name + ".o")]);
+                var ci = File.ReadAllText(Path.Combine(dir, name + ".ci"));
+                var library = Regex.Matches(ci, @"node: \{ title: ""([^""]+)"" label: ""([^""]*)""")
+                    .Where(m => !m.Groups[2].Value.Contains("bytes (", StringComparison.Ordinal))
+                    .ToDictionary(m => m.Groups[1].Value, _ => 0);
+                int measured = CortexM0Tests.WorstStack(ci, name, library, ["_explain"]);
+                var plan = FloatScorerPlan.Build(model, options, name + ".json");
+                var dialect = new Emit.Emission.Dialects.CDialect(plan);
+                int allowance = FeatureFootprint.ExplainLibraryAllowance(plan);
+                int stated = dialect.ExplainStackBytes, own = stated - allowance;
+                Assert.Contains($"{stated}", File.ReadAllText(Path.Combine(dir, name + ".h")));
+                output.WriteLine($"{name} | {measured} / {own} ({allowance})");
+                if (measured > own) failures.Add($"{name}: explain stack {measured} above the stated {own}");
+                if (own > 1.5 * measured + 64) failures.Add($"{name}: stated explain stack {own} far above {measured}");
+            }
+        Assert.True(failures.Count == 0, string.Join("\n", failures));
+    }
 }

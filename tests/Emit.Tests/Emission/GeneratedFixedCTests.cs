@@ -18,13 +18,76 @@ public sealed class GeneratedFixedCTests
 
     [SkippableTheory]
     [MemberData(nameof(Combos))]
-    public void Generated_c_gives_the_simulators_integers_and_stays_within_the_bound(string combo)
+    public void Generated_c_gives_the_simulators_integers_and_stays_within_the_bound(string combo) =>
+        CheckAgainstSimulator(combo, pointerPasses: false);
+
+    /// <summary>Combinations whose C stores packed rows (speed, int16/int8 weights, int32 accumulator, H >= 16).</summary>
+    public static TheoryData<string> PackedCombos()
+    {
+        var data = new TheoryData<string>();
+        foreach (var c in FixedCodegenCases.All)
+            if (Emit.Emission.Dialects.CDialect.UsesPackedRows(FixedCodegenCases.Plan(c), OptimizeFor.Speed))
+                data.Add(c.Name);
+        return data;
+    }
+
+    /// <summary>
+    /// The row additions that Thumb-2 M-profile cores compile (eight rows per pass through row pointers, lane sums
+    /// side by side), chosen here on the host with the file's _ROW_POINTERS macro: the same integers as the simulator.
+    /// </summary>
+    [SkippableTheory]
+    [MemberData(nameof(PackedCombos))]
+    public void Pointer_pass_row_additions_give_the_simulators_integers(string combo) =>
+        CheckAgainstSimulator(combo, pointerPasses: true);
+
+    /// <summary>
+    /// A wide int8 model (410 hidden units: 103 words a row, padded to 104 so the last block of the row additions is
+    /// whole vectors) with more than 256 visible units (the 16-bit lanes are emptied every 256 rows, which the
+    /// all-ones input and the dense inputs reach): both row-addition shapes give the simulator's integers.
+    /// </summary>
+    [SkippableFact]
+    public void Wide_int8_rows_padded_and_emptied_every_256_rows_give_the_simulators_integers()
+    {
+        var model = TestModels.Random(ModelKind.Rbm, 300, 410, seed: 41);
+        var fixedOptions = new FixedPointOptions(WeightType.Int8, AccumulatorType.Int32);
+        var options = new CompileOptions(["c"], NumericMode.Fixed, "wide_i8", "Emit.Tests.Generated", 8, null,
+            fixedOptions);
+        var plan = FixedPointPlanner.Build(model, fixedOptions);
+        var sim = new FixedPointSimulator(plan);
+        var rng = new Random(41);
+        var vectors = new List<byte[]> { new byte[300], Enumerable.Repeat((byte)1, 300).ToArray() };
+        foreach (var p in new[] { 0.13, 0.5, 0.9, 0.97 })
+            for (int k = 0; k < 4; k++) vectors.Add(TestModels.RandomUnits(300, rng, p));
+        foreach (var pointers in new[] { 0, 1 })
+        {
+            var dir = Toolchain.TempDir("cfix-wide-" + pointers);
+            foreach (var f in ScorerCompiler.Build(model, "wide.json", options).AllFiles)
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            Assert.Contains("#define WIDE_I8_ROW_WORDS 104u\n", File.ReadAllText(Path.Combine(dir, "wide_i8.c")));
+            var exe = CHarness.Build(dir, "wide_i8", false, $"-DWIDE_I8_ROW_POINTERS={pointers}", integer: true);
+            var result = CHarness.Run(exe, vectors);
+            Assert.Equal(0, result.SelfTestFailures);
+            for (int k = 0; k < vectors.Count; k++)
+                Assert.True(sim.FreeEnergy(vectors[k]) == result.Rows[k].Integer,
+                    $"pointer passes {pointers}, vector {k}: generated {result.Rows[k].Integer}, simulator " +
+                    $"{sim.FreeEnergy(vectors[k])}");
+        }
+    }
+
+    private static void CheckAgainstSimulator(string combo, bool pointerPasses)
     {
         var c = FixedCodegenCases.Find(combo);
         var plan = FixedCodegenCases.Plan(c);
-        var dir = Toolchain.TempDir("cfix-" + combo);
+        var dir = Toolchain.TempDir((pointerPasses ? "cfixp-" : "cfix-") + combo);
         var name = FixedCodegenCases.Generate(c, dir);
-        var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue, integer: true);
+        var flags = "";
+        if (pointerPasses)
+        {
+            var macro = Regex.Match(File.ReadAllText(Path.Combine(dir, name + ".c")), @"#ifndef (\w+_ROW_POINTERS)\n");
+            Assert.True(macro.Success, "no _ROW_POINTERS switch in " + name + ".c");
+            flags = "-D" + macro.Groups[1].Value + "=1";
+        }
+        var exe = CHarness.Build(dir, name, c.Case.Model.Threshold.HasValue, flags, integer: true);
         var vectors = FixedCodegenCases.Vectors(c);
         var result = CHarness.Run(exe, vectors);
         var sim = new FixedPointSimulator(plan);

@@ -42,7 +42,8 @@ public sealed class SourceManifestTests
         return Path.Combine(dir, "gen");
     }
 
-    private static void AssertValid(string json)
+    /// <summary>Fails unless <paramref name="json"/> matches docs/manifest.schema.json.</summary>
+    internal static void AssertValid(string json)
     {
         using var doc = JsonDocument.Parse(json);
         var result = Schema.Value.Evaluate(doc.RootElement, new EvaluationOptions { OutputFormat = OutputFormat.List });

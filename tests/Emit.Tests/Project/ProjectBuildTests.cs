@@ -39,6 +39,40 @@ public sealed class ProjectBuildTests
         Assert.Equal(7, built.Out.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
     }
 
+    /// <summary>
+    /// A scorer with the alarm filter and explanations and a classifier over two models: the same files as compile
+    /// writes with the same options, the classifier's manifest included.
+    /// </summary>
+    [Fact]
+    public void Build_writes_what_compile_writes_for_firmware_features_and_a_classifier()
+    {
+        var dir = ProjectFileTests.FolderWithModel();
+        foreach (var (file, seed) in new[] { ("idle.json", 5), ("defrost.json", 6) })
+        {
+            var m = Emit.Tests.TestModels.Random(Emit.Model.ModelKind.Rbm, 8, 3, seed);
+            Emit.Model.ModelJson.WriteFile(
+                m.With(null, new Emit.Model.LogPartition(Emit.Tests.Reference.BruteForce.LogPartition(m), "exact", 0)),
+                Path.Combine(dir, file), force: true);
+        }
+        var project = Project(dir, """
+            {"model": "m.json", "name": "plant", "numeric": "fixed", "alarm_filter": "3/5", "explain": true, "out": "gen/plant"},
+            {"models": ["idle.json", "defrost.json"], "priors": [0.8, 0.2], "name": "modes", "targets": ["c", "csharp"], "out": "gen/modes"}
+            """);
+        var built = CliRunner.Run("build", project);
+        Assert.True(built.ExitCode == 0, built.Error);
+        var a = CliRunner.Run("compile", Path.Combine(dir, "m.json"), "--name", "plant", "--numeric", "fixed",
+            "--alarm-filter", "3/5", "--explain", "--out", Path.Combine(dir, "cmp", "plant"));
+        var b = CliRunner.Run("compile", Path.Combine(dir, "idle.json"), Path.Combine(dir, "defrost.json"),
+            "--priors", "0.8,0.2", "--name", "modes", "--target", "c,csharp", "--out", Path.Combine(dir, "cmp", "modes"));
+        Assert.True(a.ExitCode == 0 && b.ExitCode == 0, a.Error + b.Error);
+        var actual = Tree(Path.Combine(dir, "gen"));
+        Assert.Equal(Tree(Path.Combine(dir, "cmp")), actual);
+        Assert.Contains("modes/modes.emit.json", actual.Keys);
+        Assert.Contains("modes/modes_2.cs", actual.Keys);
+        Assert.Contains("#define PLANT_FILTER_N 5", actual["plant/plant.h"]);
+        Assert.Contains("plant_explain(", actual["plant/plant.h"]);
+    }
+
     [Fact]
     public void A_failing_entry_leaves_every_output_folder_as_it_was()
     {

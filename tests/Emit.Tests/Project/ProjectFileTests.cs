@@ -64,6 +64,41 @@ public sealed class ProjectFileTests
     }
 
     [Fact]
+    public void Reads_the_firmware_features_and_a_classifier_entry()
+    {
+        var dir = FolderWithModel();
+        ModelJson.WriteFile(TestModels.Random(ModelKind.Lateral, 10, 4, seed: 4), Path.Combine(dir, "m2.json"), force: true);
+        var p = Parse("""
+            {
+              "format": "emit.project",
+              "version": 1,
+              "scorers": [
+                { "model": "m.json", "name": "plant", "alarm_filter": "3/5", "explain": true, "stream": false },
+                { "models": ["m.json", "m2.json"], "priors": [0.8, 0.2], "name": "modes", "numeric": "fixed",
+                  "out": "gen/modes" },
+                { "models": ["m2.json", "m.json"], "name": "modes_even", "stream": false, "explain": false }
+              ]
+            }
+            """, dir);
+        var a = p.Scorers[0];
+        Assert.Equal(new Emit.Detection.AlarmFilterSpec(3, 5), a.Options.AlarmFilter);
+        Assert.True(a.Options.Explain);
+        Assert.False(a.Options.Stream);
+        Assert.False(a.IsClassifier);
+        Assert.Equal([Path.Combine(dir, "m.json")], a.ModelPaths);
+        var b = p.Scorers[1];
+        Assert.True(b.IsClassifier);
+        Assert.Equal([Path.Combine(dir, "m.json"), Path.Combine(dir, "m2.json")], b.ModelPaths);
+        Assert.Equal(Path.Combine(dir, "m.json"), b.ModelPath);
+        Assert.Equal([0.8, 0.2], b.Priors!);
+        Assert.Equal("modes", b.Options.Name);
+        Assert.Equal(NumericMode.Fixed, b.Options.Numeric);
+        Assert.Null(b.Options.AlarmFilter);
+        Assert.Equal(6, b.Line);
+        Assert.Null(p.Scorers[2].Priors);
+    }
+
+    [Fact]
     public void Accepts_a_byte_order_mark_and_crlf_line_ends()
     {
         var dir = FolderWithModel();
@@ -115,6 +150,25 @@ public sealed class ProjectFileTests
         { Head + "\"scorers\": [{\"model\": \"m.json\", \"templates\": \"missing\"}]}", "\"missing\"", "folder not found" },
         { Head + "\"scorers\": [{\"model\": \"m.json\"}]} {}", "{}", "not valid JSON" },
         { Head + "\"scorers\": [{\"model\": \"m.json\"}], \"version\": 1}", "\"version\"", "\"version\" appears twice" },
+        // firmware features (the compile options --alarm-filter, --stream, --explain)
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"alarm_filter\": \"6/5\"}]}", "\"6/5\"", "scorers[0].alarm_filter: alarm filter 6/5 is out of range" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"alarm_filter\": \"3/33\"}]}", "\"3/33\"", "alarm filter 3/33 is out of range" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"alarm_filter\": \"3 of 5\"}]}", "\"3 of 5\"", "is not K/N" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"stream\": 1}]}", "1}", "expected true or false for scorers[0].stream" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"explain\": \"yes\"}]}", "\"yes\"", "expected true or false for scorers[0].explain" },
+        // a classifier: several models, priors, a name
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\", \"priors\": [1, 2, 3]}]}", "[1", "scorers[0].priors: 3 priors for 2 models" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\", \"priors\": [1, 0]}]}", "[1", "positive finite" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\", \"stream\": true}]}", "\"stream\"", "scorers[0].stream is for one model, not a classifier" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\", \"explain\": true}]}", "\"explain\"", "scorers[0].explain is for one model, not a classifier" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\", \"alarm_filter\": \"3/5\"}]}", "\"alarm_filter\"", "scorers[0].alarm_filter is for one model, not a classifier" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"]}]}", "{", "scorers[0] is a classifier and needs a name" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\"], \"name\": \"c\"}]}", "[\"m", "scorers[0].models lists 1 model" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"nope.json\"], \"name\": \"c\"}]}", "\"nope", "scorers[0].models[1]: file not found" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"models\": [\"m.json\", \"m.json\"], \"name\": \"c\"}]}", "{", "scorers[0] has both model and models" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"priors\": [1, 2]}]}", "\"priors\"", "scorers[0].priors applies to a classifier" },
+        { Head + "\"scorers\": [{\"models\": [\"m.json\", \"m.json\"], \"name\": \"c\"},\n{\"model\": \"m.json\", \"name\": \"c_2\"}]}", "\n{", "scorers[1] writes c_2.h in the same folder as scorers[0]" },
+        { Head + "\"scorers\": [{\"model\": \"m.json\", \"name\": \"c\", \"targets\": [\"c\"]},\n{\"model\": \"m.json\", \"name\": \"c\", \"targets\": [\"csharp\"]}]}", "\n{", "scorers[1] writes c.emit.json in the same folder as scorers[0]" },
     };
 
     /// <summary>Line and column (from 1) of the marked token, counted in the text.</summary>

@@ -24,7 +24,9 @@ public sealed class ProjectSchemaTests
         {"format": "emit.project", "version": 1, "scorers": [
           {"model": "m.json"},
           {"model": "m.json", "name": "plant_q", "targets": ["c", "csharp"], "numeric": "fixed", "namespace": "Plant.Monitoring",
-           "out": "gen/q", "selftest_vectors": 3, "weights": "int8", "accumulator": "int64", "softplus_table": 1024}
+           "out": "gen/q", "selftest_vectors": 3, "weights": "int8", "accumulator": "int64", "softplus_table": 1024},
+          {"model": "m.json", "name": "plant_f", "alarm_filter": "3/5", "explain": true, "stream": true},
+          {"models": ["m.json", "m.json"], "priors": [0.8, 0.2], "name": "modes", "stream": false}
         ]}
         """;
 
@@ -32,7 +34,7 @@ public sealed class ProjectSchemaTests
     public void A_project_the_reader_accepts_satisfies_the_schema()
     {
         var dir = ProjectFileTests.FolderWithModel();
-        Assert.Equal(2, ProjectFile.Parse(Encoding.UTF8.GetBytes(Good), "p.json", dir).Scorers.Count);
+        Assert.Equal(4, ProjectFile.Parse(Encoding.UTF8.GetBytes(Good), "p.json", dir).Scorers.Count);
         Assert.True(Valid(Good));
     }
 
@@ -47,6 +49,14 @@ public sealed class ProjectSchemaTests
     [InlineData("\"plant_q\"", "\"9lives\"")]
     [InlineData("[\"c\", \"csharp\"]", "[\"rust\"]")]
     [InlineData("\"selftest_vectors\": 3", "\"selftest_vectors\": 0")]
+    [InlineData("\"3/5\"", "\"3 of 5\"")]
+    [InlineData("\"explain\": true", "\"explain\": 1")]
+    [InlineData("\"stream\": false", "\"stream\": true")]
+    [InlineData("\"name\": \"modes\", ", "")]
+    [InlineData("{\"models\":", "{\"model\": \"m.json\", \"models\":")]
+    [InlineData("\"plant_f\",", "\"plant_f\", \"priors\": [1, 2],")]
+    [InlineData("\"priors\": [0.8, 0.2]", "\"priors\": [0.8, 0]")]
+    [InlineData("[\"m.json\", \"m.json\"]", "[\"m.json\"]")]
     public void Schema_rejects_what_the_reader_rejects(string from, string to)
     {
         Assert.Contains(from, Good);

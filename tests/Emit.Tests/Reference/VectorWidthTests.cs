@@ -18,7 +18,7 @@ public sealed class VectorWidthTests
     [InlineData("DOTNET_EnableAVX512")]
     [InlineData("DOTNET_EnableAVX2")]
     [InlineData("DOTNET_EnableHWIntrinsic")]
-    public void Scores_have_the_same_bits_without_wide_vectors(string switchOff)
+    public async Task Scores_have_the_same_bits_without_wide_vectors(string switchOff)
     {
         var dir = CliRunner.TempDir();
         var model = Path.Combine(dir, "m.json");
@@ -42,9 +42,9 @@ public sealed class VectorWidthTests
         psi.Environment[switchOff] = "0";
         using var p = Process.Start(psi)!;
         var err = p.StandardError.ReadToEndAsync();
-        string output = p.StandardOutput.ReadToEnd();
-        Assert.True(p.WaitForExit(TimeSpan.FromMinutes(2)));
-        Assert.True(p.ExitCode == 0, err.Result);
+        string output = await p.StandardOutput.ReadToEndAsync();
+        await p.WaitForExitAsync().WaitAsync(TimeSpan.FromMinutes(2));
+        Assert.True(p.ExitCode == 0, await err);
         Assert.Equal(here.Out, output);
     }
 }

@@ -94,7 +94,7 @@ public sealed class SpecialInputTests
     }
 
     [Fact]
-    public void A_model_arriving_through_a_fifo_is_read()
+    public async Task A_model_arriving_through_a_fifo_is_read()
     {
         if (OperatingSystem.IsWindows()) return;
         var dir = CliRunner.TempDir();
@@ -103,17 +103,17 @@ public sealed class SpecialInputTests
         var r = CliRunner.Run("inspect", json);
         Assert.True(r.ExitCode == 0, r.Error);
         Assert.Contains("rbm", r.Out);
-        Assert.True(w1.Wait(TimeSpan.FromSeconds(30)));
+        await w1.WaitAsync(TimeSpan.FromSeconds(30));
 
         var npz = File.ReadAllBytes(Path.Combine(Emit.Tests.Demo.DemoDataFixture.RepositoryRoot(), "tests", "Emit.Tests", "Model", "Fixtures", "digits_native_f4_be_fortran.npz"));
         var (npzPath, w2) = Fifo(dir, "m.npz", npz);
         var n = CliRunner.Run("inspect", npzPath);
         Assert.True(n.ExitCode == 0, n.Error);
-        Assert.True(w2.Wait(TimeSpan.FromSeconds(30)));
+        await w2.WaitAsync(TimeSpan.FromSeconds(30));
     }
 
     [Fact]
-    public void Vectors_arriving_through_a_fifo_are_scored()
+    public async Task Vectors_arriving_through_a_fifo_are_scored()
     {
         if (OperatingSystem.IsWindows()) return;
         var dir = CliRunner.TempDir();
@@ -124,6 +124,6 @@ public sealed class SpecialInputTests
         var r = CliRunner.Run("score", model, "--input", data);
         Assert.True(r.ExitCode == 0, r.Error);
         Assert.Equal(3, r.Out.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
-        Assert.True(w.Wait(TimeSpan.FromSeconds(30)));
+        await w.WaitAsync(TimeSpan.FromSeconds(30));
     }
 }

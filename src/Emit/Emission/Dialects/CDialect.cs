@@ -123,10 +123,12 @@ public sealed class CDialect : TargetDialect
     /// int32 accumulator and at least <see cref="SpeedVectorBlock"/> hidden units. int16: word k of a row holds unit
     /// k's weight + 2^15 in bits 0..15 and unit k + P's in bits 16..31 (P = ⌈H/2⌉ words a row); one accumulator sums
     /// whole words, another the words shifted right by 16, and the low lane's sum is their difference. int8: word k
-    /// holds the weights + 2^7 of units k, k + Q, k + 2Q, k + 3Q (Q = ⌈H/4⌉) in its four bytes; the even and odd
-    /// bytes are added into 16-bit lanes, which are emptied into the accumulators every 256 rows, before a lane can
-    /// overflow. Missing units (H not a multiple of 2 or 4) have weight 0. The integers are the same as the plain
-    /// loop's: every partial sum is the pre-activation of some input, inside the proved range. With at most 32768
+    /// holds the weights + 2^7 of units k, k + Q, k + 2Q, k + 3Q (Q = ⌈H/4⌉ words a row, padded as
+    /// <see cref="PackedWords"/> says) in its four bytes; the even bytes are added into two 16-bit lanes, the words
+    /// shifted right by 8 (unmasked: B1 + 2^8·B2 + 2^16·B3, from which B2 is taken off when the lanes are emptied)
+    /// into a second sum, and both are emptied into the accumulators every 256 rows, before a lane can overflow.
+    /// Missing units (H not a multiple of 2 or 4, and padding words) have weight 0. The integers are the same as the
+    /// plain loop's: every partial sum is the pre-activation of some input, inside the proved range. With at most 32768
     /// visible units an int16 lane's sum stays below 2^31 (measured on bench/generated-c and bench/cortex-m3,
     /// docs/benchmarks.md).
     /// </summary>
@@ -138,11 +140,80 @@ public sealed class CDialect : TargetDialect
         && plan.Accumulator == AccumulatorType.Int32
         && plan.WeightType is Quantize.WeightType.Int16 or Quantize.WeightType.Int8 && plan.Model.Visible <= 32768;
 
+    /// <summary>
+    /// Rows per pass of the packed-row additions on Thumb-2 M-profile cores, where each row has a pointer advanced
+    /// word by word and a word's two lane sums stay in registers while all rows are added: 8 (three instructions per
+    /// row and word for int16, four for int8, plus a load and a store of each lane sum per pass; measured on
+    /// bench/cortex-m3, docs/benchmarks.md); 0 without packed rows. Other targets keep 4 rows per pass in vectorizable
+    /// blocks.
+    /// </summary>
+    public int RowPointerPass => PackedRows ? 8 : 0;
+
+    /// <summary>The waiting rows of a full pointer pass: waiting[0] .. waiting[7].</summary>
+    public IReadOnlyList<string> PointerPassBlock =>
+        Enumerable.Range(0, RowPointerPass).Select(k => $"waiting[{k}]").ToArray();
+
+    /// <summary>The initialiser of the pointer passes' waiting rows: NULL, one per row of a pass.</summary>
+    public string PointerPassNulls => string.Join(", ", Enumerable.Repeat("NULL", RowPointerPass));
+
+    /// <summary>
+    /// The smaller passes over the last rows (fewer than <see cref="RowPointerPass"/>), halving: the waiting rows of
+    /// each from waiting[count] after count is lowered by its size; a single last row has a pass of its own.
+    /// </summary>
+    public IReadOnlyList<IReadOnlyList<string>> PointerPassRests
+    {
+        get
+        {
+            var rests = new List<IReadOnlyList<string>>();
+            for (int n = RowPointerPass / 2; n >= 2; n /= 2)
+                rests.Add(Enumerable.Range(0, n).Select(k => k == 0 ? "waiting[count]" : $"waiting[count + {k}u]")
+                    .ToArray());
+            return rests;
+        }
+    }
+
+    /// <summary>
+    /// Whether the 16-bit lanes of int8 packed rows can fill before the last row (more than 256 visible units), so the
+    /// row loop must empty them every 256 rows.
+    /// </summary>
+    public bool LanesCanFill => PackedLanes == 4 && Plan.Visible > 256;
+
+    /// <summary>
+    /// Whether the lane sums of int16 packed rows go straight into the softplus loop (unit j's pre-activation is its
+    /// bias plus its lane's sum minus the rows' offset) instead of through an accumulator array: packed int16 rows of
+    /// an RBM.
+    /// </summary>
+    public bool FusedSoftplus => PackedRows && PackedLanes == 2 && !Plan.IsGeneral;
+
+    /// <summary>Words of a packed row whose every lane is a unit: ⌊H / lanes⌋.</summary>
+    public int FullWords => Plan.Hidden / PackedLanes;
+
     /// <summary>Weights to a packed word: 2 (int16) or 4 (int8).</summary>
     public int PackedLanes => ((FixedScorerPlan)Plan).WeightType == Quantize.WeightType.Int8 ? 4 : 2;
 
-    /// <summary>Words of a packed row: ⌈H / lanes⌉.</summary>
-    public int PackedWords => (Plan.Hidden + PackedLanes - 1) / PackedLanes;
+    /// <summary>
+    /// Words of a packed row: ⌈H / lanes⌉, for int8 from <see cref="PadInt8WordsFrom"/> words rounded up to a multiple
+    /// of 4.
+    /// </summary>
+    public int PackedWords
+    {
+        get
+        {
+            int words = (Plan.Hidden + PackedLanes - 1) / PackedLanes;
+            return PackedLanes == 4 && words >= PadInt8WordsFrom ? (words + 3) / 4 * 4 : words;
+        }
+    }
+
+    /// <summary>
+    /// From this many words a row, int8 packed rows are padded to a multiple of 4 words (at most 3 % more table):
+    /// then the row additions' last partial block of <see cref="SpeedVectorBlock"/> words is whole 128-bit vectors,
+    /// which compilers vectorize at -O2 instead of adding word by word (measured on bench/generated-c with callgrind,
+    /// docs/benchmarks.md). int16 rows are not padded: the Cortex-M pointer passes would add the padding words too.
+    /// </summary>
+    public const int PadInt8WordsFrom = 100;
+
+    /// <summary>Whether a packed row has lanes past the last unit (weight 0).</summary>
+    public bool HasMissingLanes => PackedWords * PackedLanes != Plan.Hidden;
 
     /// <summary>Row <paramref name="i"/> of the packed weight table (see <see cref="PackedRows"/>).</summary>
     public IReadOnlyList<uint> PackedRow(int i)
@@ -220,23 +291,8 @@ public sealed class CDialect : TargetDialect
     /// <summary>The type of the adjacency list starts of streamed scoring (2 entries per link).</summary>
     public string AdjacentStartType => 2L * Plan.LinkCount <= 0xFFFF ? "uint16_t" : "uint32_t";
 
-    /// <summary>
-    /// Bytes of <c>NAME_stream_t</c> under the usual C layout (members aligned to their size, as on the reference
-    /// cores and x86-64): HIDDEN pre-activations and the linear sum in the energy type, the lateral sum (fixed mode
-    /// with links), the flip count (float modes), the packed input, then padding to the energy type's alignment.
-    /// </summary>
-    public long StreamBytes
-    {
-        get
-        {
-            long e = Plan is FixedScorerPlan f ? f.AccumulatorBits / 8 : Plan.Mode == NumericMode.F32 ? 4 : 8;
-            long bytes = (Plan.Hidden + 1) * e;
-            if (Plan is FixedScorerPlan && Plan.HasLinks) bytes += e;
-            if (Plan is not FixedScorerPlan) bytes += 4;
-            bytes += Plan.PackedBytes;
-            return (bytes + e - 1) / e * e;
-        }
-    }
+    /// <summary>Bytes of <c>NAME_stream_t</c> (<see cref="FeatureFootprint.StreamRam"/>).</summary>
+    public long StreamBytes => FeatureFootprint.StreamRam(Plan);
 
     /// <summary>Predicted extra flash of the stream code on the reference core.</summary>
     public long StreamFlashBytes => FeatureFootprint.StreamFlash(Plan);

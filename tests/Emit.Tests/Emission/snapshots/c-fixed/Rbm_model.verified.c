@@ -55,6 +55,33 @@ typedef uint32_t rbm_uacc_t;
 /* The number of entries of a table. */
 #define RBM_COUNT(table) (sizeof(table) / sizeof((table)[0]))
 
+/*
+ * Row additions: on Thumb-2 M-profile cores (__ARM_ARCH_PROFILE 'M', __ARM_ARCH_ISA_THUMB 2: Cortex-M3, M4, M7, M33)
+ * 8 rows per pass through the words, a pointer per row and a word's two lane sums held in registers; elsewhere
+ * 4 rows per pass in blocks of 16 words, which compilers vectorize. Both add the same words in 32-bit unsigned
+ * arithmetic, so the results are the same integers; define RBM_ROW_POINTERS as 0 or 1 to choose.
+ */
+#ifndef RBM_ROW_POINTERS
+#if defined(__ARM_ARCH_PROFILE) && defined(__ARM_ARCH_ISA_THUMB)
+#if (__ARM_ARCH_PROFILE == 'M') && (__ARM_ARCH_ISA_THUMB == 2)
+#define RBM_ROW_POINTERS 1
+#endif
+#endif
+#endif
+#ifndef RBM_ROW_POINTERS
+#define RBM_ROW_POINTERS 0
+#endif
+/* The two lane sums of word k: side by side for the pointer passes, in two halves for vectorized blocks. */
+#if RBM_ROW_POINTERS
+#define RBM_ROWS_PER_PASS 8u
+#define RBM_FIRST(k) (2u * (k))
+#define RBM_SECOND(k) ((2u * (k)) + 1u)
+#else
+#define RBM_ROWS_PER_PASS 4u
+#define RBM_FIRST(k) (k)
+#define RBM_SECOND(k) (RBM_ROW_WORDS + (k))
+#endif
+
 /* ==== tables ==== */
 
 /* b: visible bias in Q7.24 (nats = value / 2^24), one per visible unit; the represented value in the comment. */
@@ -295,38 +322,22 @@ static rbm_acc_t rbm_g(rbm_acc_t mag, int d)
     if (segment < 256u) {
         /* a signed index (k + 1 cannot wrap) lets compilers vectorize the lookups */
         const int_least32_t k = (int_least32_t)segment;
-        const rbm_acc_t upper = (rbm_acc_t)rbm_softplus_table[k];
-        const rbm_acc_t lower = (rbm_acc_t)rbm_softplus_table[k + 1];
+        const int32_t *node = &rbm_softplus_table[k];
+        const rbm_acc_t upper = (rbm_acc_t)node[0];
+        const rbm_acc_t lower = (rbm_acc_t)node[1];
         const rbm_acc_t drop = upper - lower; /* >= 0: the table decreases */
         const rbm_uacc_t one = (rbm_uacc_t)1u << shift;
         const rbm_uacc_t r = m & (one - 1u);
-        /* d = 0 needs no case of its own: r = 0 and the half is 0, so the result is T[k] */
-        const rbm_uacc_t step = (((rbm_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
-        result = lower + (rbm_acc_t)step;
+        /*
+         * T[k+1] + floor((drop * (2^d - r) + 2^(d-1)) / 2^d) = T[k] - ceil((drop * r - 2^(d-1)) / 2^d)
+         * = T[k] - ((drop * r + 2^d - 1 - 2^(d-1)) >> d): the same integer with one subtraction fewer; the sum is
+         * non-negative and below the bound above, and the step is at most drop, so the result is at least T[k+1].
+         * d = 0 needs no case of its own: r = 0 and 2^d - 1 - 2^(d-1) = 0, so the result is T[k].
+         */
+        const rbm_uacc_t step = (((rbm_uacc_t)drop * r) + ((one - 1u) - (one >> 1u))) >> shift;
+        result = upper - (rbm_acc_t)step;
     }
     return result;
-}
-
-/*
- * Adds the packed sums of `rows` rows to the accumulators: low[k] holds the sum of the words k,
- * high[k] the sum of the words shifted right by 16. The sum of unit k + ROW_WORDS's lanes is high[k], unit k's
- * is low[k] - high[k] * 2^16 (modulo 2^32); each is the sum of the weights plus rows * 32768.
- * Scaling and overflow: a lane's sum is at most rows * 65535 < 2^31 (rows <= VISIBLE <= 32768), so it converts to
- * the accumulator type unchanged; lane sum - rows * 32768 is a sum of weights of some input's rows, and added to
- * the bias it is that input's pre-activation, inside its proved range.
- */
-static void rbm_unpack(const uint32_t low[RBM_ROW_WORDS], const uint32_t high[RBM_ROW_WORDS],
-    uint32_t rows, rbm_acc_t acc[RBM_ROW_WORDS * 2u])
-{
-    const uint32_t scaled = rows << 15u;
-    const rbm_acc_t offset = (rbm_acc_t)scaled;
-    uint_fast16_t k;
-    for (k = 0u; k < RBM_ROW_WORDS; ++k) {
-        const uint32_t lane_low = low[k] - (high[k] << 16u);
-        const uint32_t lane_high = high[k];
-        acc[k] += (rbm_acc_t)lane_low - offset;
-        acc[k + RBM_ROW_WORDS] += (rbm_acc_t)lane_high - offset;
-    }
 }
 
 /*
@@ -346,21 +357,23 @@ static rbm_acc_t rbm_softplus(rbm_acc_t a, int f)
 rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
 {
     rbm_acc_t energy = -4260; /* K, the centring constant of the error interval */
-    rbm_acc_t acc[RBM_ROW_WORDS * 2u]; /* past HIDDEN: the lanes of missing units */
-    uint32_t low[RBM_ROW_WORDS];
-    uint32_t high[RBM_ROW_WORDS];
+    uint32_t lanes[2u * RBM_ROW_WORDS]; /* the lane sums of the packed words (see the softplus loop below) */
     uint32_t rows = 0u;
-    const uint32_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
+#if RBM_ROW_POINTERS
+    /* rows not yet added */
+    const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL, NULL, NULL, NULL, NULL };
+#else
+    /* rows not yet added */
+    const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL };
+#endif
     unsigned int count = 0u;
     uint_fast16_t j;
+#if !RBM_ROW_POINTERS
     unsigned int u; /* unit within a block: the row additions go in blocks of 16, which compilers vectorize */
+#endif
     uint_fast16_t byte_index;
-    for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-        acc[j] = rbm_hidden_bias[j];
-    }
-    for (j = 0u; j < RBM_ROW_WORDS; ++j) {
-        low[j] = 0u;
-        high[j] = 0u;
+    for (j = 0u; j < (2u * RBM_ROW_WORDS); ++j) {
+        lanes[j] = 0u;
     }
     for (byte_index = 0u; byte_index < RBM_PACKED_BYTES_U; ++byte_index) {
         unsigned int bits = packed[byte_index];
@@ -374,48 +387,205 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             waiting[count] = &rbm_weights[i * RBM_ROW_WORDS];
             ++rows;
             ++count;
-            if (count == 4u) {
+            if (count == RBM_ROWS_PER_PASS) {
+#if RBM_ROW_POINTERS
+                {
+                    uint32_t *lane = lanes;
+                    const uint32_t *r0 = waiting[0];
+                    const uint32_t *r1 = waiting[1];
+                    const uint32_t *r2 = waiting[2];
+                    const uint32_t *r3 = waiting[3];
+                    const uint32_t *r4 = waiting[4];
+                    const uint32_t *r5 = waiting[5];
+                    const uint32_t *r6 = waiting[6];
+                    const uint32_t *r7 = waiting[7];
+                    uint_fast32_t k = RBM_ROW_WORDS;
+                    do {
+                        uint32_t first = lane[0];
+                        uint32_t second = lane[1];
+                        uint32_t w;
+                        w = *r0;
+                        ++r0;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r1;
+                        ++r1;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r2;
+                        ++r2;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r3;
+                        ++r3;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r4;
+                        ++r4;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r5;
+                        ++r5;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r6;
+                        ++r6;
+                        first += w;
+                        second += w >> 16u;
+                        w = *r7;
+                        ++r7;
+                        first += w;
+                        second += w >> 16u;
+                        lane[0] = first;
+                        lane[1] = second;
+                        lane += 2;
+                        --k;
+                    } while (k != 0u);
+                }
+#else
                 const uint32_t *r0 = waiting[0];
                 const uint32_t *r1 = waiting[1];
                 const uint32_t *r2 = waiting[2];
                 const uint32_t *r3 = waiting[3];
                 for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
                     for (u = 0u; u < 16u; ++u) {
-                        low[j + u] += r0[j + u] + r1[j + u]
+                        lanes[j + u] += r0[j + u] + r1[j + u]
                             + r2[j + u] + r3[j + u];
-                        high[j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
+                        lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
                             + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
                     }
                 }
                 for (; j < RBM_ROW_WORDS; ++j) {
-                    low[j] += r0[j] + r1[j]
+                    lanes[j] += r0[j] + r1[j]
                         + r2[j] + r3[j];
-                    high[j] += (r0[j] >> 16u) + (r1[j] >> 16u)
+                    lanes[RBM_ROW_WORDS + j] += (r0[j] >> 16u) + (r1[j] >> 16u)
                         + (r2[j] >> 16u) + (r3[j] >> 16u);
                 }
+#endif
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    while (count != 0u) { /* the last one to three rows, one at a time */
-        const uint32_t *row;
-        --count;
-        row = waiting[count];
-        for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
-            for (u = 0u; u < 16u; ++u) {
-                low[j + u] += row[j + u];
-                high[j + u] += (row[j + u] >> 16u);
-            }
-        }
-        for (; j < RBM_ROW_WORDS; ++j) {
-            low[j] += row[j];
-            high[j] += (row[j] >> 16u);
+#if RBM_ROW_POINTERS
+    if (count >= 4u) { /* 4 of the last rows in one pass */
+        count -= 4u;
+        {
+            uint32_t *lane = lanes;
+            const uint32_t *r0 = waiting[count];
+            const uint32_t *r1 = waiting[count + 1u];
+            const uint32_t *r2 = waiting[count + 2u];
+            const uint32_t *r3 = waiting[count + 3u];
+            uint_fast32_t k = RBM_ROW_WORDS;
+            do {
+                uint32_t first = lane[0];
+                uint32_t second = lane[1];
+                uint32_t w;
+                w = *r0;
+                ++r0;
+                first += w;
+                second += w >> 16u;
+                w = *r1;
+                ++r1;
+                first += w;
+                second += w >> 16u;
+                w = *r2;
+                ++r2;
+                first += w;
+                second += w >> 16u;
+                w = *r3;
+                ++r3;
+                first += w;
+                second += w >> 16u;
+                lane[0] = first;
+                lane[1] = second;
+                lane += 2;
+                --k;
+            } while (k != 0u);
         }
     }
-    rbm_unpack(low, high, rows, acc);
-    for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-        energy += rbm_softplus(acc[j], (int)rbm_fraction_bits[j]);
+    if (count >= 2u) { /* 2 of the last rows in one pass */
+        count -= 2u;
+        {
+            uint32_t *lane = lanes;
+            const uint32_t *r0 = waiting[count];
+            const uint32_t *r1 = waiting[count + 1u];
+            uint_fast32_t k = RBM_ROW_WORDS;
+            do {
+                uint32_t first = lane[0];
+                uint32_t second = lane[1];
+                uint32_t w;
+                w = *r0;
+                ++r0;
+                first += w;
+                second += w >> 16u;
+                w = *r1;
+                ++r1;
+                first += w;
+                second += w >> 16u;
+                lane[0] = first;
+                lane[1] = second;
+                lane += 2;
+                --k;
+            } while (k != 0u);
+        }
+    }
+#endif
+    while (count != 0u) { /* the last rows, one at a time */
+        --count;
+#if RBM_ROW_POINTERS
+        {
+            uint32_t *lane = lanes;
+            const uint32_t *r0 = waiting[count];
+            uint_fast32_t k = RBM_ROW_WORDS;
+            do {
+                uint32_t first = lane[0];
+                uint32_t second = lane[1];
+                uint32_t w;
+                w = *r0;
+                ++r0;
+                first += w;
+                second += w >> 16u;
+                lane[0] = first;
+                lane[1] = second;
+                lane += 2;
+                --k;
+            } while (k != 0u);
+        }
+#else
+        {
+            const uint32_t *row = waiting[count];
+            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
+                for (u = 0u; u < 16u; ++u) {
+                    lanes[j + u] += row[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (row[j + u] >> 16u);
+                }
+            }
+            for (; j < RBM_ROW_WORDS; ++j) {
+                lanes[j] += row[j];
+                lanes[RBM_ROW_WORDS + j] += (row[j] >> 16u);
+            }
+        }
+#endif
+    }
+    {
+        /*
+         * Unit j's sum is lanes[FIRST(j)] - lanes[SECOND(j)] * 2^16 (modulo 2^32), unit j + ROW_WORDS's is
+         * lanes[SECOND(j)]; each is the sum of its weights plus rows * 32768.
+         * Scaling and overflow: a lane's sum is at most rows * 65535 < 2^31 (rows <= VISIBLE <= 32768), so it
+         * converts to the accumulator type unchanged; lane sum - rows * 32768 is a sum of weights of some input's
+         * rows, and added to the bias it is that input's pre-activation, inside its proved range.
+         */
+        const uint32_t scaled = rows << 15u;
+        const rbm_acc_t offset = (rbm_acc_t)scaled;
+        for (j = 0u; j < 9u; ++j) {
+            const uint32_t lane_high = lanes[RBM_SECOND(j)];
+            const uint32_t lane_low = lanes[RBM_FIRST(j)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[j] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, (int)rbm_fraction_bits[j]);
+            a = rbm_hidden_bias[j + RBM_ROW_WORDS] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, (int)rbm_fraction_bits[j + RBM_ROW_WORDS]);
+        }
     }
     return -energy;
 }

@@ -307,14 +307,20 @@ static plant_acc_t plant_g(plant_acc_t mag, int d)
     if (segment < 256u) {
         /* a signed index (k + 1 cannot wrap) lets compilers vectorize the lookups */
         const int_least32_t k = (int_least32_t)segment;
-        const plant_acc_t upper = (plant_acc_t)plant_softplus_table[k];
-        const plant_acc_t lower = (plant_acc_t)plant_softplus_table[k + 1];
+        const int32_t *node = &plant_softplus_table[k];
+        const plant_acc_t upper = (plant_acc_t)node[0];
+        const plant_acc_t lower = (plant_acc_t)node[1];
         const plant_acc_t drop = upper - lower; /* >= 0: the table decreases */
         const plant_uacc_t one = (plant_uacc_t)1u << shift;
         const plant_uacc_t r = m & (one - 1u);
-        /* d = 0 needs no case of its own: r = 0 and the half is 0, so the result is T[k] */
-        const plant_uacc_t step = (((plant_uacc_t)drop * (one - r)) + (one >> 1u)) >> shift;
-        result = lower + (plant_acc_t)step;
+        /*
+         * T[k+1] + floor((drop * (2^d - r) + 2^(d-1)) / 2^d) = T[k] - ceil((drop * r - 2^(d-1)) / 2^d)
+         * = T[k] - ((drop * r + 2^d - 1 - 2^(d-1)) >> d): the same integer with one subtraction fewer; the sum is
+         * non-negative and below the bound above, and the step is at most drop, so the result is at least T[k+1].
+         * d = 0 needs no case of its own: r = 0 and 2^d - 1 - 2^(d-1) = 0, so the result is T[k].
+         */
+        const plant_uacc_t step = (((plant_uacc_t)drop * r) + ((one - 1u) - (one >> 1u))) >> shift;
+        result = upper - (plant_acc_t)step;
     }
     return result;
 }
