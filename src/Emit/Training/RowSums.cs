@@ -1,4 +1,5 @@
 using System.Numerics.Tensors;
+using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
 
 namespace Emit.Training;
@@ -26,6 +27,7 @@ internal static class RowSums
     /// Column block <paramref name="block"/> of y (rows × width) for the first <paramref name="rows"/> rows of
     /// <paramref name="on"/>.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public static void Block(int block, OnUnits on, int rows, double[] m, double[] bias, double[] y)
     {
         int width = bias.Length;
@@ -43,6 +45,7 @@ internal static class RowSums
     /// Rows [r0, r1) of the product, whole, with no bias, into y from its start: y[r - r0, c] = Σ m[i, c] over the
     /// units i on in row r.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public static void Rows(OnUnits on, int r0, int r1, double[] m, int width, Span<double> y)
     {
         for (int r = r0; r < r1; r++)
@@ -54,15 +57,93 @@ internal static class RowSums
     }
 
     /// <summary>
-    /// acc += m[i, c0 …] for each i in <paramref name="on"/>, in that order. Sixteen columns at a time are held in
-    /// four vector registers while the rows are added, then stored once. TensorPrimitives.Add(acc, row, acc) per row
-    /// loads and stores acc on every row and costs a call per row, which dominated the small benchmark's rows of 16
-    /// (docs/train.md, "Speed"); the additions, and so the bits, are the same.
+    /// y[i, ·] = Σ m[r, ·] over the first <paramref name="rows"/> rows r of <paramref name="byRow"/> that have unit i
+    /// on, rows in ascending order (the sums <see cref="Rows"/> makes from the transposed lists, the same additions in
+    /// the same order), and count[i] = the number of those rows. Walks the rows once, adding each to the sums of the
+    /// units it has on, so no transposed lists are needed; y (units × width) should stay in cache.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public static void Scatter(OnUnits byRow, int rows, double[] m, int width, Span<double> y, Span<int> count)
+    {
+        y.Clear();
+        count.Clear();
+        for (int r = 0; r < rows; r++)
+        {
+            var src = new ReadOnlySpan<double>(m, r * width, width);
+            foreach (int i in byRow.Of(r))
+            {
+                var dst = y.Slice(i * width, width);
+                int c = 0;
+                if (Vector512.IsHardwareAccelerated)
+                    for (; c + 8 <= width; c += 8)
+                        (Vector512.Create((ReadOnlySpan<double>)dst.Slice(c, 8)) + Vector512.Create(src.Slice(c, 8)))
+                            .CopyTo(dst.Slice(c, 8));
+                else if (Vector256.IsHardwareAccelerated)
+                    for (; c + 4 <= width; c += 4)
+                        (Vector256.Create((ReadOnlySpan<double>)dst.Slice(c, 4)) + Vector256.Create(src.Slice(c, 4)))
+                            .CopyTo(dst.Slice(c, 4));
+                for (; c < width; c++) dst[c] += src[c];
+                count[i]++;
+            }
+        }
+    }
+
+    /// <summary>
+    /// acc += m[i, c0 …] for each i in <paramref name="on"/>, in that order. Thirty-two (or sixteen, eight, four)
+    /// columns at a time are held in vector registers while the rows are added, then stored once.
+    /// TensorPrimitives.Add(acc, row, acc) per row loads and stores acc on every row and costs a call per row, which
+    /// dominated the small benchmark's rows of 16 (docs/train.md, "Speed"); the additions, and so the bits, are the
+    /// same at every vector width.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal static void Add(ReadOnlySpan<int> on, double[] m, int width, int c0, Span<double> acc)
     {
         int n = acc.Length, c = 0;
-        if (Vector256.IsHardwareAccelerated)
+        if (Vector512.IsHardwareAccelerated)
+        {
+            const int Lane = 8; // Vector512<double>.Count
+            for (; c + 4 * Lane <= n; c += 4 * Lane)
+            {
+                var a0 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                var a1 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + Lane, Lane));
+                var a2 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + 2 * Lane, Lane));
+                var a3 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + 3 * Lane, Lane));
+                foreach (int i in on)
+                {
+                    var row = new ReadOnlySpan<double>(m, i * width + c0 + c, 4 * Lane);
+                    a0 += Vector512.Create(row[..Lane]);
+                    a1 += Vector512.Create(row.Slice(Lane, Lane));
+                    a2 += Vector512.Create(row.Slice(2 * Lane, Lane));
+                    a3 += Vector512.Create(row.Slice(3 * Lane, Lane));
+                }
+                a0.CopyTo(acc.Slice(c, Lane));
+                a1.CopyTo(acc.Slice(c + Lane, Lane));
+                a2.CopyTo(acc.Slice(c + 2 * Lane, Lane));
+                a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
+            }
+            if (c + 2 * Lane <= n)
+            {
+                var a0 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                var a1 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + Lane, Lane));
+                foreach (int i in on)
+                {
+                    var row = new ReadOnlySpan<double>(m, i * width + c0 + c, 2 * Lane);
+                    a0 += Vector512.Create(row[..Lane]);
+                    a1 += Vector512.Create(row.Slice(Lane, Lane));
+                }
+                a0.CopyTo(acc.Slice(c, Lane));
+                a1.CopyTo(acc.Slice(c + Lane, Lane));
+                c += 2 * Lane;
+            }
+            if (c + Lane <= n)
+            {
+                var a0 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                foreach (int i in on) a0 += Vector512.Create(new ReadOnlySpan<double>(m, i * width + c0 + c, Lane));
+                a0.CopyTo(acc.Slice(c, Lane));
+                c += Lane;
+            }
+        }
+        else if (Vector256.IsHardwareAccelerated)
         {
             const int Lane = 4; // Vector256<double>.Count
             for (; c + 4 * Lane <= n; c += 4 * Lane)
@@ -85,8 +166,79 @@ internal static class RowSums
                 a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
             }
         }
+        if (Vector256.IsHardwareAccelerated)
+            for (; c + 4 <= n; c += 4) // the last columns of a row, four at a time in one register
+            {
+                var a0 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c, 4));
+                foreach (int i in on) a0 += Vector256.Create(new ReadOnlySpan<double>(m, i * width + c0 + c, 4));
+                a0.CopyTo(acc.Slice(c, 4));
+            }
         if (c == n) return;
         var rest = acc[c..];
         foreach (int i in on) TensorPrimitives.Add(rest, m.AsSpan(i * width + c0 + c, rest.Length), rest);
+    }
+
+    /// <summary>
+    /// acc[c] += m[j, c] · a[j] for j = 0, 1, … in that order, each product rounded before it is added (no fused
+    /// multiply-add): the operations of TensorPrimitives.MultiplyAdd(m row j, a[j], acc, acc) for each j, with
+    /// thirty-two (or sixteen) columns of acc held in registers over all j instead of a call and a load and store of
+    /// acc per j. m is a.Length × acc.Length.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal static void AddScaled(ReadOnlySpan<double> a, double[] m, Span<double> acc)
+    {
+        int n = acc.Length, c = 0;
+        if (Vector512.IsHardwareAccelerated)
+        {
+            const int Lane = 8; // Vector512<double>.Count
+            for (; c + 4 * Lane <= n; c += 4 * Lane)
+            {
+                var a0 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                var a1 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + Lane, Lane));
+                var a2 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + 2 * Lane, Lane));
+                var a3 = Vector512.Create((ReadOnlySpan<double>)acc.Slice(c + 3 * Lane, Lane));
+                for (int j = 0; j < a.Length; j++)
+                {
+                    var row = new ReadOnlySpan<double>(m, j * n + c, 4 * Lane);
+                    var s = Vector512.Create(a[j]);
+                    a0 += Vector512.Create(row[..Lane]) * s;
+                    a1 += Vector512.Create(row.Slice(Lane, Lane)) * s;
+                    a2 += Vector512.Create(row.Slice(2 * Lane, Lane)) * s;
+                    a3 += Vector512.Create(row.Slice(3 * Lane, Lane)) * s;
+                }
+                a0.CopyTo(acc.Slice(c, Lane));
+                a1.CopyTo(acc.Slice(c + Lane, Lane));
+                a2.CopyTo(acc.Slice(c + 2 * Lane, Lane));
+                a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
+            }
+        }
+        else if (Vector256.IsHardwareAccelerated)
+        {
+            const int Lane = 4; // Vector256<double>.Count
+            for (; c + 4 * Lane <= n; c += 4 * Lane)
+            {
+                var a0 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c, Lane));
+                var a1 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c + Lane, Lane));
+                var a2 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c + 2 * Lane, Lane));
+                var a3 = Vector256.Create((ReadOnlySpan<double>)acc.Slice(c + 3 * Lane, Lane));
+                for (int j = 0; j < a.Length; j++)
+                {
+                    var row = new ReadOnlySpan<double>(m, j * n + c, 4 * Lane);
+                    var s = Vector256.Create(a[j]);
+                    a0 += Vector256.Create(row[..Lane]) * s;
+                    a1 += Vector256.Create(row.Slice(Lane, Lane)) * s;
+                    a2 += Vector256.Create(row.Slice(2 * Lane, Lane)) * s;
+                    a3 += Vector256.Create(row.Slice(3 * Lane, Lane)) * s;
+                }
+                a0.CopyTo(acc.Slice(c, Lane));
+                a1.CopyTo(acc.Slice(c + Lane, Lane));
+                a2.CopyTo(acc.Slice(c + 2 * Lane, Lane));
+                a3.CopyTo(acc.Slice(c + 3 * Lane, Lane));
+            }
+        }
+        if (c == n) return;
+        var rest = acc[c..];
+        for (int j = 0; j < a.Length; j++)
+            TensorPrimitives.MultiplyAdd(m.AsSpan(j * n + c, rest.Length), a[j], rest, rest);
     }
 }

@@ -1,4 +1,7 @@
+using System.Buffers.Binary;
+using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
+using System.Runtime.Intrinsics.X86;
 
 namespace Emit.Training;
 
@@ -42,19 +45,40 @@ public sealed class SplitMix64
     /// <summary>
     /// destination[k] = 1 when <see cref="NextDouble"/> &lt; p[k], else 0, for k in order: the same draws and results
     /// as that loop, and the same state after it. SplitMix64's k-th state is the seed plus k times its increment,
-    /// so four consecutive outputs are computed side by side in vector lanes with the same integer operations.
+    /// so eight (or four) consecutive outputs are computed side by side in vector lanes with the same integer
+    /// operations.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Bernoulli(ReadOnlySpan<double> p, Span<byte> destination)
     {
         if (destination.Length < p.Length)
             throw new ArgumentOutOfRangeException(nameof(destination), "destination is shorter than p");
         ulong state = _state;
         int k = 0;
-        if (Vector256.IsHardwareAccelerated)
+        var scale = 1.0 / (1UL << 53);
+        if (Vector512.IsHardwareAccelerated && Bmi2.X64.IsSupported)
+        {
+            var step = Vector512.Create(Increment, unchecked(2 * Increment), unchecked(3 * Increment),
+                unchecked(4 * Increment), unchecked(5 * Increment), unchecked(6 * Increment), unchecked(7 * Increment),
+                unchecked(8 * Increment));
+            for (; k <= p.Length - 8; k += 8)
+            {
+                var z = Vector512.Create(state) + step;
+                state += unchecked(8 * Increment);
+                z = (z ^ Vector512.ShiftRightLogical(z, 30)) * Vector512.Create(0xBF58476D1CE4E5B9UL);
+                z = (z ^ Vector512.ShiftRightLogical(z, 27)) * Vector512.Create(0x94D049BB133111EBUL);
+                z ^= Vector512.ShiftRightLogical(z, 31);
+                var u = Vector512.ConvertToDouble(Vector512.ShiftRightLogical(z, 11)) * scale; // exact: 53 bits
+                ulong on = Vector512.LessThan(u, Vector512.Create(p.Slice(k, 8))).ExtractMostSignificantBits();
+                // Bit l of the mask to byte l (0 or 1) of one little-endian word.
+                BinaryPrimitives.WriteUInt64LittleEndian(destination.Slice(k, 8),
+                    Bmi2.X64.ParallelBitDeposit(on, 0x0101010101010101UL));
+            }
+        }
+        else if (Vector256.IsHardwareAccelerated)
         {
             var step = Vector256.Create(Increment, unchecked(2 * Increment), unchecked(3 * Increment),
                 unchecked(4 * Increment));
-            var scale = Vector256.Create(1.0 / (1UL << 53));
             for (; k <= p.Length - 4; k += 4)
             {
                 var z = Vector256.Create(state) + step;
@@ -72,7 +96,7 @@ public sealed class SplitMix64
         }
         for (; k < p.Length; k++)
         {
-            double u = (Emit.Reference.Xoshiro256.SplitMix64(ref state) >> 11) * (1.0 / (1UL << 53));
+            double u = (Emit.Reference.Xoshiro256.SplitMix64(ref state) >> 11) * scale;
             destination[k] = u < p[k] ? (byte)1 : (byte)0;
         }
         _state = state;

@@ -69,6 +69,16 @@ public sealed record TrainerSettings
     public int Threads { get; init; } = 1;
 
     /// <summary>
+    /// The least work, in additions (about), for which a loop of the trainer is split over <see cref="Threads"/>:
+    /// below it, handing the pieces to other threads and waiting for them costs more than it saves. With 60 000 the
+    /// small digits benchmark (64 visible × 16 hidden, batch 10) split its per-epoch reconstruction figure
+    /// (256 × 64 × 16 = 262 144) over two threads and ran slower with two threads than with one; the large benchmark's
+    /// loops (784 × 500, batch 100) have millions and are still split (docs/train.md, "Speed"). Only tests change it
+    /// (to force every loop onto threads); the model never depends on it.
+    /// </summary>
+    internal long ParallelWork { get; init; } = 300_000;
+
+    /// <summary>
     /// What is wrong with the settings, as (setting name, problem) pairs; empty when they are usable.
     /// </summary>
     public IReadOnlyList<(string Setting, string Problem)> Problems()

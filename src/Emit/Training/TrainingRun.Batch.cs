@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace Emit.Training;
 
 /// <summary>
@@ -7,12 +9,14 @@ namespace Emit.Training;
 /// </summary>
 internal sealed partial class TrainingRun
 {
-    private OnUnits? _onV, _onH;
+    private OnUnits? _onData, _onV, _onH; // the batch's rows, the chains' visible and hidden states
     private double[]? _field; // slots × nv: visible inputs b + W h of the chains
     private double[]? _act;   // slots × nh: hidden inputs c + vW of the chains
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void RbmBatch()
     {
+        _onData ??= new OnUnits(_slots, _nv);
         _onV ??= new OnUnits(_slots, _nv);
         _onH ??= new OnUnits(_slots, _nh);
         _field ??= new double[_slots * _nv];
@@ -20,8 +24,8 @@ internal sealed partial class TrainingRun
         int n = _rowsInBatch, nNeg = _negRows, nv = _nv, nh = _nh;
 
         // Positive phase: p(h | v) of the batch rows.
-        for (int r = 0; r < n; r++) _onV.Set(r, _data.Row(_order[_batchStart + r]));
-        Product(_onV, n, _p.W, _p.C, _phPos);
+        for (int r = 0; r < n; r++) _onData.Set(r, _data.Row(_order[_batchStart + r]));
+        Product(_onData, n, _p.W, _p.C, _phPos);
         TrainingMath.Sigmoid(_phPos.AsSpan(0, n * nh), _phPos.AsSpan(0, n * nh));
         if (_s.Method == TrainingMethod.Cd)
         {
@@ -41,7 +45,7 @@ internal sealed partial class TrainingRun
             bool last = step == _s.GibbsSteps - 1;
             for (int r = 0; r < nNeg; r++) _onH.Set(r, _slot[r].H);
             Product(_onH, nNeg, _p.WT, _p.B, _field);
-            For(nNeg, nv * 8L, r =>
+            For(nNeg, nv * 8L, [MethodImpl(MethodImplOptions.AggressiveOptimization)] (r) =>
             {
                 var slot = _slot[r];
                 var p = _field.AsSpan(r * nv, nv);
@@ -50,7 +54,7 @@ internal sealed partial class TrainingRun
             });
             for (int r = 0; r < nNeg; r++) _onV.Set(r, _slot[r].V);
             Product(_onV, nNeg, _p.W, _p.C, _act);
-            For(nNeg, nh * 8L, r =>
+            For(nNeg, nh * 8L, [MethodImpl(MethodImplOptions.AggressiveOptimization)] (r) =>
             {
                 var slot = _slot[r];
                 var p = _act.AsSpan(r * nh, nh);
@@ -61,14 +65,18 @@ internal sealed partial class TrainingRun
             });
         }
         for (int r = 0; r < nNeg; r++) _slot[r].V.CopyTo(_vNeg.AsSpan(r * nv, nv));
+        // The update's sums walk the same lists: _onData holds the batch rows, _onV the chains' last visible states.
+        _rowListsSet = true;
     }
 
     /// <summary>y = bias + (0/1 rows of <paramref name="on"/>) × m, split over column blocks.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Product(OnUnits on, int rows, double[] m, double[] bias, double[] y)
     {
         int width = bias.Length, depth = m.Length / width;
         // About a third of the units are on in typical binary data: the work estimate only picks serial or parallel.
         long work = (long)rows * depth * Math.Min(width, RowSums.BlockColumns) / 3;
-        For(RowSums.Blocks(width), work, b => RowSums.Block(b, on, rows, m, bias, y));
+        For(RowSums.Blocks(width), work,
+            [MethodImpl(MethodImplOptions.AggressiveOptimization)] (b) => RowSums.Block(b, on, rows, m, bias, y));
     }
 }

@@ -1,4 +1,4 @@
-using System.Numerics.Tensors;
+using System.Runtime.CompilerServices;
 using Emit.Model;
 using Emit.Reference;
 
@@ -20,6 +20,7 @@ internal sealed partial class TrainingRun
 
     private int[] _pllUnit = [];
     private double[]? _squares;
+    private OnUnits? _reconOn;
 
     private void PrepareEvaluation()
     {
@@ -85,24 +86,34 @@ internal sealed partial class TrainingRun
     /// <summary>
     /// Mean squared difference between training rows and p(v_i | mean-field h, other visible units), over the first
     /// rows. Rows run in parallel, each writing its squared differences; they are summed afterwards in row and unit
-    /// order, and each visible input is b_i + Σ_j W_ij a_j added in j order (TensorPrimitives.MultiplyAdd over rows of
-    /// the transpose, unfused), so the figure does not depend on threads.
+    /// order. Each hidden input is c_j + Σ W_ij over the units on, added in i order (<see cref="RowSums.Add"/>), and
+    /// each visible input is b_i + Σ_j W_ij a_j added in j order, each term rounded before it is added
+    /// (<see cref="RowSums.AddScaled"/>), so the figure does not depend on threads or the vector width.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double ReconstructionError()
     {
         int rows = Math.Min(_data.Rows, ReconstructionRows), nv = _nv, nh = _nh;
         _squares ??= new double[rows * nv];
+        if (_reconOn is null)
+        {
+            // The rows never change: their lists of units on are made once.
+            _reconOn = new OnUnits(rows, nv);
+            for (int r = 0; r < rows; r++) _reconOn.Set(r, _data.Row(r));
+        }
         var squares = _squares;
-        For(rows, (long)nv * nh, r =>
+        var on = _reconOn;
+        For(rows, (long)nv * nh, [MethodImpl(MethodImplOptions.AggressiveOptimization)] (r) =>
         {
             var v = _data.Row(r);
             var scratch = _rowScratch.Value!;
             var a = scratch.AsSpan(0, nh);
             var x = scratch.AsSpan(Math.Max(nv, nh), nv);
-            HiddenInput(v, a);
+            _p.C.CopyTo(a);
+            RowSums.Add(on.Of(r), _p.W, nh, 0, a);
             TrainingMath.Sigmoid(a, a);
             _p.B.CopyTo(x);
-            for (int j = 0; j < nh; j++) TensorPrimitives.MultiplyAdd(_p.WT.AsSpan(j * nv, nv), a[j], x, x);
+            RowSums.AddScaled(a, _p.WT, x);
             if (_p.L is { } l)
                 for (int i = 0; i < nv; i++)
                     for (int k = 0; k < nv; k++)

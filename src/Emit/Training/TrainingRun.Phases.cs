@@ -1,5 +1,7 @@
 using System.Numerics;
 using System.Numerics.Tensors;
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using Emit.Model;
 
 namespace Emit.Training;
@@ -40,6 +42,7 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>a = c + Σ_{i: v_i = 1} W_i (rows of W added in unit order).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void HiddenInput(ReadOnlySpan<byte> v, Span<double> a)
     {
         _p.C.CopyTo(a);
@@ -181,32 +184,64 @@ internal sealed partial class TrainingRun
     private const int UpdateChunk = 2048;
 
     private OnUnits? _posOn, _negOn;
+    private bool _rowListsSet;
+    private int[]? _allRows; // 0, 1, …, slots - 1
+    private int[]? _posCount, _negCount; // batch rows and chains with each visible unit on (one-chunk update)
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Update(double lr, double momentum)
     {
         int n = _rowsInBatch, nNeg = _negRows, nv = _nv, nh = _nh;
         double wd = _s.WeightDecay;
         _posOn ??= new OnUnits(nv, _slots);
         _negOn ??= new OnUnits(nv, _slots);
-        _posOn.SetColumns(_data.Units, nv, n, _order, _batchStart);
-        _negOn.SetColumns(_vNeg, nv, nNeg, [], 0);
+        if (!_rowListsSet)
+        {
+            // The kinds with links sample slot by slot and leave no lists of the units on.
+            _onData ??= new OnUnits(_slots, nv);
+            _onV ??= new OnUnits(_slots, nv);
+            for (int r = 0; r < n; r++) _onData.Set(r, _data.Row(_order[_batchStart + r]));
+            for (int r = 0; r < nNeg; r++) _onV.Set(r, _vNeg.AsSpan(r * nv, nv));
+        }
+        _rowListsSet = false;
         // Visible units in chunks of about UpdateChunk weights, so short rows (few hidden units) share each call and
         // each chunk's sums stay in the thread's cache.
-        int chunk = Math.Max(1, UpdateChunk / nh);
-        For((nv + chunk - 1) / chunk, (long)(n + nNeg) * nh * chunk / 3, c =>
+        int chunk = Math.Max(1, UpdateChunk / nh), chunks = (nv + chunk - 1) / chunk;
+        // One chunk (all of W, at most UpdateChunk weights): each batch row's p(h | v) is added to the rows of the
+        // units it has on, rows in order, with no per-unit lists; several chunks: per-unit lists, so each chunk
+        // (thread) sums only its own units. The same additions in the same order either way.
+        bool byRow = chunks == 1;
+        if (!byRow)
+        {
+            _posOn.SetTransposed(_onData!, n);
+            _negOn.SetTransposed(_onV!, nNeg);
+        }
+        _posCount ??= new int[nv];
+        _negCount ??= new int[nv];
+        For(chunks, (long)(n + nNeg) * nh * chunk / 3, [MethodImpl(MethodImplOptions.AggressiveOptimization)] (c) =>
         {
             int i0 = c * chunk, i1 = Math.Min(nv, i0 + chunk), span = (i1 - i0) * nh;
             var scratch = _chunkScratch.Value!;
             var pos = scratch.AsSpan(0, span);
             var neg = scratch.AsSpan(span, span);
             // Σ over batch rows with v_i = 1 of p(h | v), rows in order: the products V0ᵀP and VnegᵀQ.
-            RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
-            RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
-            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span),
-                scratch.AsSpan(2 * span, span), lr, momentum, wd);
+            if (byRow)
+            {
+                RowSums.Scatter(_onData!, n, _phPos, nh, pos, _posCount);
+                RowSums.Scatter(_onV!, nNeg, _hNeg, nh, neg, _negCount);
+            }
+            else
+            {
+                RowSums.Rows(_posOn, i0, i1, _phPos, nh, pos);
+                RowSums.Rows(_negOn, i0, i1, _hNeg, nh, neg);
+            }
+            Step(pos, n, neg, nNeg, _p.W.AsSpan(i0 * nh, span), _velocity!.W.AsSpan(i0 * nh, span), lr, momentum,
+                wd);
             for (int i = i0; i < i1; i++)
             {
-                double gb = (double)_posOn.Of(i).Length / n - (double)_negOn.Of(i).Length / nNeg;
+                int onPos = byRow ? _posCount[i] : _posOn.Of(i).Length;
+                int onNeg = byRow ? _negCount[i] : _negOn.Of(i).Length;
+                double gb = (double)onPos / n - (double)onNeg / nNeg;
                 _velocity.B[i] = momentum * _velocity.B[i] + lr * gb;
                 _p.B[i] += _velocity.B[i];
                 if (_p.L is { } l) UpdateLinks(l, i, lr, momentum);
@@ -217,12 +252,13 @@ internal sealed partial class TrainingRun
             var scratch = _rowScratch.Value!;
             var pos = scratch.AsSpan(0, nh);
             var neg = scratch.AsSpan(nh, nh);
-            var t = scratch.AsSpan(2 * nh, nh);
             pos.Clear();
             neg.Clear();
-            for (int r = 0; r < n; r++) TensorPrimitives.Add(pos, _phPos.AsSpan(r * nh, nh), pos);
-            for (int r = 0; r < nNeg; r++) TensorPrimitives.Add(neg, _hNeg.AsSpan(r * nh, nh), neg);
-            Step(pos, n, neg, nNeg, _p.C, _velocity!.C, t, lr, momentum, 0);
+            // Rows 0, 1, … added in order with the row sums' register-held loop (one call, not one per row).
+            _allRows ??= Enumerable.Range(0, _slots).ToArray();
+            RowSums.Add(_allRows.AsSpan(0, n), _phPos, nh, 0, pos);
+            RowSums.Add(_allRows.AsSpan(0, nNeg), _hNeg, nh, 0, neg);
+            Step(pos, n, neg, nNeg, _p.C, _velocity!.C, lr, momentum, 0);
         }
         if (_p.M is { } mm)
         {
@@ -278,21 +314,49 @@ internal sealed partial class TrainingRun
     }
 
     /// <summary>
-    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element. Each operation is one
-    /// TensorPrimitives call (no fused multiply-add), so every element is rounded exactly as the scalar expression
-    /// would be. pos and neg are overwritten; t is scratch.
+    /// Δθ ← μΔθ + ε(pos/n - neg/nNeg - λθ); θ ← θ + Δθ, element by element, eight (or four) elements at a time in one
+    /// pass. Every operation is rounded on its own (no fused multiply-add), so each element gets the bits of the
+    /// scalar expression whatever the vector width.
     /// </summary>
-    private static void Step(Span<double> pos, int n, Span<double> neg, int nNeg, Span<double> theta,
-        Span<double> velocity, Span<double> t, double lr, double momentum, double decay)
+    /// <remarks>
+    /// Own loop rather than one TensorPrimitives call per operation: in the small benchmark the library's kernels ran
+    /// unoptimised (tier 0) for the first part of every run under .NET's default tiered compilation, and making them
+    /// optimised from the start needed a runtime setting that slowed every command's start-up (docs/train.md, "Speed").
+    /// </remarks>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void Step(ReadOnlySpan<double> pos, int n, ReadOnlySpan<double> neg, int nNeg, Span<double> theta,
+        Span<double> velocity, double lr, double momentum, double decay)
     {
-        TensorPrimitives.Divide(pos, (double)n, pos);
-        TensorPrimitives.Divide(neg, (double)nNeg, neg);
-        TensorPrimitives.Subtract(pos, neg, pos);            // g
-        TensorPrimitives.Multiply(theta, decay, t);          // λθ
-        TensorPrimitives.Subtract(pos, t, t);                // g - λθ
-        TensorPrimitives.Multiply(t, lr, t);                 // ε(g - λθ)
-        TensorPrimitives.Multiply(velocity, momentum, velocity);
-        TensorPrimitives.Add(velocity, t, velocity);
-        TensorPrimitives.Add(theta, velocity, theta);
+        double dn = n, dNeg = nNeg;
+        int k = 0, len = theta.Length;
+        if (Vector512.IsHardwareAccelerated)
+            for (; k + 8 <= len; k += 8)
+            {
+                var th = Vector512.Create((ReadOnlySpan<double>)theta.Slice(k, 8));
+                var g = Vector512.Create(pos.Slice(k, 8)) / dn
+                        - Vector512.Create(neg.Slice(k, 8)) / dNeg;
+                var step = (g - th * decay) * lr;
+                var v = Vector512.Create((ReadOnlySpan<double>)velocity.Slice(k, 8)) * momentum + step;
+                v.CopyTo(velocity.Slice(k, 8));
+                (th + v).CopyTo(theta.Slice(k, 8));
+            }
+        else if (Vector256.IsHardwareAccelerated)
+            for (; k + 4 <= len; k += 4)
+            {
+                var th = Vector256.Create((ReadOnlySpan<double>)theta.Slice(k, 4));
+                var g = Vector256.Create(pos.Slice(k, 4)) / dn
+                        - Vector256.Create(neg.Slice(k, 4)) / dNeg;
+                var step = (g - th * decay) * lr;
+                var v = Vector256.Create((ReadOnlySpan<double>)velocity.Slice(k, 4)) * momentum + step;
+                v.CopyTo(velocity.Slice(k, 4));
+                (th + v).CopyTo(theta.Slice(k, 4));
+            }
+        for (; k < len; k++)
+        {
+            double g = pos[k] / dn - neg[k] / dNeg;
+            double v = velocity[k] * momentum + (g - theta[k] * decay) * lr;
+            velocity[k] = v;
+            theta[k] += v;
+        }
     }
 }

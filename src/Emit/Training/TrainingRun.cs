@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Numerics.Tensors;
+using System.Runtime.CompilerServices;
 using Emit.Model;
 
 namespace Emit.Training;
@@ -9,12 +10,6 @@ internal sealed partial class TrainingRun : IDisposable
 {
     /// <summary>Visible biases start at log(p / (1 - p)) with p clipped to this distance from 0 and 1.</summary>
     internal const double MarginalClip = 0.001;
-
-    /// <summary>
-    /// Below this many additions per parallel loop the work runs on the calling thread (thread start-up would cost
-    /// more).
-    /// </summary>
-    private const long ParallelWork = 60_000;
 
     private readonly TrainingData _data;
     private readonly TrainingData? _validation;
@@ -33,6 +28,9 @@ internal sealed partial class TrainingRun : IDisposable
     private readonly ThreadLocal<double[]> _chunkScratch;
     private readonly int[] _order;
     private int _rowsInBatch, _negRows, _batchStart;
+
+    /// <summary>Loops that were split over threads so far (for the tests of the thread choice).</summary>
+    internal int ParallelLoops { get; private set; }
 
     public TrainingRun(TrainingData data, TrainingData? validation, TrainerSettings s)
     {
@@ -75,16 +73,21 @@ internal sealed partial class TrainingRun : IDisposable
         _order = Enumerable.Range(0, data.Rows).ToArray();
         int scratch = Math.Max(_nv, _nh) * 4;
         _rowScratch = new ThreadLocal<double[]>(() => new double[scratch]);
-        int chunkScratch = 3 * Math.Max(UpdateChunk, _nh);
+        int chunkScratch = 2 * Math.Max(UpdateChunk, _nh);
         _chunkScratch = new ThreadLocal<double[]>(() => new double[chunkScratch]);
         PrepareEvaluation();
     }
 
     /// <summary>Releases the per-thread scratch rows.</summary>
-    public void Dispose() => _rowScratch.Dispose();
+    public void Dispose()
+    {
+        _rowScratch.Dispose();
+        _chunkScratch.Dispose();
+    }
 
     public ImmutableArray<int> ConstantUnits { get; }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public TrainingResult Execute(Action<EpochReport>? progress, CancellationToken cancel)
     {
         var reports = ImmutableArray.CreateBuilder<EpochReport>();
@@ -148,6 +151,7 @@ internal sealed partial class TrainingRun : IDisposable
         return _s.LearningRate * (_s.Epochs - epoch) / (_s.Epochs - half);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void CheckFinite(int epoch)
     {
         static bool Finite(double[]? x)
@@ -163,15 +167,18 @@ internal sealed partial class TrainingRun : IDisposable
     }
 
     /// <summary>
-    /// Runs body(0..count-1), on several threads when there is enough work; each index writes only its own outputs.
+    /// Runs body(0..count-1), on several threads when the loop has at least
+    /// <see cref="TrainerSettings.ParallelWork"/> units of work (count × workPerItem); each index writes only its own
+    /// outputs, so the choice never changes a result.
     /// </summary>
     private void For(int count, long workPerItem, Action<int> body)
     {
-        if (_s.Threads <= 1 || count < 2 || count * workPerItem < ParallelWork)
+        if (_s.Threads <= 1 || count < 2 || count * workPerItem < _s.ParallelWork)
         {
             for (int k = 0; k < count; k++) body(k);
             return;
         }
+        ParallelLoops++;
         Parallel.For(0, count, new ParallelOptions { MaxDegreeOfParallelism = _s.Threads }, body);
     }
 }

@@ -11,9 +11,11 @@ namespace Emit.Tests.Training;
 public sealed class RowSumsTests
 {
     [Theory]
-    [InlineData(7, 3, 5)]      // narrower than one vector register group: the TensorPrimitives tail only
+    [InlineData(7, 3, 5)]      // one four-column register and a one-column TensorPrimitives tail
     [InlineData(10, 64, 16)]   // the small benchmark's shape
     [InlineData(13, 100, 150)] // several column blocks, a partial last block, a tail after the sixteen-column groups
+    [InlineData(5, 20, 53)]    // one block of 32 + 16 + 4 + 1 columns: every register group width and the tail
+    [InlineData(6, 211, 9)]    // rows of 211 units: three 64-unit masks, a 16-unit mask, three single units
     public void Products_equal_the_in_order_sum_and_MathNet(int rows, int depth, int width)
     {
         var rng = new SplitMix64((ulong)(rows * 1000 + width));
@@ -25,6 +27,8 @@ public sealed class RowSumsTests
         for (int k = 0; k < x.Length; k++) x[k] = rng.Chance(0.3) ? (byte)1 : (byte)0;
         var on = new OnUnits(rows, depth);
         for (int r = 0; r < rows; r++) on.Set(r, x.AsSpan(r * depth, depth));
+        for (int r = 0; r < rows; r++) // the units on, ascending
+            Assert.Equal(Enumerable.Range(0, depth).Where(i => x[r * depth + i] == 1), on.Of(r).ToArray());
         var y = new double[rows * width];
         for (int b = 0; b < RowSums.Blocks(width); b++) RowSums.Block(b, on, rows, m, bias, y);
 
@@ -42,7 +46,7 @@ public sealed class RowSumsTests
 
         // The transposed lists: unit i's rows with x[r, i] = 1, ascending; Rows sums them without a bias.
         var columns = new OnUnits(depth, rows);
-        columns.SetColumns(x, depth, rows, [], 0);
+        columns.SetTransposed(on, rows);
         var yt = new double[depth * width];
         var mr = new double[rows * width];
         Array.Copy(m, mr, Math.Min(m.Length, mr.Length));
@@ -58,5 +62,13 @@ public sealed class RowSumsTests
                 Assert.Equal(BitConverter.DoubleToInt64Bits(expected), BitConverter.DoubleToInt64Bits(yt[i * width + c]));
             }
         }
+
+        // Scatter makes the same sums from the row lists (each row added to the units it has on, rows in order).
+        var ys = new double[depth * width];
+        Array.Fill(ys, double.NaN);
+        var counts = new int[depth];
+        RowSums.Scatter(on, rows, mr, width, ys, counts);
+        Assert.Equal(yt.Select(BitConverter.DoubleToInt64Bits), ys.Select(BitConverter.DoubleToInt64Bits));
+        for (int i = 0; i < depth; i++) Assert.Equal(columns.Of(i).Length, counts[i]);
     }
 }

@@ -85,4 +85,24 @@ public sealed class SplitMix64Tests
         Assert.Equal(b.Next(), a.Next());
         Assert.InRange(bits.Count(x => x == 1), 400, 600);
     }
+
+    // Every short length, so the eight-lane, four-lane and one-at-a-time paths each meet the start and the end.
+    [Fact]
+    public void Bernoulli_is_the_draw_by_draw_loop_at_every_short_length()
+    {
+        var source = new SplitMix64(6);
+        for (int n = 0; n <= 40; n++)
+        {
+            var p = new double[n];
+            for (int k = 0; k < n; k++) p[k] = source.NextDouble();
+            var a = new SplitMix64((ulong)n);
+            var b = new SplitMix64((ulong)n);
+            var bits = new byte[n + 8];
+            Array.Fill(bits, (byte)7);
+            a.Bernoulli(p, bits);
+            for (int k = 0; k < n; k++) Assert.Equal(b.NextDouble() < p[k] ? 1 : 0, bits[k]);
+            Assert.All(bits.Skip(n), x => Assert.Equal(7, x)); // nothing written past the draws
+            Assert.Equal(b.Next(), a.Next());
+        }
+    }
 }

@@ -92,6 +92,16 @@ public sealed class TrainingMathTests
                     || (double.IsNaN(expected) && double.IsNaN(output[k])), $"sigmoid({input[k]:R}) at offset {start}");
             }
         }
+        // Every short length: the sixteen-, eight- and four-lane loops and the scalar tail each meet the start and the
+        // end of a span.
+        for (int n = 0; n <= 40; n++)
+        {
+            var shortOut = new double[n];
+            TrainingMath.Sigmoid(input.AsSpan(0, n), shortOut);
+            for (int k = 0; k < n; k++)
+                Assert.Equal(BitConverter.DoubleToInt64Bits(TrainingMath.Sigmoid(input[k])),
+                    BitConverter.DoubleToInt64Bits(shortOut[k]));
+        }
         var same = (double[])input.Clone();
         TrainingMath.Sigmoid(same, same); // in place
         Assert.Equal(output.Skip(3), same.Skip(3));
