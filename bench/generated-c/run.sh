@@ -6,6 +6,7 @@ set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$here/../.."
 work="${BENCH_WORK:-$(mktemp -d)}"
+mkdir -p "$work"
 flags=("$@")
 [ ${#flags[@]} -eq 0 ] && flags=(-O2)
 python3 "$here/make_model.py" "$work"
