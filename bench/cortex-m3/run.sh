@@ -9,6 +9,7 @@ set -euo pipefail
 here="$(cd "$(dirname "$0")" && pwd)"
 root="$here/../.."
 work="${BENCH_WORK:-$(mktemp -d)}"
+mkdir -p "$work"
 emit=(dotnet run --project "$root/src/Emit.Cli" -c Release --)
 cflags=(-mcpu=cortex-m3 -mthumb -mfloat-abi=soft -O2 -std=c99 -Wall -Wextra -Werror --specs=rdimon.specs -T "$here/link.ld")
 qemu=(timeout 600 qemu-system-arm -machine mps2-an385 -cpu cortex-m3 -nographic -monitor none -serial none
