@@ -55,16 +55,8 @@ public static class ClassifierManifestJson
     /// </summary>
     public static ClassifierManifest ReadFile(string path) => Read(ReadText(path), path);
 
-    /// <summary>
-    /// Throws <see cref="EmitException"/> (with line and column) when the file at <paramref name="path"/> cannot be
-    /// read or is not JSON, so that a damaged manifest is reported as such, not as a manifest of the other layout.
-    /// </summary>
-    public static void CheckJson(string path)
-    {
-        using var doc = SourceManifestJson.Parse(ReadText(path), path);
-    }
-
-    private static string ReadText(string path)
+    /// <summary>The manifest file's text; throws <see cref="EmitException"/> naming the file when unreadable.</summary>
+    public static string ReadText(string path)
     {
         try { return File.ReadAllText(path); }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
@@ -73,17 +65,26 @@ public static class ClassifierManifestJson
         }
     }
 
-    /// <summary>True when the file at <paramref name="path"/> is JSON with a <c>classifier</c> object at its top.
+    /// <summary>
+    /// True when <paramref name="text"/> (the manifest at <paramref name="path"/>) has a <c>classifier</c> object at
+    /// its top, false for a scorer's manifest; throws <see cref="EmitException"/> with line and column when it is not
+    /// JSON, so that a damaged manifest is reported as such, not as a manifest of the other layout.
+    /// </summary>
+    public static bool IsClassifierText(string text, string path)
+    {
+        using var doc = SourceManifestJson.Parse(text, path);
+        return doc.RootElement.ValueKind == JsonValueKind.Object
+               && doc.RootElement.TryGetProperty("classifier", out _);
+    }
+
+    /// <summary>
+    /// True when the file at <paramref name="path"/> is a readable classifier manifest (JSON with a
+    /// <c>classifier</c> object at its top); false for anything else, for scanning a folder.
     /// </summary>
     public static bool IsClassifier(string path)
     {
-        try
-        {
-            using var doc = JsonDocument.Parse(File.ReadAllText(path));
-            return doc.RootElement.ValueKind == JsonValueKind.Object
-                   && doc.RootElement.TryGetProperty("classifier", out _);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException or JsonException)
+        try { return IsClassifierText(File.ReadAllText(path), path); }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException or EmitException)
         {
             return false;
         }

@@ -57,14 +57,14 @@ public sealed class ClassifierSources
                 present.Count == 0
                     ? "run emit compile MODEL1 MODEL2 ... --name NAME --out DIR first"
                     : $"the classifiers here: {string.Join(", ", present)}", directory);
-        ClassifierManifestJson.CheckJson(path);
-        if (!ClassifierManifestJson.IsClassifier(path))
+        var text = ClassifierManifestJson.ReadText(path);
+        if (!ClassifierManifestJson.IsClassifierText(text, path))
             throw new EmitException($"{name} is a scorer, not a classifier",
                 present.Count == 0
                     ? $"give one model to check scorer {name}"
                     : $"give the classifier's name ({Setting.Name.Ref()} {present[0]}), or one model to check " +
                       $"scorer {name}", path);
-        var manifest = ClassifierManifestJson.ReadFile(path);
+        var manifest = ClassifierManifestJson.Read(text, path);
         if (manifest.Name != name)
             throw new EmitException(
                 $"the manifest describes classifier \"{Naming.CommentText(manifest.Name)}\", not \"{name}\"",

@@ -53,8 +53,7 @@ public sealed partial class CortexM0Tests
         var gcc = Toolchain.Require("arm-none-eabi-gcc");
         Toolchain.Require("arm-none-eabi-nm");
         var dir = Toolchain.TempDir("m0-features");
-        var poison = Path.Combine(dir, "poison.h");
-        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var poison = PoisonHeader(dir);
         var demo = ModelLoader.Load(ReferenceModelPath());
         output.WriteLine("build | filter code measured / stated (bytes)");
         foreach (var (k, n) in new[] { (3, 5), (1, 1), (32, 32), (7, 31) })
@@ -89,8 +88,7 @@ public sealed partial class CortexM0Tests
         var gcc = Toolchain.Require("arm-none-eabi-gcc");
         var nm = Toolchain.Require("arm-none-eabi-nm");
         var dir = Toolchain.TempDir("m0-classifier");
-        var poison = Path.Combine(dir, "poison.h");
-        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var poison = PoisonHeader(dir);
         var demo = ModelLoader.Load(ReferenceModelPath());
         output.WriteLine("build | classify code + offsets measured / stated flash (bytes)");
         foreach (int count in new[] { 2, 3, 5 })
@@ -152,8 +150,7 @@ public sealed partial class CortexM0Tests
         var gcc = Toolchain.Require("arm-none-eabi-gcc");
         var nm = Toolchain.Require("arm-none-eabi-nm");
         var dir = Toolchain.TempDir("m0-all-features");
-        var poison = Path.Combine(dir, "poison.h");
-        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var poison = PoisonHeader(dir);
         var demo = ModelLoader.Load(ReferenceModelPath());
         var scorer = new CompileOptions(["c"], NumericMode.Fixed, "reefer_all", AlarmFilter: new AlarmFilterSpec(3, 5),
             Stream: true, Explain: true);

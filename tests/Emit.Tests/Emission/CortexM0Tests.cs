@@ -34,6 +34,17 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
                     @"(exp|log|log1p|pow|sqrt|fabs|floor|ceil|round|ldexp|frexp)[fl]?)$")]
     private static partial Regex ForbiddenPattern();
 
+    /// <summary>
+    /// Writes poison.h into <paramref name="dir"/>: included first (<c>-include</c>), it makes any use of float or
+    /// double a compile error (gcc's <c>#pragma GCC poison</c>); returns its path.
+    /// </summary>
+    private static string PoisonHeader(string dir)
+    {
+        var poison = Path.Combine(dir, "poison.h");
+        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        return poison;
+    }
+
     private sealed record Build(string Name, long Flash, int Stack, string[] Undefined, Footprint Predicted);
 
     private static string ReferenceModelPath([CallerFilePath] string here = "") =>
@@ -127,8 +138,7 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
         var gcc = Toolchain.Require("arm-none-eabi-gcc");
         Toolchain.Require("arm-none-eabi-nm");
         var dir = Toolchain.TempDir("m0");
-        var poison = Path.Combine(dir, "poison.h");
-        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var poison = PoisonHeader(dir);
 
         var builds = new List<Build>();
         var demo = ModelLoader.Load(ReferenceModelPath());
@@ -171,8 +181,7 @@ public sealed partial class CortexM0Tests(ITestOutputHelper output)
         var gcc = Toolchain.Require("arm-none-eabi-gcc");
         Toolchain.Require("arm-none-eabi-nm");
         var dir = Toolchain.TempDir("m0-features");
-        var poison = Path.Combine(dir, "poison.h");
-        File.WriteAllText(poison, "#pragma GCC poison float double\n");
+        var poison = PoisonHeader(dir);
         var demo = ModelLoader.Load(ReferenceModelPath());
         var cases = new List<(string Name, BoltzmannModel Model, FixedPointOptions Options)>
         {
