@@ -20,7 +20,8 @@ public static class FootprintModel
         var footprint = plan switch
         {
             FixedScorerPlan f => new ScorerFootprint(FixedReference,
-                CortexM0Footprint.Predict(f.Fixed, f.SelfTest.Count, f.Options.Optimize), []),
+                CortexM0Footprint.Predict(f.Fixed, f.SelfTest.Count, f.Options.Optimize,
+                    f.HasStream), []),
             FloatScorerPlan p => new ScorerFootprint(FloatReference, CortexM4FFootprint.Predict(p), LibmFunctions(p)),
             _ => throw new ArgumentException("unknown plan type", nameof(plan)),
         };

@@ -164,7 +164,7 @@ public sealed class GoldenFileTests
         {
             // the public function's paragraph is in the header, where the caller reads it
             var text = fn == "plant_free_energy" ? h : c;
-            int at = text.IndexOf("\n" + (fn == "plant_free_energy" ? "plant_energy_t " : "static plant_acc_t ") + fn + "(", StringComparison.Ordinal);
+            int at = text.IndexOf("\n" + (fn == "plant_free_energy" ? "plant_energy_t " : "static inline plant_acc_t ") + fn + "(", StringComparison.Ordinal);
             Assert.True(at > 0, fn);
             int comment = text.LastIndexOf("/*", at, StringComparison.Ordinal);
             Assert.Contains("Scaling and overflow", text[comment..at]);

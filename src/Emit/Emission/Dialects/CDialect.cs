@@ -92,7 +92,7 @@ public sealed class CDialect : TargetDialect
             }
             if (plan.HasHidden)
                 Need(plan.TableEntriesUnsigned16 ? "UINT16_MAX" : "INT32_MAX", EntryType, "the softplus table");
-            if (plan.HasHidden && plan.UniformFractionBits is null)
+            if (FractionBitsTable)
                 Need("INT8_MAX", "int8_t", "the per-unit fraction bits");
             return list;
         }
@@ -153,8 +153,40 @@ public sealed class CDialect : TargetDialect
     public IReadOnlyList<string> PointerPassBlock =>
         Enumerable.Range(0, RowPointerPass).Select(k => $"waiting[{k}]").ToArray();
 
-    /// <summary>The initialiser of the pointer passes' waiting rows: NULL, one per row of a pass.</summary>
-    public string PointerPassNulls => string.Join(", ", Enumerable.Repeat("NULL", RowPointerPass));
+    /// <summary>
+    /// Hidden units up to which a speed-optimized fixed-point scorer of an RBM evaluates softplus unit by unit, each
+    /// call with the unit's fraction bits as a literal, instead of in a loop that reads them from a table: the
+    /// compiler then folds each unit's shifts, masks and rounding constants, which on a small model is most of the
+    /// softplus cost (demo model 56 × 16 on Cortex-M3: 1 406 → 1 199 instructions a call with int16 weights,
+    /// bench/cortex-m3, docs/benchmarks.md), for about 60 bytes of code a unit.
+    /// </summary>
+    public const int UnrolledSoftplusLimit = 32;
+
+    /// <summary>
+    /// Whether softplus is evaluated unit by unit with literal fraction bits (<see cref="UnrolledSoftplusLimit"/>).
+    /// </summary>
+    public bool UnrolledSoftplus =>
+        Plan is FixedScorerPlan && UnrollsSoftplus(Plan.Hidden, Plan.IsGeneral, Plan.Optimize);
+
+    /// <summary>
+    /// Whether a fixed-point scorer with these properties unrolls its softplus (<see cref="UnrolledSoftplus"/>).
+    /// </summary>
+    public static bool UnrollsSoftplus(int hidden, bool general, OptimizeFor optimize) =>
+        optimize == OptimizeFor.Speed && !general && hidden > 0 && hidden <= UnrolledSoftplusLimit;
+
+    /// <summary>
+    /// Whether the source holds the table of per-unit fraction bits: the units' fraction bits differ and some loop
+    /// reads them (the scorer's own softplus loop when it is not unrolled, or the stream's).
+    /// </summary>
+    public bool FractionBitsTable => Plan is FixedScorerPlan f && f.HasHidden && f.UniformFractionBits is null
+        && (!UnrolledSoftplus || f.HasStream || f.IsGeneral);
+
+    /// <summary>
+    /// Storage of the fixed-point helpers (to_energy, the table lookup, softplus): <c>static inline</c> when
+    /// optimizing for speed, a hint that gcc 12 -O2 follows where it would otherwise keep one out-of-line copy and
+    /// call it per unit, and that lets it fold the literal fraction bits of <see cref="UnrolledSoftplus"/>.
+    /// </summary>
+    public string HelperStorage => Plan.Optimize == OptimizeFor.Speed ? "static inline" : "static";
 
     /// <summary>
     /// The smaller passes over the last rows (fewer than <see cref="RowPointerPass"/>), halving: the waiting rows of

@@ -42,9 +42,6 @@
 #ifndef INT16_MAX
 #error "rbm.c needs int16_t (the weight type); this compiler's stdint.h has none"
 #endif
-#ifndef INT8_MAX
-#error "rbm.c needs int8_t (the per-unit fraction bits); this compiler's stdint.h has none"
-#endif
 
 /* The unsigned type of the accumulator's width: shifts and masks are applied only to values proved non-negative. */
 typedef uint32_t rbm_uacc_t;
@@ -116,15 +113,6 @@ static const rbm_acc_t rbm_hidden_bias[] RBM_TABLE_ATTR = {
     7471, /* hidden 15, Q17.14 = 0.4559937 */
     -275, /* hidden 16, Q16.15 = -0.008392334 */
     -8948, /* hidden 17, Q16.15 = -0.2730713 */
-};
-
-/*
- * f_j: fraction bits of hidden unit j (weight column Q15-f_j.f_j, accumulator Q31-f_j.f_j).
- * Each unit has its own scale, so a column of small weights keeps more bits.
- */
-static const int8_t rbm_fraction_bits[] RBM_TABLE_ATTR = {
-    15, 14, 15, 14, 15, 16, 15, 14, 14, 15, 15, 16, 16, 15, 14, 14,
-    15, 15,
 };
 
 /*
@@ -244,8 +232,6 @@ _Static_assert(RBM_COUNT(rbm_visible_bias)
                == (size_t)(RBM_VISIBLE), "visible_bias");
 _Static_assert(RBM_COUNT(rbm_hidden_bias)
                == (size_t)(RBM_HIDDEN), "hidden_bias");
-_Static_assert(RBM_COUNT(rbm_fraction_bits)
-               == (size_t)(RBM_HIDDEN), "fraction_bits");
 _Static_assert(RBM_COUNT(rbm_weights)
                == (size_t)(RBM_VISIBLE * RBM_ROW_WORDS), "weights");
 _Static_assert(RBM_COUNT(rbm_softplus_table)
@@ -260,8 +246,6 @@ _Static_assert(RBM_COUNT(rbm_selftest_expected)
 typedef char rbm_check_visible_bias[(RBM_COUNT(rbm_visible_bias)
     == (size_t)(RBM_VISIBLE)) ? 1 : -1];
 typedef char rbm_check_hidden_bias[(RBM_COUNT(rbm_hidden_bias)
-    == (size_t)(RBM_HIDDEN)) ? 1 : -1];
-typedef char rbm_check_fraction_bits[(RBM_COUNT(rbm_fraction_bits)
     == (size_t)(RBM_HIDDEN)) ? 1 : -1];
 typedef char rbm_check_weights[(RBM_COUNT(rbm_weights)
     == (size_t)(RBM_VISIBLE * RBM_ROW_WORDS)) ? 1 : -1];
@@ -284,7 +268,7 @@ typedef char rbm_check_selftest_expected[(RBM_COUNT(rbm_selftest_expected)
  * Scaling and overflow: used for the positive part of softplus (s = f_j - E, -10 to -8); over all inputs the
  * intermediate (|x| + 2^(s-1), or x * 2^-s) lies in [256, 77772800] (4 guard bits in 32).
  */
-static rbm_acc_t rbm_to_energy(rbm_acc_t x, int s)
+static inline rbm_acc_t rbm_to_energy(rbm_acc_t x, int s)
 {
     rbm_acc_t result;
     if (s > 0) {
@@ -313,7 +297,7 @@ static rbm_acc_t rbm_to_energy(rbm_acc_t x, int s)
  * Scaling and overflow: d = 9 to 11; the limit N * 2^d is at most 524288 and the interpolation product plus half at
  * most 532677632 (2 guard bits in 32); table entries lie in [0, 11629080].
  */
-static rbm_acc_t rbm_g(rbm_acc_t mag, int d)
+static inline rbm_acc_t rbm_g(rbm_acc_t mag, int d)
 {
     const rbm_uacc_t m = (rbm_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
     const unsigned int shift = (unsigned int)d;
@@ -346,7 +330,7 @@ static rbm_acc_t rbm_g(rbm_acc_t mag, int d)
  * units)). Over all inputs a lies in [-129629, 176101] (13 guard bits in 32), so -a cannot overflow; the result, in
  * Q7.24, lies in [0, 89401880].
  */
-static rbm_acc_t rbm_softplus(rbm_acc_t a, int f)
+static inline rbm_acc_t rbm_softplus(rbm_acc_t a, int f)
 {
     const rbm_acc_t mag = (a >= 0) ? a : -a;
     const rbm_acc_t positive = (a > 0) ? rbm_to_energy(a, f - 24) : 0;
@@ -360,13 +344,13 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
     uint32_t lanes[2u * RBM_ROW_WORDS]; /* the lane sums of the packed words (see the softplus loop below) */
     uint32_t rows = 0u;
 #if RBM_ROW_POINTERS
-    /* rows not yet added */
-    const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL, NULL, NULL, NULL, NULL };
+    const uint32_t *waiting[RBM_ROWS_PER_PASS]; /* rows not yet added; each set before it is read */
 #else
-    /* rows not yet added */
+    /* rows not yet added, each set before it is read (the initialiser is for static analysers) */
     const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL };
 #endif
-    unsigned int count = 0u;
+    const uint32_t **slot = waiting; /* the next entry of waiting to set (cheaper than an index) */
+    unsigned int count = 0u; /* entries of waiting set */
     uint_fast16_t j;
 #if !RBM_ROW_POINTERS
     unsigned int u; /* unit within a block: the row additions go in blocks of 16, which compilers vectorize */
@@ -384,8 +368,8 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             uint_fast16_t i;
             i = (uint_fast16_t)((byte_index * 8u) + rbm_lowest_bit[bits]);
             energy += rbm_visible_bias[i];
-            waiting[count] = &rbm_weights[i * RBM_ROW_WORDS];
-            ++rows;
+            *slot = &rbm_weights[i * RBM_ROW_WORDS];
+            ++slot;
             ++count;
             if (count == RBM_ROWS_PER_PASS) {
 #if RBM_ROW_POINTERS
@@ -462,11 +446,14 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                         + (r2[j] >> 16u) + (r3[j] >> 16u);
                 }
 #endif
+                rows += RBM_ROWS_PER_PASS;
+                slot = waiting;
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
+    rows += count;
 #if RBM_ROW_POINTERS
     if (count >= 4u) { /* 4 of the last rows in one pass */
         count -= 4u;
@@ -578,13 +565,78 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
          */
         const uint32_t scaled = rows << 15u;
         const rbm_acc_t offset = (rbm_acc_t)scaled;
-        for (j = 0u; j < 9u; ++j) {
-            const uint32_t lane_high = lanes[RBM_SECOND(j)];
-            const uint32_t lane_low = lanes[RBM_FIRST(j)] - (lane_high << 16u);
-            rbm_acc_t a = rbm_hidden_bias[j] + ((rbm_acc_t)lane_low - offset);
-            energy += rbm_softplus(a, (int)rbm_fraction_bits[j]);
-            a = rbm_hidden_bias[j + RBM_ROW_WORDS] + ((rbm_acc_t)lane_high - offset);
-            energy += rbm_softplus(a, (int)rbm_fraction_bits[j + RBM_ROW_WORDS]);
+        /* unit by unit (few units), each with its fraction bits as a literal that the compiler folds */
+        { /* units 0 and 9 */
+            const uint32_t lane_high = lanes[RBM_SECOND(0u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(0u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[0] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 15);
+            a = rbm_hidden_bias[9] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 15);
+        }
+        { /* units 1 and 10 */
+            const uint32_t lane_high = lanes[RBM_SECOND(1u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(1u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[1] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 14);
+            a = rbm_hidden_bias[10] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 15);
+        }
+        { /* units 2 and 11 */
+            const uint32_t lane_high = lanes[RBM_SECOND(2u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(2u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[2] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 15);
+            a = rbm_hidden_bias[11] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 16);
+        }
+        { /* units 3 and 12 */
+            const uint32_t lane_high = lanes[RBM_SECOND(3u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(3u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[3] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 14);
+            a = rbm_hidden_bias[12] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 16);
+        }
+        { /* units 4 and 13 */
+            const uint32_t lane_high = lanes[RBM_SECOND(4u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(4u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[4] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 15);
+            a = rbm_hidden_bias[13] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 15);
+        }
+        { /* units 5 and 14 */
+            const uint32_t lane_high = lanes[RBM_SECOND(5u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(5u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[5] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 16);
+            a = rbm_hidden_bias[14] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 14);
+        }
+        { /* units 6 and 15 */
+            const uint32_t lane_high = lanes[RBM_SECOND(6u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(6u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[6] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 15);
+            a = rbm_hidden_bias[15] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 14);
+        }
+        { /* units 7 and 16 */
+            const uint32_t lane_high = lanes[RBM_SECOND(7u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(7u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[7] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 14);
+            a = rbm_hidden_bias[16] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 15);
+        }
+        { /* units 8 and 17 */
+            const uint32_t lane_high = lanes[RBM_SECOND(8u)];
+            const uint32_t lane_low = lanes[RBM_FIRST(8u)] - (lane_high << 16u);
+            rbm_acc_t a = rbm_hidden_bias[8] + ((rbm_acc_t)lane_low - offset);
+            energy += rbm_softplus(a, 14);
+            a = rbm_hidden_bias[17] + ((rbm_acc_t)lane_high - offset);
+            energy += rbm_softplus(a, 15);
         }
     }
     return -energy;

@@ -273,7 +273,7 @@ typedef char small_general_check_selftest_expected[(SMALL_GENERAL_COUNT(small_ge
  * Scaling and overflow: used for the hidden scores (s = f_j - E, -6 to -5) and the lateral sum (s = f_L - E = -4); over
  * all inputs the intermediate (|x| + 2^(s-1), or x * 2^-s) lies in [-918560, 2088096] (10 guard bits in 32).
  */
-static small_general_acc_t small_general_to_energy(small_general_acc_t x, int s)
+static inline small_general_acc_t small_general_to_energy(small_general_acc_t x, int s)
 {
     small_general_acc_t result;
     if (s > 0) {
@@ -302,7 +302,7 @@ static small_general_acc_t small_general_to_energy(small_general_acc_t x, int s)
  * Scaling and overflow: d = 16; the limit N * 2^d is at most 16777216 and the interpolation product plus half at most
  * 2113961984 (0 guard bits in 32); table entries lie in [0, 726817].
  */
-static small_general_acc_t small_general_g(small_general_acc_t mag, int d)
+static inline small_general_acc_t small_general_g(small_general_acc_t mag, int d)
 {
     const small_general_uacc_t m = (small_general_uacc_t)mag; /* mag >= 0 and d >= 0, so the shifts are done unsigned */
     const unsigned int shift = (unsigned int)d;
