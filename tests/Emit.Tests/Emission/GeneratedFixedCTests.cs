@@ -74,6 +74,47 @@ public sealed class GeneratedFixedCTests
         }
     }
 
+    /// <summary>
+    /// The softplus sum of a speed-optimized int16 scorer: written out unit by unit with literal fraction bits up to
+    /// <see cref="Emit.Emission.Dialects.CDialect.UnrolledSoftplusLimit"/> hidden units, a loop over the lane sums
+    /// (with the odd last unit on its own) above it; both row-addition shapes give the simulator's integers.
+    /// </summary>
+    [SkippableTheory]
+    [InlineData(32, true)]
+    [InlineData(33, false)]
+    public void Softplus_sum_unrolled_up_to_the_limit_and_looped_above_gives_the_simulators_integers(int hidden,
+        bool unrolled)
+    {
+        var model = TestModels.Random(ModelKind.Rbm, 40, hidden, seed: 43);
+        var fixedOptions = new FixedPointOptions(WeightType.Int16, AccumulatorType.Int32);
+        var options = new CompileOptions(["c"], NumericMode.Fixed, "sum_" + hidden, "Emit.Tests.Generated", 8, null,
+            fixedOptions);
+        var plan = FixedPointPlanner.Build(model, fixedOptions);
+        Assert.True(plan.Units.Select(u => u.FractionBits).Distinct().Count() > 1, "the units share their fraction bits");
+        var sim = new FixedPointSimulator(plan);
+        var rng = new Random(43);
+        var vectors = new List<byte[]> { new byte[40], Enumerable.Repeat((byte)1, 40).ToArray() };
+        foreach (var p in new[] { 0.13, 0.5, 0.9 })
+            for (int k = 0; k < 6; k++) vectors.Add(TestModels.RandomUnits(40, rng, p));
+        foreach (var pointers in new[] { 0, 1 })
+        {
+            var dir = Toolchain.TempDir($"cfix-sum{hidden}-{pointers}");
+            foreach (var f in ScorerCompiler.Build(model, "sum.json", options).AllFiles)
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            var source = File.ReadAllText(Path.Combine(dir, $"sum_{hidden}.c"));
+            Assert.Equal(unrolled, source.Contains("/* unit by unit (few units)", StringComparison.Ordinal));
+            Assert.Equal(unrolled, !source.Contains("_fraction_bits[]", StringComparison.Ordinal));
+            var exe = CHarness.Build(dir, $"sum_{hidden}", false, $"-DSUM_{hidden}_ROW_POINTERS={pointers}",
+                integer: true);
+            var result = CHarness.Run(exe, vectors);
+            Assert.Equal(0, result.SelfTestFailures);
+            for (int k = 0; k < vectors.Count; k++)
+                Assert.True(sim.FreeEnergy(vectors[k]) == result.Rows[k].Integer,
+                    $"pointer passes {pointers}, vector {k}: generated {result.Rows[k].Integer}, simulator " +
+                    $"{sim.FreeEnergy(vectors[k])}");
+        }
+    }
+
     private static void CheckAgainstSimulator(string combo, bool pointerPasses)
     {
         var c = FixedCodegenCases.Find(combo);
