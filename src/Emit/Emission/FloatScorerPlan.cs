@@ -22,7 +22,7 @@ public sealed class FloatScorerPlan : ScorerPlan
     }
 
     /// <inheritdoc/>
-    public override int RowsPerAddition => 2;
+    public override int RowsPerAddition => 4;
 
     /// <summary>Visible biases b, rounded to the mode.</summary>
     public ImmutableArray<double> VisibleBias { get; private set; }

@@ -237,8 +237,8 @@ public abstract class ScorerPlan
     /// Weight rows added per accumulator update in fixed mode, the same in every target: four (acc += r0 + r1 + r2 +
     /// r3) when optimizing for speed and a sum of four weights always fits the accumulator (4 · (2^15 − 1) &lt; 2^31,
     /// 4 · (2^31 − 1) &lt; 2^63), otherwise one. Integer sums that cannot overflow are exact, so the grouping never
-    /// changes a result. Float modes add two rows at a time in every target and either optimization (rounding depends
-    /// on the order, so it is fixed).
+    /// changes a result. Float modes add four rows at a time, acc += (r0 + r1) + (r2 + r3), in every target and
+    /// either optimization (rounding depends on the order, so it is fixed).
     /// </summary>
     public abstract int RowsPerAddition { get; }
 

@@ -12,8 +12,8 @@ namespace Emit.Quantize;
 /// <list type="number">
 /// <item>Each stored coefficient is the nearest value of the mode: relative error &lt;= u.</item>
 /// <item>Pre-activation a_j = c_j + Σ_(i on) W_ij, summed in an order where each term meets at most k roundings (the
-/// generated code adds rows two at a time, acc += row1 + row2): (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active
-/// units.</item>
+/// generated code adds rows four at a time, acc += (r0 + r1) + (r2 + r3), so a term meets at most k/4 + 2 ≤ k roundings
+/// for k ≥ 3, and the last rows one at a time): (u + γ_k(1 + u))·(|c_j| + Σ_(i on) |W_ij|), k = active units.</item>
 /// <item>softplus is 1-Lipschitz (its derivative is the logistic function), so an input error passes through at most
 /// unchanged.</item>
 /// <item>softplus(x) = max(x,0) + log(1 + exp(−|x|)) with exp and log each within <see cref="LibmUlps"/> ulps (relative

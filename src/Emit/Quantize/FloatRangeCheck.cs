@@ -10,8 +10,9 @@ namespace Emit.Quantize;
 /// hold. Every quantity the generated code forms is checked with its worst-case rounding error added:
 /// <list type="bullet">
 /// <item>each hidden pre-activation and every partial sum of it: the exact range [c_j + Σ min(0, W_ij),
-/// c_j + Σ max(0, W_ij)] of <see cref="RangeAnalysis"/> (a partial sum, and the pair sum row1 + row2, is the
-/// pre-activation of another binary input, so it lies inside);</item>
+/// c_j + Σ max(0, W_ij)] of <see cref="RangeAnalysis"/> (a partial sum is the pre-activation of another
+/// binary input, so it lies inside; the group sums r0 + r1 and (r0 + r1) + (r2 + r3) are at most Σ |W_ij| in
+/// magnitude);</item>
 /// <item>the linear part b·v + Σ L_ij v_i v_j and its partial sums: the enclosure [Σ negative, Σ positive];</item>
 /// <item>the running energy −linear − Σ softplus(a_j) (softplus(x) ≤ max(x, 0) + ln 2) and, for kind general, the
 /// Gray-code scores (at most Σ_j max|a_j| + Σ |M_kl|) and the log-sum-exp (at most that plus H ln 2).</item>

@@ -222,14 +222,16 @@ static float rbm_softplus(float x)
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - sum_j softplus(a_j), a = c + sum_{i on} W_i.
  * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first, the
  * search for the next one going on from the last) the unit's bias joins the linear sum and its weight row is added
- * to the pre-activations, two rows at a time (acc += row1 + row2 halves the loads and stores of the accumulators).
+ * to the pre-activations, four rows at a time (acc += (r0 + r1) + (r2 + r3): a quarter of the loads and stores of the
+ * accumulators), the last one to three rows one at a time.
  * Accuracy: see rbm.h.
  */
 rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
 {
     rbm_energy_t linear = 0.0f;
     rbm_energy_t acc[RBM_HIDDEN];
-    const rbm_energy_t *pending = NULL; /* a row waiting for a partner: rows are added two at a time */
+    const rbm_energy_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
+    unsigned int count = 0u;
     rbm_energy_t energy;
     rbm_energy_t part[16]; /* softplus terms summed in 16 partial sums, which compilers vectorize */
     unsigned int u;
@@ -247,21 +249,27 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             uint_fast16_t i;
             i = (uint_fast16_t)((byte_index * 8u) + rbm_lowest_bit[bits]);
             linear += rbm_visible_bias[i];
-            if (pending == NULL) {
-                pending = &rbm_weights[i * 18u];
-            } else {
-                const rbm_energy_t *row = &rbm_weights[i * 18u];
+            waiting[count] = &rbm_weights[i * 18u];
+            ++count;
+            if (count == 4u) {
+                const rbm_energy_t *r0 = waiting[0];
+                const rbm_energy_t *r1 = waiting[1];
+                const rbm_energy_t *r2 = waiting[2];
+                const rbm_energy_t *r3 = waiting[3];
                 for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-                    acc[j] += pending[j] + row[j];
+                    acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
                 }
-                pending = NULL;
+                count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    if (pending != NULL) {
+    while (count != 0u) { /* the last one to three rows, one at a time (from the last) */
+        const rbm_energy_t *row;
+        --count;
+        row = waiting[count];
         for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-            acc[j] += pending[j];
+            acc[j] += row[j];
         }
     }
     energy = -linear;

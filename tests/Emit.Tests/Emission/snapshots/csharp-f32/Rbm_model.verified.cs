@@ -52,7 +52,8 @@ namespace Emit.Generated
             global::System.ReadOnlySpan<float> weights = WeightTable;
             global::System.Span<float> acc = stackalloc float[Hidden];
             HiddenBiasTable.CopyTo(acc);
-            int pending = -1; // a row waiting for a partner: rows are added two at a time
+            global::System.Span<int> waiting = stackalloc int[4]; // rows not yet added: four at a time, as in the C
+            int count = 0;
             float linear = 0.0f;
             for (int byteIndex = 0; byteIndex < PackedBytes; byteIndex++)
             {
@@ -64,24 +65,23 @@ namespace Emit.Generated
                     while (((bits >> bit) & 1u) == 0u) bit++;
                     int i = byteIndex * 8 + bit;
                     linear += visibleBias[i];
-                    if (pending < 0)
+                    waiting[count++] = i;
+                    if (count == 4)
                     {
-                        pending = i;
-                    }
-                    else
-                    {
-                        global::System.ReadOnlySpan<float> first = weights.Slice(pending * Hidden, Hidden);
-                        global::System.ReadOnlySpan<float> row = weights.Slice(i * Hidden, Hidden);
-                        for (int j = 0; j < Hidden; j++) acc[j] += first[j] + row[j];
-                        pending = -1;
+                        global::System.ReadOnlySpan<float> r0 = weights.Slice(waiting[0] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<float> r1 = weights.Slice(waiting[1] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<float> r2 = weights.Slice(waiting[2] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<float> r3 = weights.Slice(waiting[3] * Hidden, Hidden);
+                        for (int j = 0; j < Hidden; j++) acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+                        count = 0;
                     }
                     bits &= bits - 1u;
                 }
             }
-            if (pending >= 0)
+            while (count != 0) // the last one to three rows, one at a time (from the last)
             {
-                global::System.ReadOnlySpan<float> last = weights.Slice(pending * Hidden, Hidden);
-                for (int j = 0; j < Hidden; j++) acc[j] += last[j];
+                global::System.ReadOnlySpan<float> row = weights.Slice(waiting[--count] * Hidden, Hidden);
+                for (int j = 0; j < Hidden; j++) acc[j] += row[j];
             }
             float energy = -linear;
             for (int j = 0; j < Hidden; j++) energy -= Softplus(acc[j]);

@@ -63,7 +63,8 @@ namespace Emit.Generated
             global::System.ReadOnlySpan<double> weights = WeightTable;
             global::System.Span<double> acc = stackalloc double[Hidden];
             HiddenBiasTable.CopyTo(acc);
-            int pending = -1; // a row waiting for a partner: rows are added two at a time
+            global::System.Span<int> waiting = stackalloc int[4]; // rows not yet added: four at a time, as in the C
+            int count = 0;
             global::System.ReadOnlySpan<int> linkStart = LinkStartTable;
             global::System.ReadOnlySpan<int> linkOther = LinkOtherTable;
             global::System.ReadOnlySpan<double> linkWeight = LinkWeightTable;
@@ -83,24 +84,23 @@ namespace Emit.Generated
                         int other = linkOther[n];
                         if (((packed[other >> 3] >> (other & 7)) & 1) != 0) linear += linkWeight[n];
                     }
-                    if (pending < 0)
+                    waiting[count++] = i;
+                    if (count == 4)
                     {
-                        pending = i;
-                    }
-                    else
-                    {
-                        global::System.ReadOnlySpan<double> first = weights.Slice(pending * Hidden, Hidden);
-                        global::System.ReadOnlySpan<double> row = weights.Slice(i * Hidden, Hidden);
-                        for (int j = 0; j < Hidden; j++) acc[j] += first[j] + row[j];
-                        pending = -1;
+                        global::System.ReadOnlySpan<double> r0 = weights.Slice(waiting[0] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<double> r1 = weights.Slice(waiting[1] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<double> r2 = weights.Slice(waiting[2] * Hidden, Hidden);
+                        global::System.ReadOnlySpan<double> r3 = weights.Slice(waiting[3] * Hidden, Hidden);
+                        for (int j = 0; j < Hidden; j++) acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+                        count = 0;
                     }
                     bits &= bits - 1u;
                 }
             }
-            if (pending >= 0)
+            while (count != 0) // the last one to three rows, one at a time (from the last)
             {
-                global::System.ReadOnlySpan<double> last = weights.Slice(pending * Hidden, Hidden);
-                for (int j = 0; j < Hidden; j++) acc[j] += last[j];
+                global::System.ReadOnlySpan<double> row = weights.Slice(waiting[--count] * Hidden, Hidden);
+                for (int j = 0; j < Hidden; j++) acc[j] += row[j];
             }
             double energy = -linear;
             for (int j = 0; j < Hidden; j++) energy -= Softplus(acc[j]);
