@@ -61,12 +61,13 @@ static double next_unit(void) /* xorshift64*, fixed seed */
 #define SCORERS 4
 static const char *const names[SCORERS] = { "dense", "f32", "int16", "int8" };
 
-/* The limit probe's tables: random bytes, V rows of the size of a row of each scorer's weights (4, 2, 1 bytes a unit),
- * read as 32-bit words; and each input's active rows, listed in advance (in increasing order). */
+/* The limit probe's table: random bytes, read as V contiguous rows of the size of a row of each scorer's weights (4, 2,
+ * 1 bytes a unit, as 32-bit words), so each probe reads memory laid out as its scorer's table is; and each input's
+ * active rows, listed in advance (in increasing order). */
 #define ROW_WORDS_F32 (H * 4 / 4)
 #define ROW_WORDS_I16 ((H * 2 + 3) / 4)
 #define ROW_WORDS_I8 ((H + 3) / 4)
-static uint32_t probe_table[V][ROW_WORDS_F32];
+static uint32_t probe_table[V * ROW_WORDS_F32];
 static uint16_t active_rows[INPUTS][V];
 static int active_count[INPUTS];
 
@@ -78,7 +79,7 @@ static uint32_t probe_rows(int k, int words)
     int n, j, u;
     for (j = 0; j < words; ++j) acc[j] = 0u;
     for (n = 0; n < active_count[k]; ++n) {
-        const uint32_t *row = probe_table[active_rows[k][n]];
+        const uint32_t *row = &probe_table[(size_t)active_rows[k][n] * (size_t)words];
         for (j = 0; j + 16 <= words; j += 16)
             for (u = 0; u < 16; ++u) acc[j + u] += row[j + u];
         for (; j < words; ++j) acc[j] += row[j];
@@ -149,8 +150,7 @@ int main(int argc, char **argv)
                 active_rows[k][active_count[k]++] = (uint16_t)i;
             }
         }
-    for (i = 0; i < V; ++i)
-        for (k = 0; k < ROW_WORDS_F32; ++k) probe_table[i][k] = (uint32_t)(next_unit() * 4294967295.0);
+    for (i = 0; i < V * ROW_WORDS_F32; ++i) probe_table[i] = (uint32_t)(next_unit() * 4294967295.0);
 
     for (s = 0; s < SCORERS; ++s) best[s] = 1e300;
     for (r = 0; r < ROUNDS; ++r)

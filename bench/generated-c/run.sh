@@ -29,3 +29,10 @@ paste -d' ' <(grep '^dense' "$work/results.txt" | awk '{print $2}') \
 for s in f32 int16 int8; do
   grep "^$s " "$work/results.txt" | awk '{print $5}' | tr -d x | sort -n | awk -v s="$s" '{a[NR]=$1} END {print "median ratio " s " " a[int((NR+1)/2)] "x"}'
 done
+# the limit probe's ratio to the dense loop and the scorer's share of it, medians over the runs
+for s in f32 int16 int8; do
+  grep "^limit $s " "$work/results.txt" | awk '{print $6}' | tr -d 'x;' | sort -n \
+    | awk -v s="$s" '{a[NR]=$1} END {printf "median limit ratio %s %sx", s, a[int((NR+1)/2)]}'
+  grep "^limit $s " "$work/results.txt" | awk '{print $9}' | tr -d '%' | sort -n \
+    | awk '{a[NR]=$1} END {print ", median share of the limit " a[int((NR+1)/2)] "%"}'
+done
