@@ -86,11 +86,12 @@ public static class FloatErrorBound
     /// <summary>
     /// The bound over every input for streamed scoring (docs/generated-code.md): the state is accumulated from the
     /// input one row at a time, then updated by at most <paramref name="flips"/> flips (each adds or subtracts one
-    /// weight row and one visible field b_i + Σ_k L_ik v_k) before it is accumulated afresh. Every term of a
-    /// pre-activation or of the linear sum then meets at most V + flips (pre-activations) or all links + V +
-    /// flips·(1 + most links of a unit) (linear part) roundings, and the magnitudes summed grow by flips times the
-    /// largest row entry or field; recursive summation of n terms in any order is within γ_(n−1) Σ|x_i| (Higham §4.2).
-    /// The read is the scorer's own softplus sum, so the rest of the derivation is <see cref="Worst"/>'s.
+    /// weight row and one visible field b_i + Σ_k L_ik v_k) before it is accumulated afresh. Each addition's rounding
+    /// is bounded through the partial sum it produces rather than the terms (Higham §4.2, the bound by partial sums):
+    /// after every toggle a pre-activation is exactly that of some binary input, so within Σ_i |W_ij| + |c_j|, and
+    /// the linear sum is a subset sum of the b_i and L_ik; a pre-activation's error after V + flips additions is then
+    /// within (u + γ_(V + flips))·(|c_j| + Σ_i |W_ij|), and the linear sum's as <see cref="Compute"/> states. The read
+    /// is the scorer's own softplus sum, so the rest of the derivation is <see cref="Worst"/>'s.
     /// </summary>
     public static double StreamWorst(BoltzmannModel model, NumericMode mode, long flips)
     {
@@ -129,9 +130,15 @@ public static class FloatErrorBound
             if (On(i)) { linAbs += Math.Abs(m.VisibleBias[i]); lin += m.VisibleBias[i]; linTerms++; }
         foreach (var l in m.VisibleLinks)
             if (On(l.I) && On(l.J)) { linAbs += Math.Abs(l.W); lin += l.W; linTerms++; }
+        double linErr;
         if (flips > 0)
         {
-            // streamed scoring: each flip adds a field b_i + Σ_k L_ik v_k of at most 1 + degree terms
+            // Streamed scoring: the linear sum is built by toggles, each adding or subtracting a field
+            // b_i + Σ_k L_ik v_k (at most 1 + degree terms, its own error within γ_degree·|b_i| + Σ_k |L_ik|); k on
+            // units from all off, then the flips. After every toggle the exact value is the linear part of a binary
+            // input, a subset sum of the coefficients, so each toggle's rounding is at most u·(linAbs + the error so
+            // far), and the error after T toggles is within γ_T·linAbs + (γ_T/u)(1 + u)·γ_degree·(largest field)
+            // (Higham, Lemma 3.1 on (1 + u)^T − 1).
             var degree = new int[v];
             var field = new double[v];
             for (int i = 0; i < v; i++) field[i] = Math.Abs(m.VisibleBias[i]);
@@ -142,11 +149,15 @@ public static class FloatErrorBound
                 field[l.I] += Math.Abs(l.W);
                 field[l.J] += Math.Abs(l.W);
             }
-            linTerms += flips * (1 + (v > 0 ? degree.Max() : 0));
-            linAbs += flips * (v > 0 ? field.Max() : 0);
+            int degreeMax = v > 0 ? degree.Max() : 0;
+            long toggles = k + flips;
+            double gt = Gamma(toggles, u);
+            linErr = (u + gt * (1 + u)) * linAbs
+                     + (gt / u) * (1 + u) * Gamma(degreeMax, u) * (v > 0 ? field.Max() : 0);
+            linTerms = Math.Max(linTerms, toggles * (1 + degreeMax));
             k += (int)Math.Min(int.MaxValue - k, flips);
         }
-        double linErr = (u + Gamma(linTerms, u) * (1 + u)) * linAbs;
+        else linErr = (u + Gamma(linTerms, u) * (1 + u)) * linAbs;
         double linMag = units is null ? linAbs : Math.Abs(lin);
         long nMax = Math.Max(linTerms, k);
 
@@ -166,13 +177,10 @@ public static class FloatErrorBound
                 sum += w;
                 top += Math.Max(0, w);
             }
-            if (flips > 0)
-            {
-                double largest = 0;
-                for (int i = 0; i < v; i++) largest = Math.Max(largest, Math.Abs(m.Weight(i, j)));
-                abs += flips * largest;
-                top += flips * largest;
-            }
+            // Streamed scoring (flips > 0): after every row added or subtracted the exact value is the pre-activation
+            // of a binary input, within [c_j + Σ min(0, W_ij), c_j + Σ max(0, W_ij)], so each rounding is at most
+            // u·(abs + the error so far) and the error after the k + flips additions is within γ_(k + flips)·abs
+            // (Higham, Lemma 3.1); abs and top need no term for the flips.
             aErr[j] = (u + gk * (1 + u)) * abs;
             aMag[j] = units is null ? abs : Math.Abs(sum);
             aMax[j] = units is null ? top : sum;

@@ -33,4 +33,50 @@ public sealed class FloatErrorBoundTests
         }
         Assert.True(FloatErrorBound.Worst(m, NumericMode.F32) > 1e6 * FloatErrorBound.Worst(m, NumericMode.F64));
     }
+
+    /// <summary>
+    /// The streamed pre-activations of an f32 scorer (c_j, then a row added or subtracted at each toggle: the units of
+    /// the input from all off, then the flips), replayed here in float arithmetic, stay within γ_(k + f)·(|c_j| +
+    /// Σ_i |W_ij|) of the exact value of the same stored coefficients after k rows and f flips: the bound by partial
+    /// sums (Higham 2002, §4.2 and Lemma 3.1) that <see cref="FloatErrorBound.StreamWorst"/> uses, since every partial
+    /// sum is the pre-activation of some binary input. The walks are built to accumulate rounding: weights spread over
+    /// 2^−10 .. 2^10, and most flips toggle the unit with the largest weight, so large values are added and taken off
+    /// again many times. The exact values are double sums of floats within 2^−34 .. 2^17, which double holds exactly.
+    /// </summary>
+    [Fact]
+    public void Streamed_pre_activations_stay_within_the_partial_sum_bound_on_walks_that_pile_up_rounding()
+    {
+        const int visible = 40, flips = 64;
+        double u = FloatErrorBound.UnitRoundoff(NumericMode.F32), largestSeen = 0;
+        var rng = new Random(71);
+        for (int model = 0; model < 20; model++)
+        {
+            var w = new float[visible];
+            for (int i = 0; i < visible; i++)
+                w[i] = (float)((rng.NextDouble() < 0.5 ? -1 : 1) * Math.ScaleB(1 + rng.NextDouble(), rng.Next(-10, 10)));
+            float c = (float)(-Math.ScaleB(1 + rng.NextDouble(), 9));
+            double s = Math.Abs((double)c);
+            foreach (var x in w) s += Math.Abs((double)x);
+            int big = Array.IndexOf(w, w.MaxBy(Math.Abs));
+            for (int walk = 0; walk < 50; walk++)
+            {
+                var on = new bool[visible];
+                float acc = c;
+                double exact = c;
+                int k = 0;
+                for (int i = 0; i < visible; i++)
+                    if (rng.NextDouble() < 0.5) { on[i] = true; acc += w[i]; exact += w[i]; k++; }
+                for (int f = 1; f <= flips; f++)
+                {
+                    int i = rng.NextDouble() < 0.7 ? big : rng.Next(visible);
+                    on[i] = !on[i];
+                    if (on[i]) { acc += w[i]; exact += w[i]; } else { acc -= w[i]; exact -= w[i]; }
+                    double error = Math.Abs(acc - exact), bound = FloatErrorBound.Gamma(k + f, u) * s;
+                    Assert.True(error <= bound, $"model {model}, walk {walk}, flip {f}: error {error:R} > {bound:R}");
+                    largestSeen = Math.Max(largestSeen, error / bound);
+                }
+            }
+        }
+        Assert.True(largestSeen > 0.01, $"the walks never came near the bound (at most {largestSeen:P2} of it)");
+    }
 }
