@@ -131,4 +131,32 @@ public sealed class VectorSoftplusTests(ITestOutputHelper output)
             Assert.True(Math.Abs(plain - VectorSoftplus.Sum(x)) <= 1e-14 * Math.Max(1, Math.Abs(plain)), $"n = {n}");
         }
     }
+
+    /// <summary>
+    /// The 256-bit kernel that <see cref="VectorSoftplus.Sum"/> uses where 512-bit vectors are not accelerated gives
+    /// the 512-bit kernel's bits in every lane, over arguments spread across the whole double range, the edges of the
+    /// exponential's range, the log1p reduction's switch point, zeros, infinities and NaN.
+    /// </summary>
+    [Fact]
+    public void The_256_bit_kernel_gives_the_512_bit_kernels_bits()
+    {
+        var rng = new Random(256);
+        var special = new[] { 0.0, -0.0, 1e-300, -1e-300, 745.0, -745.0, 746.0, -746.0, 709.7, -709.7, 0.8813735870195430,
+            -0.8813735870195430, double.MaxValue, double.MinValue, double.PositiveInfinity, double.NegativeInfinity,
+            double.NaN, double.Epsilon, 36.7, -36.7 };
+        var values = special.Concat(Enumerable.Range(0, 40000).Select(_ =>
+            (rng.NextDouble() < 0.5 ? -1 : 1) * Math.ScaleB(1 + rng.NextDouble(), rng.Next(-40, 12)))).ToArray();
+        for (int i = 0; i + 8 <= values.Length; i += 8)
+        {
+            var wide = VectorSoftplus.Of(Vector512.Create(values.AsSpan(i, 8)));
+            var low = VectorSoftplus.Of(Vector256.Create(values.AsSpan(i, 4)));
+            var high = VectorSoftplus.Of(Vector256.Create(values.AsSpan(i + 4, 4)));
+            for (int l = 0; l < 8; l++)
+            {
+                double a = wide.GetElement(l), b = l < 4 ? low.GetElement(l) : high.GetElement(l - 4);
+                Assert.True(BitConverter.DoubleToInt64Bits(a) == BitConverter.DoubleToInt64Bits(b),
+                    $"softplus({values[i + l]:R}): 512-bit {a:R}, 256-bit {b:R}");
+            }
+        }
+    }
 }
