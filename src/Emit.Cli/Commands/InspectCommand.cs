@@ -21,7 +21,8 @@ public sealed class InspectCommand : ICliCommand
         "--numeric",
         "Also plan this numeric mode (fixed adds Q formats, the proved error bound and table sizes); every mode adds " +
                      "the predicted flash, stack and run-time dependencies of the generated C and the extra flash " +
-                     "and RAM of each firmware feature (alarm filter, stream, explain)", NumericChoices.All);
+                     "and RAM of each firmware feature (alarm filter, stream, explain, classifier)",
+        NumericChoices.All);
 
     private readonly Option<OptimizeFor> _optimize = new("--optimize")
     {
@@ -62,7 +63,8 @@ public sealed class InspectCommand : ICliCommand
                     footprint = FootprintModel.Predict(Plan(options));
                     // the figures of the stream and explanation code, from a plan that emits them
                     var explained = model.Kind == ModelKind.General ? null : Plan(options with { Explain = true });
-                    features = new Features(FootprintModel.FilterCost(m), explained);
+                    features = new Features(FootprintModel.FilterCost(m), explained,
+                        FootprintModel.ClassifierPerModel(Plan(options)));
                 }
             }
             catch (EmitException e) when (e.File is null && e.Line is null)
@@ -81,7 +83,7 @@ public sealed class InspectCommand : ICliCommand
     /// <summary>What the alarm filter costs, and a plan emitting stream and explanation code (null: kind general).
     /// The figures are read from <see cref="FeatureFootprint"/> and <see cref="FootprintModel"/>, as the header's.
     /// </summary>
-    private sealed record Features(FeatureCost Filter, ScorerPlan? Explained)
+    private sealed record Features(FeatureCost Filter, ScorerPlan? Explained, FeatureCost ClassifierPerModel)
     {
         public const string FilterAssumption = "any K/N with N <= 32: the window is one 32-bit word";
         public const string NoStream = "not for kind general (a flip changes every term of the hidden sum)";
@@ -157,6 +159,9 @@ public sealed class InspectCommand : ICliCommand
                     o.WriteLine($"  explain      flash +{x.ExplainFlash} bytes beyond the stream code, stack " +
                                 $"{x.ExplainStack} bytes worst case (implies the stream code)");
                 }
+                o.WriteLine($"  classifier   flash +{x.ClassifierPerModel.FlashBytes} bytes and RAM " +
+                            $"{x.ClassifierPerModel.RamBytes} bytes per model scored, plus " +
+                            $"{FootprintModel.ClassifierCodeBase} bytes of flash once, beside each model's own scorer");
             }
         }
         if (plan is null) return;
@@ -319,6 +324,11 @@ public sealed class InspectCommand : ICliCommand
                     w.WriteNumber("stack_bytes", x.ExplainStack);
                     w.WriteEndObject();
                 }
+                w.WriteStartObject("classifier");
+                w.WriteNumber("flash_bytes_per_model", x.ClassifierPerModel.FlashBytes);
+                w.WriteNumber("ram_bytes_per_model", x.ClassifierPerModel.RamBytes);
+                w.WriteNumber("flash_bytes_once", FootprintModel.ClassifierCodeBase);
+                w.WriteEndObject();
                 w.WriteEndObject();
             }
             w.WriteEndObject();

@@ -57,10 +57,20 @@ public static class FootprintModel
     /// <summary>The classifier's extra cost beside its models' scorers on the mode's reference core.</summary>
     public static FeatureCost Classifier(ClassifierPlan plan)
     {
-        int energy = plan.Models[0].Mode == NumericMode.F32 ? 4
-            : plan.Models[0] is FixedScorerPlan f && f.Accumulator == AccumulatorType.Int32 ? 4 : 8;
-        return new FeatureCost(ClassifierCodeBase + (ClassifierCodePerModel + energy) * plan.Count,
-            energy * plan.Count);
+        var each = ClassifierPerModel(plan.Models[0]);
+        return new FeatureCost(ClassifierCodeBase + each.FlashBytes * plan.Count, each.RamBytes * plan.Count);
+    }
+
+    /// <summary>
+    /// What each model adds to a classifier's own cost (<see cref="Classifier"/>) when its scorers are planned like
+    /// <paramref name="plan"/>: a call, a subtraction and an offset (flash), and a score (the caller's RAM); the
+    /// classifier adds <see cref="ClassifierCodeBase"/> bytes of flash once.
+    /// </summary>
+    public static FeatureCost ClassifierPerModel(ScorerPlan plan)
+    {
+        int energy = plan.Mode == NumericMode.F32 ? 4
+            : plan is FixedScorerPlan f && f.Accumulator == AccumulatorType.Int32 ? 4 : 8;
+        return new FeatureCost(ClassifierCodePerModel + energy, energy);
     }
 
     /// <summary>The alarm filter's extra cost on the mode's reference core, or null without a filter.</summary>

@@ -196,6 +196,46 @@ public sealed class InspectFixedPointTests
                         $"{Define("EXPLAIN_STACK_BYTES")} bytes", text);
     }
 
+    /// <summary>
+    /// What a model adds to a classifier, as inspect states it (per model and once), adds up to the figures the header
+    /// of a classifier of three such models states; a 4-byte score in fixed mode with an int32 accumulator and in
+    /// f32, an 8-byte one in f64.
+    /// </summary>
+    [Theory]
+    [InlineData("fixed", 4)]
+    [InlineData("f32", 4)]
+    [InlineData("f64", 8)]
+    public void Inspect_states_what_a_model_adds_to_a_classifier_as_the_classifier_header_does(string numeric,
+        int scoreBytes)
+    {
+        var dir = CliRunner.TempDir();
+        var paths = Enumerable.Range(0, 3).Select(k =>
+        {
+            var path = Path.Combine(dir, $"m{k}.json");
+            ModelJson.WriteFile(TestModels.Random(ModelKind.Rbm, 20, 6, seed: 30 + k), path, force: true);
+            Assert.Equal(0, CliRunner.Run("logz", path, "--store").ExitCode); // a classifier needs each log Z
+            return path;
+        }).ToArray();
+        var r = CliRunner.Run("inspect", paths[0], "--numeric", numeric, "--json");
+        Assert.True(r.ExitCode == 0, r.Error);
+        var c = JsonDocument.Parse(r.Out).RootElement.GetProperty("footprint").GetProperty("features")
+            .GetProperty("classifier");
+        long perModel = c.GetProperty("flash_bytes_per_model").GetInt64(), once = c.GetProperty("flash_bytes_once")
+            .GetInt64(), ram = c.GetProperty("ram_bytes_per_model").GetInt64();
+        Assert.Equal(scoreBytes, ram);
+        var compiled = CliRunner.Run(["compile", .. paths, "--numeric", numeric, "--name", "modes", "--out", dir]);
+        Assert.True(compiled.ExitCode == 0, compiled.Error);
+        var header = File.ReadAllText(Path.Combine(dir, "modes.h"));
+        long Define(string macro) => long.Parse(
+            System.Text.RegularExpressions.Regex.Match(header, $@"#define MODES_{macro} (\d+)\n").Groups[1].Value,
+            System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(once + 3 * perModel, Define("CLASSIFY_FLASH_BYTES"));
+        Assert.Equal(3 * ram, Define("CLASSIFY_RAM_BYTES"));
+        var text = CliRunner.Run("inspect", paths[0], "--numeric", numeric).Out;
+        Assert.Contains($"  classifier   flash +{perModel} bytes and RAM {ram} bytes per model scored, plus {once} " +
+                        "bytes of flash once", text);
+    }
+
     [Fact]
     public void Inspect_says_stream_and_explain_do_not_apply_to_a_general_model()
     {
