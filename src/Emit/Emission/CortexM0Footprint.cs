@@ -73,9 +73,12 @@ public static class CortexM0Footprint
             : (general ? h * a + h * a + (h + 1) * a : h * a) + (wide ? (pairs ? 192 : 144) : 64) + (pairs ? 16 : 0);
         if (Dialects.CDialect.UsesPackedRows(plan, optimize))
         {
-            // packed rows: two arrays of lane sums, the accumulators padded to whole words, a helper's frame
+            // packed rows: two arrays of lane sums, the accumulators padded to whole words, a helper's frame; int16
+            // rows of an RBM or lateral model feed the lane sums straight into softplus (CDialect.FusedSoftplus), with
+            // no accumulator array at all
             int lanes = plan.WeightType == WeightType.Int8 ? 4 : 2, words = (h + lanes - 1) / lanes;
-            frame += 2 * words * 4 + (lanes * words - h) * a + PackedFrame;
+            bool fused = lanes == 2 && !general;
+            frame += 2 * words * 4 + (fused ? -h * a : (lanes * words - h) * a) + PackedFrame;
             code += lanes == 4 ? PackedCodeInt8 : PackedCodeInt16;
         }
         // the unrolled softplus calls of a 64-bit accumulator keep more values in the frame (measured as above)
