@@ -49,29 +49,8 @@ public sealed class GeneratedFixedCTests
     public void Wide_int8_rows_padded_and_emptied_every_256_rows_give_the_simulators_integers()
     {
         var model = TestModels.Random(ModelKind.Rbm, 300, 410, seed: 41);
-        var fixedOptions = new FixedPointOptions(WeightType.Int8, AccumulatorType.Int32);
-        var options = new CompileOptions(["c"], NumericMode.Fixed, "wide_i8", "Emit.Tests.Generated", 8, null,
-            fixedOptions);
-        var plan = FixedPointPlanner.Build(model, fixedOptions);
-        var sim = new FixedPointSimulator(plan);
-        var rng = new Random(41);
-        var vectors = new List<byte[]> { new byte[300], Enumerable.Repeat((byte)1, 300).ToArray() };
-        foreach (var p in new[] { 0.13, 0.5, 0.9, 0.97 })
-            for (int k = 0; k < 4; k++) vectors.Add(TestModels.RandomUnits(300, rng, p));
-        foreach (var pointers in new[] { 0, 1 })
-        {
-            var dir = Toolchain.TempDir("cfix-wide-" + pointers);
-            foreach (var f in ScorerCompiler.Build(model, "wide.json", options).AllFiles)
-                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
-            Assert.Contains("#define WIDE_I8_ROW_WORDS 104u\n", File.ReadAllText(Path.Combine(dir, "wide_i8.c")));
-            var exe = CHarness.Build(dir, "wide_i8", false, $"-DWIDE_I8_ROW_POINTERS={pointers}", integer: true);
-            var result = CHarness.Run(exe, vectors);
-            Assert.Equal(0, result.SelfTestFailures);
-            for (int k = 0; k < vectors.Count; k++)
-                Assert.True(sim.FreeEnergy(vectors[k]) == result.Rows[k].Integer,
-                    $"pointer passes {pointers}, vector {k}: generated {result.Rows[k].Integer}, simulator " +
-                    $"{sim.FreeEnergy(vectors[k])}");
-        }
+        CheckBothShapesAgainstSimulator(model, WeightType.Int8, "wide_i8", [0.13, 0.5, 0.9, 0.97], 4,
+            source => Assert.Contains("#define WIDE_I8_ROW_WORDS 104u\n", source));
     }
 
     /// <summary>
@@ -86,31 +65,46 @@ public sealed class GeneratedFixedCTests
         bool unrolled)
     {
         var model = TestModels.Random(ModelKind.Rbm, 40, hidden, seed: 43);
-        var fixedOptions = new FixedPointOptions(WeightType.Int16, AccumulatorType.Int32);
-        var options = new CompileOptions(["c"], NumericMode.Fixed, "sum_" + hidden, "Emit.Tests.Generated", 8, null,
-            fixedOptions);
-        var plan = FixedPointPlanner.Build(model, fixedOptions);
+        var plan = FixedPointPlanner.Build(model, new FixedPointOptions(WeightType.Int16, AccumulatorType.Int32));
         Assert.True(plan.Units.Select(u => u.FractionBits).Distinct().Count() > 1, "the units share their fraction bits");
-        var sim = new FixedPointSimulator(plan);
-        var rng = new Random(43);
-        var vectors = new List<byte[]> { new byte[40], Enumerable.Repeat((byte)1, 40).ToArray() };
-        foreach (var p in new[] { 0.13, 0.5, 0.9 })
-            for (int k = 0; k < 6; k++) vectors.Add(TestModels.RandomUnits(40, rng, p));
-        foreach (var pointers in new[] { 0, 1 })
+        CheckBothShapesAgainstSimulator(model, WeightType.Int16, "sum_" + hidden, [0.13, 0.5, 0.9], 6, source =>
         {
-            var dir = Toolchain.TempDir($"cfix-sum{hidden}-{pointers}");
-            foreach (var f in ScorerCompiler.Build(model, "sum.json", options).AllFiles)
-                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
-            var source = File.ReadAllText(Path.Combine(dir, $"sum_{hidden}.c"));
             Assert.Equal(unrolled, source.Contains("/* unit by unit (few units)", StringComparison.Ordinal));
             Assert.Equal(unrolled, !source.Contains("_fraction_bits[]", StringComparison.Ordinal));
-            var exe = CHarness.Build(dir, $"sum_{hidden}", false, $"-DSUM_{hidden}_ROW_POINTERS={pointers}",
+        });
+    }
+
+    /// <summary>
+    /// Compiles <paramref name="model"/> (speed, the weights given, int32 accumulator) with both row-addition shapes
+    /// (NAME_ROW_POINTERS 0 and 1), checks each source with <paramref name="checkSource"/>, and compares the results
+    /// on the all-off and all-on inputs and <paramref name="perDensity"/> random inputs at each density with the
+    /// simulator's integers.
+    /// </summary>
+    private static void CheckBothShapesAgainstSimulator(BoltzmannModel model, WeightType weights, string name,
+        double[] densities, int perDensity, Action<string> checkSource)
+    {
+        var fixedOptions = new FixedPointOptions(weights, AccumulatorType.Int32);
+        var options = new CompileOptions(["c"], NumericMode.Fixed, name, "Emit.Tests.Generated", 8, null,
+            fixedOptions);
+        var sim = new FixedPointSimulator(FixedPointPlanner.Build(model, fixedOptions));
+        int v = model.Visible;
+        var rng = new Random(model.Hidden);
+        var vectors = new List<byte[]> { new byte[v], Enumerable.Repeat((byte)1, v).ToArray() };
+        foreach (var p in densities)
+            for (int k = 0; k < perDensity; k++) vectors.Add(TestModels.RandomUnits(v, rng, p));
+        foreach (var pointers in new[] { 0, 1 })
+        {
+            var dir = Toolchain.TempDir($"cfix-{name}-{pointers}");
+            foreach (var f in ScorerCompiler.Build(model, name + ".json", options).AllFiles)
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            checkSource(File.ReadAllText(Path.Combine(dir, name + ".c")));
+            var exe = CHarness.Build(dir, name, false, $"-D{name.ToUpperInvariant()}_ROW_POINTERS={pointers}",
                 integer: true);
             var result = CHarness.Run(exe, vectors);
             Assert.Equal(0, result.SelfTestFailures);
             for (int k = 0; k < vectors.Count; k++)
                 Assert.True(sim.FreeEnergy(vectors[k]) == result.Rows[k].Integer,
-                    $"pointer passes {pointers}, vector {k}: generated {result.Rows[k].Integer}, simulator " +
+                    $"{name}, pointer passes {pointers}, vector {k}: generated {result.Rows[k].Integer}, simulator " +
                     $"{sim.FreeEnergy(vectors[k])}");
         }
     }
