@@ -60,11 +60,12 @@ public sealed class InspectCommand : ICliCommand
                     ScorerPlan Plan(CompileOptions o) =>
                         plan is null ? FloatScorerPlan.Build(model, o, Path.GetFileName(path))
                             : FixedScorerPlan.Build(model, o, Path.GetFileName(path), plan);
-                    footprint = FootprintModel.Predict(Plan(options));
+                    var scorer = Plan(options);
+                    footprint = FootprintModel.Predict(scorer);
                     // the figures of the stream and explanation code, from a plan that emits them
                     var explained = model.Kind == ModelKind.General ? null : Plan(options with { Explain = true });
                     features = new Features(FootprintModel.FilterCost(m), explained,
-                        FootprintModel.ClassifierPerModel(Plan(options)));
+                        FootprintModel.ClassifierPerModel(scorer));
                 }
             }
             catch (EmitException e) when (e.File is null && e.Line is null)

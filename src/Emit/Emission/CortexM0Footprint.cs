@@ -38,7 +38,7 @@ public static class CortexM0Footprint
         bool general = m.Kind == ModelKind.General;
         bool uniform = h > 0 && plan.Units.All(u => u.FractionBits == plan.Units[0].FractionBits);
         int tableEntry = plan.Table.EntryFormat.TotalBits / 8;
-        bool unrolled = h > 0 && Dialects.CDialect.UnrollsSoftplus(h, general, optimize);
+        bool unrolled = Dialects.CDialect.UnrollsSoftplus(h, general, optimize);
 
         long tables = Table(v, a) + Table(selfTestVectors * packed, 1) + Table(selfTestVectors, a);
         if (optimize == OptimizeFor.Speed && v > 1) tables += Table(256, 1); // the bit scan's lowest-set-bit table
@@ -46,7 +46,7 @@ public static class CortexM0Footprint
         {
             tables += Table(h, a) + Table(v * h, w) + Table(plan.Table.Segments + 1, tableEntry);
             // the per-unit fraction bits: literals of the unrolled softplus calls, a table where a loop reads them
-            if (!uniform && (!unrolled || stream)) tables += Table(h, 1);
+            if (Dialects.CDialect.KeepsFractionBitsTable(uniform, h, general, optimize, stream)) tables += Table(h, 1);
             if (general) tables += Table(h * h, a);
         }
         if (links > 0)
@@ -77,7 +77,7 @@ public static class CortexM0Footprint
             // rows of an RBM or lateral model feed the lane sums straight into softplus (CDialect.FusedSoftplus), with
             // no accumulator array at all
             int lanes = plan.WeightType == WeightType.Int8 ? 4 : 2, words = (h + lanes - 1) / lanes;
-            bool fused = lanes == 2 && !general;
+            bool fused = Dialects.CDialect.FusesSoftplus(plan.WeightType, general);
             frame += 2 * words * 4 + (fused ? -h * a : (lanes * words - h) * a) + PackedFrame;
             code += lanes == 4 ? PackedCodeInt8 : PackedCodeInt16;
         }

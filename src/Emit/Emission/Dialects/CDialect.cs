@@ -178,8 +178,16 @@ public sealed class CDialect : TargetDialect
     /// Whether the source holds the table of per-unit fraction bits: the units' fraction bits differ and some loop
     /// reads them (the scorer's own softplus loop when it is not unrolled, or the stream's).
     /// </summary>
-    public bool FractionBitsTable => Plan is FixedScorerPlan f && f.HasHidden && f.UniformFractionBits is null
-        && (!UnrolledSoftplus || f.HasStream || f.IsGeneral);
+    public bool FractionBitsTable => Plan is FixedScorerPlan f && f.HasHidden
+        && KeepsFractionBitsTable(f.UniformFractionBits is not null, Plan.Hidden, Plan.IsGeneral, Plan.Optimize,
+            f.HasStream);
+
+    /// <summary>
+    /// Whether a fixed-point scorer with hidden units and these properties holds the table of per-unit fraction bits
+    /// (<see cref="FractionBitsTable"/>).
+    /// </summary>
+    public static bool KeepsFractionBitsTable(bool uniform, int hidden, bool general, OptimizeFor optimize,
+        bool stream) => !uniform && (!UnrollsSoftplus(hidden, general, optimize) || stream);
 
     /// <summary>
     /// Storage of the fixed-point helpers (to_energy, the table lookup, softplus): <c>static inline</c> when
@@ -215,7 +223,13 @@ public sealed class CDialect : TargetDialect
     /// bias plus its lane's sum minus the rows' offset) instead of through an accumulator array: packed int16 rows of
     /// an RBM.
     /// </summary>
-    public bool FusedSoftplus => PackedRows && PackedLanes == 2 && !Plan.IsGeneral;
+    public bool FusedSoftplus => PackedRows && FusesSoftplus(((FixedScorerPlan)Plan).WeightType, Plan.IsGeneral);
+
+    /// <summary>
+    /// Whether packed rows of these weights feed their lane sums straight to softplus (<see cref="FusedSoftplus"/>).
+    /// </summary>
+    public static bool FusesSoftplus(Quantize.WeightType weights, bool general) =>
+        weights == Quantize.WeightType.Int16 && !general;
 
     /// <summary>Words of a packed row whose every lane is a unit: ⌊H / lanes⌋.</summary>
     public int FullWords => Plan.Hidden / PackedLanes;
