@@ -41,7 +41,7 @@ public static class CortexM0Footprint
         bool unrolled = Dialects.CDialect.UnrollsSoftplus(h, general, optimize);
 
         long tables = Table(v, a) + Table(selfTestVectors * packed, 1) + Table(selfTestVectors, a);
-        if (optimize == OptimizeFor.Speed && v > 1) tables += Table(256, 1); // the bit scan's lowest-set-bit table
+        if (optimize == OptimizeFor.Speed && v > 1) tables += Table(32, 1); // the word scan's De Bruijn table
         if (h > 0)
         {
             tables += Table(h, a) + Table(v * h, w) + Table(plan.Table.Segments + 1, tableEntry);

@@ -29,7 +29,7 @@ public static class CortexM4FFootprint
         int v = plan.Visible, h = plan.Hidden, links = plan.LinkCount, packed = plan.PackedBytes,
             s = plan.SelfTest.Count;
         long tables = Table(v, e) + Table((long)s * packed, 1) + 2 * Table(s, e);
-        if (plan.Optimize == OptimizeFor.Speed && v > 1) tables += Table(256, 1); // the bit scan's lowest-set-bit table
+        if (plan.Optimize == OptimizeFor.Speed && v > 1) tables += Table(32, 1); // De Bruijn table, 32-bit words
         if (h > 0)
         {
             tables += Table(h, e) + Table((long)v * h, e);

@@ -75,6 +75,51 @@ public sealed class GeneratedFixedCTests
     }
 
     /// <summary>
+    /// The word scan of speed mode, with 64-bit and with 32-bit words (NAME_SCAN_BITS), on inputs shorter than a word,
+    /// a word long, ending inside a word and inside a byte: the simulator's integers on the all-off, all-on and random
+    /// inputs, and the same from the units entry point while the harness sets the packed bits past the last unit.
+    /// </summary>
+    [SkippableTheory]
+    [InlineData(9)]
+    [InlineData(31)]
+    [InlineData(32)]
+    [InlineData(33)]
+    [InlineData(63)]
+    [InlineData(64)]
+    [InlineData(65)]
+    [InlineData(130)]
+    public void Word_scan_of_either_width_gives_the_simulators_integers(int visible)
+    {
+        var model = TestModels.Random(ModelKind.Rbm, visible, 16, seed: 47 + visible);
+        var fixedOptions = new FixedPointOptions(WeightType.Int16, AccumulatorType.Int32);
+        string name = "scan_" + visible;
+        var options = new CompileOptions(["c"], NumericMode.Fixed, name, "Emit.Tests.Generated", 8, null, fixedOptions);
+        var sim = new FixedPointSimulator(FixedPointPlanner.Build(model, fixedOptions));
+        var rng = new Random(visible);
+        var vectors = new List<byte[]> { new byte[visible], Enumerable.Repeat((byte)1, visible).ToArray() };
+        foreach (var p in new[] { 0.05, 0.13, 0.5, 0.9 })
+            for (int k = 0; k < 6; k++) vectors.Add(TestModels.RandomUnits(visible, rng, p));
+        foreach (var bits in new[] { 64, 32 })
+        {
+            var dir = Toolchain.TempDir($"cscan-{visible}-{bits}");
+            foreach (var f in ScorerCompiler.Build(model, name + ".json", options).AllFiles)
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            Assert.Matches($"\n#(el)?if {name.ToUpperInvariant()}_SCAN_BITS == {bits}\n",
+                File.ReadAllText(Path.Combine(dir, name + ".c")));
+            var exe = CHarness.Build(dir, name, false, $"-D{name.ToUpperInvariant()}_SCAN_BITS={bits}", integer: true);
+            var result = CHarness.Run(exe, vectors);
+            Assert.Equal(0, result.SelfTestFailures);
+            for (int k = 0; k < vectors.Count; k++)
+            {
+                Assert.True(sim.FreeEnergy(vectors[k]) == result.Rows[k].Integer,
+                    $"{name}, {bits}-bit words, vector {k}: generated {result.Rows[k].Integer}, simulator " +
+                    $"{sim.FreeEnergy(vectors[k])}");
+                Assert.True(result.Rows[k].SameBits, $"{name}, {bits}-bit words, vector {k}: entry points differ");
+            }
+        }
+    }
+
+    /// <summary>
     /// Compiles <paramref name="model"/> (speed, the weights given, int32 accumulator) with both row-addition shapes
     /// (NAME_ROW_POINTERS 0 and 1), checks each source with <paramref name="checkSource"/>, and compares the results
     /// on the all-off and all-on inputs and <paramref name="perDensity"/> random inputs at each density with the

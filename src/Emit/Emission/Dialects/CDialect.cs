@@ -106,16 +106,17 @@ public sealed class CDialect : TargetDialect
         Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;
 
     /// <summary>
-    /// Whether the bit scan looks the lowest set bit of each input byte up in a 256-entry table (speed) instead of
-    /// stepping through the bits (size): a loop whose trip count depends on the data mispredicts about once per set
-    /// bit (measured on bench/generated-c, docs/benchmarks.md).
+    /// Whether the bit scan reads the packed input a word at a time (64 bits where size_t has 64, else 32) and finds
+    /// each word's lowest set bit by De Bruijn multiplication (<see cref="ScanWord"/>, speed) instead of stepping
+    /// through each byte's bits (size): a loop over bytes mispredicts its exit about once per nonzero byte, and a
+    /// loop over bits about once per set bit (measured on bench/generated-c and on the emulated Cortex-M3,
+    /// docs/benchmarks.md).
     /// </summary>
-    /// With one visible unit there is nothing to scan (and compilers fold the table away).
-    public bool BitScanTable => Plan.Optimize == OptimizeFor.Speed && Plan.Visible > 1;
+    /// With one visible unit there is nothing to scan.
+    public bool WordScan => Plan.Optimize == OptimizeFor.Speed && Plan.Visible > 1;
 
-    /// <summary>The lowest set bit of each byte value 1..255, and 8 (no bit) for the unused entry 0.</summary>
-    public IReadOnlyList<int> LowestSetBit { get; } =
-        Enumerable.Range(0, 256).Select(b => b == 0 ? 8 : System.Numerics.BitOperations.TrailingZeroCount(b)).ToArray();
+    /// <summary>The scan words the C chooses between: 64 bits, then 32.</summary>
+    public IReadOnlyList<ScanWord> ScanWords => ScanWord.For(Plan.Visible);
 
     /// <summary>
     /// Whether the weight rows are stored packed, several offset-binary weights to a 32-bit word, and added with

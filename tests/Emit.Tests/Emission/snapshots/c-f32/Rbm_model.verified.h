@@ -9,7 +9,7 @@
 
 /*
  * Predicted cost on Cortex-M4F, arm-none-eabi-gcc -mcpu=cortex-m4 -mthumb -mfpu=fpv4-sp-d16 -mfloat-abi=hard -Os: flash
- * 1436 bytes (680 code + 756 tables), worst-case stack 336 bytes (including 96 for library calls). Estimates from
+ * 1212 bytes (680 code + 532 tables), worst-case stack 336 bytes (including 96 for library calls). Estimates from
  * emit's footprint model (docs/generated-code.md, "Costs"), checked in emit's tests against arm-none-eabi-size and
  * -fstack-usage.
  * Run-time dependencies: no libm function; a compiler may emit calls to memcpy and memset.
@@ -41,7 +41,7 @@ extern "C" {
 /* Nats: |computed - exact free energy| <= this for every input. */
 #define RBM_ERROR_BOUND 8.909608e-05f
 /* Predicted flash and worst-case stack bytes on the reference core named in the opening comment. */
-#define RBM_FLASH_BYTES 1436
+#define RBM_FLASH_BYTES 1212
 #define RBM_STACK_BYTES 336
 
 /*

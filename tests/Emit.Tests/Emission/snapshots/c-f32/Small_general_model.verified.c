@@ -82,25 +82,79 @@ static const small_general_energy_t small_general_hidden_pairs[] SMALL_GENERAL_T
     0.289481282f, 0.449767977f, 0.0f,
 };
 
-/* The lowest set bit of each byte value (8 for 0, which is never looked up): one load per set bit. */
+/*
+ * The bit scan reads the packed input a word at a time and takes each word's set bits lowest first. A word is
+ * SMALL_GENERAL_SCAN_BITS bits: 64 where size_t has 64 bits, else 32 (define it as 32 or 64 to choose). The lowest set
+ * bit n of a word w: w & (0 - w) is 2^n, and the top bits of 2^n times a De Bruijn constant are different for every
+ * n, so a table turns them into n (Leiserson, Prokop and Randall, "Using de Bruijn Sequences to Index a 1 in a
+ * Computer Word", 1998). gcc and clang compile the lookup to a count-trailing-zeros instruction where there is one.
+ */
+#ifndef SMALL_GENERAL_SCAN_BITS
+#if defined(SIZE_MAX) && (SIZE_MAX > 0xFFFFFFFFu)
+#define SMALL_GENERAL_SCAN_BITS 64
+#else
+#define SMALL_GENERAL_SCAN_BITS 32
+#endif
+#endif
+#if SMALL_GENERAL_SCAN_BITS == 64
+typedef uint64_t small_general_scan_t;
+#define SMALL_GENERAL_SCAN_WORDS 1u /* one word of 1 byte: the input is shorter than a word */
+
+/* Entry k: the n whose 2^n * 0x03F79D71B4CA8B09u has k in its top bits. */
 static const uint8_t small_general_lowest_bit[] SMALL_GENERAL_TABLE_ATTR = {
-    8, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    7, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    6, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    5, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
-    4, 0, 1, 0, 2, 0, 1, 0, 3, 0, 1, 0, 2, 0, 1, 0,
+    0, 1, 56, 2, 57, 49, 28, 3, 61, 58, 42, 50, 38, 29, 17, 4,
+    62, 47, 59, 36, 45, 43, 51, 22, 53, 39, 33, 30, 24, 18, 12, 5,
+    63, 55, 48, 27, 60, 41, 37, 16, 46, 35, 44, 21, 52, 32, 23, 11,
+    54, 26, 40, 15, 34, 20, 31, 10, 25, 14, 19, 9, 13, 8, 7, 6,
 };
+
+/* Word k of the packed input: bytes 8k.. with the first in the low bits, bits past the last unit cleared. */
+static inline small_general_scan_t small_general_scan_word(const uint8_t packed[], uint_fast32_t k)
+{
+    const uint8_t *bytes = &packed[k * 8u];
+    small_general_scan_t word;
+    word = (small_general_scan_t)bytes[0];
+    if (k == (SMALL_GENERAL_SCAN_WORDS - 1u)) {
+        word &= 0xFu;
+    }
+    return word;
+}
+
+/* The lowest set bit of a nonzero word. */
+static inline unsigned int small_general_lowest_bit_of(small_general_scan_t word)
+{
+    return small_general_lowest_bit[((word & (0u - word)) * 0x03F79D71B4CA8B09u) >> 58u];
+}
+#elif SMALL_GENERAL_SCAN_BITS == 32
+typedef uint32_t small_general_scan_t;
+#define SMALL_GENERAL_SCAN_WORDS 1u /* one word of 1 byte: the input is shorter than a word */
+
+/* Entry k: the n whose 2^n * 0x077CB531u has k in its top bits. */
+static const uint8_t small_general_lowest_bit[] SMALL_GENERAL_TABLE_ATTR = {
+    0, 1, 28, 2, 29, 14, 24, 3, 30, 22, 20, 15, 25, 17, 4, 8,
+    31, 27, 13, 23, 21, 19, 16, 7, 26, 12, 18, 6, 11, 5, 10, 9,
+};
+
+/* Word k of the packed input: bytes 4k.. with the first in the low bits, bits past the last unit cleared. */
+static inline small_general_scan_t small_general_scan_word(const uint8_t packed[], uint_fast32_t k)
+{
+    const uint8_t *bytes = &packed[k * 4u];
+    small_general_scan_t word;
+    word = (small_general_scan_t)bytes[0];
+    if (k == (SMALL_GENERAL_SCAN_WORDS - 1u)) {
+        word &= 0xFu;
+    }
+    return word;
+}
+
+/* The lowest set bit of a nonzero word. */
+static inline unsigned int small_general_lowest_bit_of(small_general_scan_t word)
+{
+    return small_general_lowest_bit[((word & (0u - word)) * 0x077CB531u) >> 27u];
+}
+#else
+#error "SMALL_GENERAL_SCAN_BITS must be 32 or 64"
+#endif
 
 /* Inputs, packed as for small_general_free_energy, SMALL_GENERAL_PACKED_BYTES per input. */
 static const uint8_t small_general_selftest_inputs[] SMALL_GENERAL_TABLE_ATTR = {
@@ -156,7 +210,7 @@ _Static_assert(SMALL_GENERAL_COUNT(small_general_link_weight)
 _Static_assert(SMALL_GENERAL_COUNT(small_general_hidden_pairs)
                == (size_t)(SMALL_GENERAL_HIDDEN * SMALL_GENERAL_HIDDEN), "hidden_pairs");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_lowest_bit)
-               == (size_t)(256u), "lowest_bit");
+               == (size_t)(SMALL_GENERAL_SCAN_BITS), "lowest_bit");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_selftest_inputs)
                == (size_t)(SMALL_GENERAL_SELFTEST_VECTORS * SMALL_GENERAL_PACKED_BYTES), "selftest_inputs");
 _Static_assert(SMALL_GENERAL_COUNT(small_general_selftest_expected)
@@ -181,7 +235,7 @@ typedef char small_general_check_link_weight[(SMALL_GENERAL_COUNT(small_general_
 typedef char small_general_check_hidden_pairs[(SMALL_GENERAL_COUNT(small_general_hidden_pairs)
     == (size_t)(SMALL_GENERAL_HIDDEN * SMALL_GENERAL_HIDDEN)) ? 1 : -1];
 typedef char small_general_check_lowest_bit[(SMALL_GENERAL_COUNT(small_general_lowest_bit)
-    == (size_t)(256u)) ? 1 : -1];
+    == (size_t)(SMALL_GENERAL_SCAN_BITS)) ? 1 : -1];
 typedef char small_general_check_selftest_inputs[(SMALL_GENERAL_COUNT(small_general_selftest_inputs)
     == (size_t)(SMALL_GENERAL_SELFTEST_VECTORS * SMALL_GENERAL_PACKED_BYTES)) ? 1 : -1];
 typedef char small_general_check_selftest_expected[(SMALL_GENERAL_COUNT(small_general_selftest_expected)
@@ -303,18 +357,15 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
     const small_general_energy_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
     unsigned int count = 0u;
     uint_fast16_t j;
-    uint_fast16_t byte_index;
+    uint_fast16_t word_index;
     for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
         acc[j] = small_general_hidden_bias[j];
     }
-    for (byte_index = 0u; byte_index < SMALL_GENERAL_PACKED_BYTES_U; ++byte_index) {
-        unsigned int bits = packed[byte_index];
-        if (byte_index == (SMALL_GENERAL_PACKED_BYTES_U - 1u)) {
-            bits &= 0x0Fu;
-        }
+    for (word_index = 0u; word_index < SMALL_GENERAL_SCAN_WORDS; ++word_index) {
+        small_general_scan_t bits = small_general_scan_word(packed, word_index);
         while (bits != 0u) {
             uint_fast16_t i;
-            i = (uint_fast16_t)((byte_index * 8u) + small_general_lowest_bit[bits]);
+            i = (uint_fast16_t)((word_index * (uint_fast32_t)SMALL_GENERAL_SCAN_BITS) + small_general_lowest_bit_of(bits));
             linear += small_general_visible_bias[i];
             {
                 uint_fast16_t n;
