@@ -101,6 +101,16 @@ public sealed class CDialect : TargetDialect
     /// <summary>The last byte's mask as a C literal.</summary>
     public string LastByteMask => "0x" + Plan.LastByteMask.ToString("X2", Inv) + "u";
 
+    /// <summary>
+    /// Units (or packed words) per block of the row additions after the last whole <see cref="VectorBlock"/>: one
+    /// 128-bit vector of 32-bit sums, so the rest of a row is vector code too (at most 3 scalar steps are left; int16
+    /// rows of 784 × 500 had 10 at -O2, measured on bench/generated-c, docs/benchmarks.md).
+    /// </summary>
+    public int TailBlock => VectorBlock > 0 ? SpeedTailBlock : 0;
+
+    /// <summary><see cref="TailBlock"/> when the row additions go in blocks.</summary>
+    public const int SpeedTailBlock = 4;
+
     /// <summary>Hidden units per block of the row additions (0: plain loops).</summary>
     public int VectorBlock =>
         Plan.Optimize == OptimizeFor.Speed && Plan.Hidden >= SpeedVectorBlock ? SpeedVectorBlock : 0;

@@ -490,6 +490,14 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                             + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
                     }
                 }
+                for (; (j + 4u) <= RBM_ROW_WORDS; j += 4u) {
+                    for (u = 0u; u < 4u; ++u) {
+                        lanes[j + u] += r0[j + u] + r1[j + u]
+                            + r2[j + u] + r3[j + u];
+                        lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
+                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
+                    }
+                }
                 for (; j < RBM_ROW_WORDS; ++j) {
                     lanes[j] += r0[j] + r1[j]
                         + r2[j] + r3[j];
@@ -595,6 +603,12 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             const uint32_t *row = waiting[count];
             for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
                 for (u = 0u; u < 16u; ++u) {
+                    lanes[j + u] += row[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (row[j + u] >> 16u);
+                }
+            }
+            for (; (j + 4u) <= RBM_ROW_WORDS; j += 4u) {
+                for (u = 0u; u < 4u; ++u) {
                     lanes[j + u] += row[j + u];
                     lanes[RBM_ROW_WORDS + j + u] += (row[j + u] >> 16u);
                 }
