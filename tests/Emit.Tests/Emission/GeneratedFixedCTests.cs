@@ -49,8 +49,29 @@ public sealed class GeneratedFixedCTests
     public void Wide_int8_rows_padded_and_emptied_every_256_rows_give_the_simulators_integers()
     {
         var model = TestModels.Random(ModelKind.Rbm, 300, 410, seed: 41);
-        CheckBothShapesAgainstSimulator(model, WeightType.Int8, "wide_i8", [0.13, 0.5, 0.9, 0.97], 4,
-            source => Assert.Contains("#define WIDE_I8_ROW_WORDS 104u\n", source));
+        CheckBothShapesAgainstSimulator(model, WeightType.Int8, "wide_i8", [0.13, 0.5, 0.9, 0.97], 4, source =>
+        {
+            Assert.Contains("#define WIDE_I8_ROW_WORDS 104u\n", source);
+            Assert.Contains("The lanes of the last rows go straight into the softplus sum.", source);
+        });
+    }
+
+    /// <summary>
+    /// int8 lane sums fed straight into the softplus loop (more than 32 hidden units): with at most 256 visible units
+    /// the lanes never fill, so the scorer has no function that empties them; 50 hidden units make 13 words a row
+    /// whose fourth lane is a unit in the first 11 only. Both row-addition shapes give the simulator's integers (the
+    /// wide int8 test covers lanes emptied every 256 rows before the last ones go into softplus).
+    /// </summary>
+    [SkippableFact]
+    public void Int8_lanes_into_softplus_give_the_simulators_integers()
+    {
+        var model = TestModels.Random(ModelKind.Rbm, 40, 50, seed: 59);
+        CheckBothShapesAgainstSimulator(model, WeightType.Int8, "lanes_i8", [0.13, 0.5, 0.9], 6, source =>
+        {
+            Assert.Contains("The lanes of the last rows go straight into the softplus sum.", source);
+            Assert.Contains("for (j = 0u; j < 11u; ++j) {", source);
+            Assert.DoesNotContain("_empty_lanes(", source);
+        });
     }
 
     /// <summary>

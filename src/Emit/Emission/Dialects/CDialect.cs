@@ -242,6 +242,28 @@ public sealed class CDialect : TargetDialect
     public static bool FusesSoftplus(Quantize.WeightType weights, bool general) =>
         weights == Quantize.WeightType.Int16 && !general;
 
+    /// <summary>
+    /// Whether int8 lane sums go straight into the softplus sum after the last row, instead of through a last emptying
+    /// into the accumulators and a loop over those: packed int8 rows of a model without hidden-hidden links whose
+    /// softplus sum is a loop (<see cref="UnrolledSoftplus"/> false). The accumulators still hold the biases and the
+    /// lanes emptied before (every 256 rows). x86 -O2, 784 × 500: int8 101× → 106× the dense loop
+    /// (bench/generated-c, docs/benchmarks.md).
+    /// </summary>
+    public bool LanesIntoSoftplus =>
+        PackedRows && PackedLanes == 4 && !Plan.IsGeneral && !UnrolledSoftplus && FourLaneWords > 0;
+
+    /// <summary>
+    /// Words of an int8 packed row whose fourth lane is a unit: H − 3 · ROW_WORDS (ROW_WORDS ≤ H/4 + 4 and H ≥ 33
+    /// where <see cref="LanesIntoSoftplus"/> applies, so the first three lanes of every word are units).
+    /// </summary>
+    public int FourLaneWords => Plan.Hidden - 3 * PackedWords;
+
+    /// <summary>
+    /// Whether the C has the function that empties int8 lanes into the accumulators: the lanes can fill before the
+    /// last row, or they are not fed straight into softplus.
+    /// </summary>
+    public bool EmptiesLanes => PackedRows && PackedLanes == 4 && (LanesCanFill || !LanesIntoSoftplus);
+
     /// <summary>Words of a packed row whose every lane is a unit: ⌊H / lanes⌋.</summary>
     public int FullWords => Plan.Hidden / PackedLanes;
 
