@@ -55,8 +55,8 @@ typedef uint32_t rbm_uacc_t;
 /*
  * Row additions: on Thumb-2 M-profile cores (__ARM_ARCH_PROFILE 'M', __ARM_ARCH_ISA_THUMB 2: Cortex-M3, M4, M7, M33)
  * 8 rows per pass through the words, a pointer per row and a word's two lane sums held in registers; elsewhere
- * 4 rows per pass in blocks of 16 words, which compilers vectorize. Both add the same words in 32-bit unsigned
- * arithmetic, so the results are the same integers; define RBM_ROW_POINTERS as 0 or 1 to choose.
+ * 8 rows per pass in blocks of 16 words, which compilers vectorize. Both add the same words in 32-bit
+ * unsigned arithmetic, so the results are the same integers; define RBM_ROW_POINTERS as 0 or 1 to choose.
  */
 #ifndef RBM_ROW_POINTERS
 #if defined(__ARM_ARCH_PROFILE) && defined(__ARM_ARCH_ISA_THUMB)
@@ -69,12 +69,11 @@ typedef uint32_t rbm_uacc_t;
 #define RBM_ROW_POINTERS 0
 #endif
 /* The two lane sums of word k: side by side for the pointer passes, in two halves for vectorized blocks. */
-#if RBM_ROW_POINTERS
 #define RBM_ROWS_PER_PASS 8u
+#if RBM_ROW_POINTERS
 #define RBM_FIRST(k) (2u * (k))
 #define RBM_SECOND(k) ((2u * (k)) + 1u)
 #else
-#define RBM_ROWS_PER_PASS 4u
 #define RBM_FIRST(k) (k)
 #define RBM_SECOND(k) (RBM_ROW_WORDS + (k))
 #endif
@@ -401,7 +400,7 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
     const uint32_t *waiting[RBM_ROWS_PER_PASS]; /* rows not yet added; each set before it is read */
 #else
     /* rows not yet added, each set before it is read (the initialiser is for static analysers) */
-    const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL };
+    const uint32_t *waiting[RBM_ROWS_PER_PASS] = { NULL, NULL, NULL, NULL, NULL, NULL, NULL, NULL };
 #endif
     const uint32_t **slot = waiting; /* the next entry of waiting to set (cheaper than an index) */
     unsigned int count = 0u; /* entries of waiting set */
@@ -482,27 +481,43 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                 const uint32_t *r1 = waiting[1];
                 const uint32_t *r2 = waiting[2];
                 const uint32_t *r3 = waiting[3];
+                const uint32_t *r4 = waiting[4];
+                const uint32_t *r5 = waiting[5];
+                const uint32_t *r6 = waiting[6];
+                const uint32_t *r7 = waiting[7];
                 for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
                     for (u = 0u; u < 16u; ++u) {
                         lanes[j + u] += r0[j + u] + r1[j + u]
-                            + r2[j + u] + r3[j + u];
+                            + r2[j + u] + r3[j + u]
+                            + r4[j + u] + r5[j + u]
+                            + r6[j + u] + r7[j + u];
                         lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
-                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
+                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u)
+                            + (r4[j + u] >> 16u) + (r5[j + u] >> 16u)
+                            + (r6[j + u] >> 16u) + (r7[j + u] >> 16u);
                     }
                 }
                 for (; (j + 4u) <= RBM_ROW_WORDS; j += 4u) {
                     for (u = 0u; u < 4u; ++u) {
                         lanes[j + u] += r0[j + u] + r1[j + u]
-                            + r2[j + u] + r3[j + u];
+                            + r2[j + u] + r3[j + u]
+                            + r4[j + u] + r5[j + u]
+                            + r6[j + u] + r7[j + u];
                         lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
-                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
+                            + (r2[j + u] >> 16u) + (r3[j + u] >> 16u)
+                            + (r4[j + u] >> 16u) + (r5[j + u] >> 16u)
+                            + (r6[j + u] >> 16u) + (r7[j + u] >> 16u);
                     }
                 }
                 for (; j < RBM_ROW_WORDS; ++j) {
                     lanes[j] += r0[j] + r1[j]
-                        + r2[j] + r3[j];
+                        + r2[j] + r3[j]
+                        + r4[j] + r5[j]
+                        + r6[j] + r7[j];
                     lanes[RBM_ROW_WORDS + j] += (r0[j] >> 16u) + (r1[j] >> 16u)
-                        + (r2[j] >> 16u) + (r3[j] >> 16u);
+                        + (r2[j] >> 16u) + (r3[j] >> 16u)
+                        + (r4[j] >> 16u) + (r5[j] >> 16u)
+                        + (r6[j] >> 16u) + (r7[j] >> 16u);
                 }
 #endif
                 rows += RBM_ROWS_PER_PASS;
@@ -513,9 +528,9 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
         }
     }
     rows += count;
-#if RBM_ROW_POINTERS
     if (count >= 4u) { /* 4 of the last rows in one pass */
         count -= 4u;
+#if RBM_ROW_POINTERS
         {
             uint32_t *lane = lanes;
             const uint32_t *r0 = waiting[count];
@@ -549,9 +564,40 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                 --k;
             } while (k != 0u);
         }
+#else
+        {
+            const uint32_t *r0 = waiting[count];
+            const uint32_t *r1 = waiting[count + 1u];
+            const uint32_t *r2 = waiting[count + 2u];
+            const uint32_t *r3 = waiting[count + 3u];
+            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
+                for (u = 0u; u < 16u; ++u) {
+                    lanes[j + u] += r0[j + u] + r1[j + u]
+                        + r2[j + u] + r3[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
+                        + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
+                }
+            }
+            for (; (j + 4u) <= RBM_ROW_WORDS; j += 4u) {
+                for (u = 0u; u < 4u; ++u) {
+                    lanes[j + u] += r0[j + u] + r1[j + u]
+                        + r2[j + u] + r3[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
+                        + (r2[j + u] >> 16u) + (r3[j + u] >> 16u);
+                }
+            }
+            for (; j < RBM_ROW_WORDS; ++j) {
+                lanes[j] += r0[j] + r1[j]
+                    + r2[j] + r3[j];
+                lanes[RBM_ROW_WORDS + j] += (r0[j] >> 16u) + (r1[j] >> 16u)
+                    + (r2[j] >> 16u) + (r3[j] >> 16u);
+            }
+        }
+#endif
     }
     if (count >= 2u) { /* 2 of the last rows in one pass */
         count -= 2u;
+#if RBM_ROW_POINTERS
         {
             uint32_t *lane = lanes;
             const uint32_t *r0 = waiting[count];
@@ -575,8 +621,29 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                 --k;
             } while (k != 0u);
         }
-    }
+#else
+        {
+            const uint32_t *r0 = waiting[count];
+            const uint32_t *r1 = waiting[count + 1u];
+            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
+                for (u = 0u; u < 16u; ++u) {
+                    lanes[j + u] += r0[j + u] + r1[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u);
+                }
+            }
+            for (; (j + 4u) <= RBM_ROW_WORDS; j += 4u) {
+                for (u = 0u; u < 4u; ++u) {
+                    lanes[j + u] += r0[j + u] + r1[j + u];
+                    lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u);
+                }
+            }
+            for (; j < RBM_ROW_WORDS; ++j) {
+                lanes[j] += r0[j] + r1[j];
+                lanes[RBM_ROW_WORDS + j] += (r0[j] >> 16u) + (r1[j] >> 16u);
+            }
+        }
 #endif
+    }
     while (count != 0u) { /* the last rows, one at a time */
         --count;
 #if RBM_ROW_POINTERS
