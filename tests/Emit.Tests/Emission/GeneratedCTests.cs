@@ -95,6 +95,48 @@ public sealed class GeneratedCTests
     }
 
     /// <summary>
+    /// Float row additions: speed mode's pass of eight rows adds two groups of four in turn, acc = (acc + ((r0 + r1) +
+    /// (r2 + r3))) + ((r4 + r5) + (r6 + r7)), which rounds exactly as two passes of four (acc += (r0 + r1) + (r2 + r3),
+    /// then the same for r4..r7, as size mode and earlier versions add): the generated C and a copy whose pass is
+    /// rewritten as those two statements return the same bits, on inputs with every count of set bits up to 40.
+    /// </summary>
+    [SkippableTheory]
+    [InlineData(NumericMode.F32)]
+    [InlineData(NumericMode.F64)]
+    public void A_pass_of_eight_float_rows_rounds_as_two_passes_of_four(NumericMode mode)
+    {
+        var model = TestModels.Random(ModelKind.Rbm, 40, 24, seed: 61);
+        var rng = new Random(61);
+        var vectors = new List<byte[]> { new byte[40] };
+        for (int on = 1; on <= 40; on++)
+        {
+            var v = new byte[40];
+            foreach (int i in Enumerable.Range(0, 40).OrderBy(_ => rng.Next()).Take(on)) v[i] = 1;
+            vectors.Add(v);
+        }
+        string name = $"passes_{mode.ToString().ToLowerInvariant()}";
+        const string pass = "acc[j] = (acc[j] + ((r0[j] + r1[j]) + (r2[j] + r3[j]))) + ((r4[j] + r5[j]) + (r6[j] + r7[j]));";
+        const string twoPasses = "acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]); acc[j] += (r4[j] + r5[j]) + (r6[j] + r7[j]);";
+        var results = new List<CHarness.Result>();
+        foreach (bool rewritten in new[] { false, true })
+        {
+            var dir = Toolchain.TempDir($"cpasses-{mode}-{rewritten}");
+            foreach (var f in ScorerCompiler.Build(model, name + ".json", new CompileOptions(["c"], mode, name)).AllFiles)
+                File.WriteAllText(Path.Combine(dir, f.FileName), f.Text);
+            var path = Path.Combine(dir, name + ".c");
+            var source = File.ReadAllText(path);
+            Assert.Contains(pass, source);
+            if (rewritten) File.WriteAllText(path, source.Replace(pass, twoPasses, StringComparison.Ordinal));
+            var result = CHarness.Run(CHarness.Build(dir, name, false), vectors);
+            Assert.Equal(0, result.SelfTestFailures);
+            results.Add(result);
+        }
+        for (int k = 0; k < vectors.Count; k++)
+            Assert.True(results[0].Rows[k].Energy.Equals(results[1].Rows[k].Energy),
+                $"vector {k}: one pass {results[0].Rows[k].Energy:R}, two {results[1].Rows[k].Energy:R}");
+    }
+
+    /// <summary>
     /// Worked example (common practice; derived by hand, see ReferenceScorerTests): 2 visible, 2 hidden, W(v1,h1) = 2,
     /// W(v2,h2) = 1, M(h1,h2) = −1, no biases. With a = W·v the hidden states 00, 10, 01, 11 score 0, a1, a2, a1 + a2 − 1:
     /// F(0,0) = −log(3 + e⁻¹), F(1,1) = −log(1 + e + 2e²), F(1,0) = −log(2 + e + e²).

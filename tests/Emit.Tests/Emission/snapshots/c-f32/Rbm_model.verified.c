@@ -274,17 +274,19 @@ static float rbm_softplus(float x)
 
 /*
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - sum_j softplus(a_j), a = c + sum_{i on} W_i.
- * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first, the
- * search for the next one going on from the last) the unit's bias joins the linear sum and its weight row is added
- * to the pre-activations, four rows at a time (acc += (r0 + r1) + (r2 + r3): a quarter of the loads and stores of the
- * accumulators), the last one to three rows one at a time.
+ * Inputs are binary, so there are no multiplications: for each set bit (lowest first) the unit's bias joins the
+ * linear sum and its weight row is added to the pre-activations, four rows at a time (acc += (r0 + r1) + (r2 + r3):
+ * a quarter of the loads and stores of the accumulators; two such groups in one pass over the accumulators,
+ * acc = (acc + ((r0 + r1) + (r2 + r3))) + ((r4 + r5) + (r6 + r7)), the same roundings in the same order), the
+ * last one to three rows one at a time.
  * Accuracy: see rbm.h.
  */
 rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
 {
     rbm_energy_t linear = 0.0f;
     rbm_energy_t acc[RBM_HIDDEN];
-    const rbm_energy_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
+    /* rows not yet added: eight at a time */
+    const rbm_energy_t *waiting[8] = { NULL, NULL, NULL, NULL, NULL, NULL, NULL, NULL };
     unsigned int count = 0u;
     rbm_energy_t energy;
     rbm_energy_t part[16]; /* softplus terms summed in 16 partial sums, which compilers vectorize */
@@ -302,25 +304,42 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             linear += rbm_visible_bias[i];
             waiting[count] = &rbm_weights[i * 18u];
             ++count;
-            if (count == 4u) {
+            if (count == 8u) {
                 const rbm_energy_t *r0 = waiting[0];
                 const rbm_energy_t *r1 = waiting[1];
                 const rbm_energy_t *r2 = waiting[2];
                 const rbm_energy_t *r3 = waiting[3];
+                const rbm_energy_t *r4 = waiting[4];
+                const rbm_energy_t *r5 = waiting[5];
+                const rbm_energy_t *r6 = waiting[6];
+                const rbm_energy_t *r7 = waiting[7];
                 for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-                    acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+                    acc[j] = (acc[j] + ((r0[j] + r1[j]) + (r2[j] + r3[j]))) + ((r4[j] + r5[j]) + (r6[j] + r7[j]));
                 }
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    while (count != 0u) { /* the last one to three rows, one at a time (from the last) */
-        const rbm_energy_t *row;
-        --count;
-        row = waiting[count];
-        for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
-            acc[j] += row[j];
+    {
+        unsigned int first = 0u; /* the first waiting row not yet added */
+        if (count >= 4u) { /* four of the last rows in one pass, as in the passes above */
+            const rbm_energy_t *r0 = waiting[0];
+            const rbm_energy_t *r1 = waiting[1];
+            const rbm_energy_t *r2 = waiting[2];
+            const rbm_energy_t *r3 = waiting[3];
+            for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
+                acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+            }
+            first = 4u;
+        }
+        while (count != first) { /* the last one to three rows, one at a time (from the last) */
+            const rbm_energy_t *row;
+            --count;
+            row = waiting[count];
+            for (j = 0u; j < (uint_fast16_t)RBM_HIDDEN; ++j) {
+                acc[j] += row[j];
+            }
         }
     }
     energy = -linear;

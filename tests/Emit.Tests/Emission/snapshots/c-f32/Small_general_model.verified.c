@@ -344,17 +344,19 @@ static small_general_energy_t small_general_hidden_log_sum_exp(const small_gener
 
 /*
  * F(v) = -b.v - sum_{i<j} L_ij v_i v_j - log sum_h exp(a.h + sum_{k<l} M_kl h_k h_l), a = c + sum_{i on} W_i.
- * Inputs are binary, so there are no multiplications: for each set bit (bytes in order, lowest set bit first, the
- * search for the next one going on from the last) the unit's bias joins the linear sum and its weight row is added
- * to the pre-activations, four rows at a time (acc += (r0 + r1) + (r2 + r3): a quarter of the loads and stores of the
- * accumulators), the last one to three rows one at a time.
+ * Inputs are binary, so there are no multiplications: for each set bit (lowest first) the unit's bias joins the
+ * linear sum and its weight row is added to the pre-activations, four rows at a time (acc += (r0 + r1) + (r2 + r3):
+ * a quarter of the loads and stores of the accumulators; two such groups in one pass over the accumulators,
+ * acc = (acc + ((r0 + r1) + (r2 + r3))) + ((r4 + r5) + (r6 + r7)), the same roundings in the same order), the
+ * last one to three rows one at a time.
  * Accuracy: see small_general.h.
  */
 small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENERAL_PACKED_BYTES])
 {
     small_general_energy_t linear = 0.0f;
     small_general_energy_t acc[SMALL_GENERAL_HIDDEN];
-    const small_general_energy_t *waiting[4] = { NULL, NULL, NULL, NULL }; /* rows not yet added: four at a time */
+    /* rows not yet added: eight at a time */
+    const small_general_energy_t *waiting[8] = { NULL, NULL, NULL, NULL, NULL, NULL, NULL, NULL };
     unsigned int count = 0u;
     uint_fast16_t j;
     uint_fast16_t word_index;
@@ -378,25 +380,42 @@ small_general_energy_t small_general_free_energy(const uint8_t packed[SMALL_GENE
             }
             waiting[count] = &small_general_weights[i * 3u];
             ++count;
-            if (count == 4u) {
+            if (count == 8u) {
                 const small_general_energy_t *r0 = waiting[0];
                 const small_general_energy_t *r1 = waiting[1];
                 const small_general_energy_t *r2 = waiting[2];
                 const small_general_energy_t *r3 = waiting[3];
+                const small_general_energy_t *r4 = waiting[4];
+                const small_general_energy_t *r5 = waiting[5];
+                const small_general_energy_t *r6 = waiting[6];
+                const small_general_energy_t *r7 = waiting[7];
                 for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
-                    acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+                    acc[j] = (acc[j] + ((r0[j] + r1[j]) + (r2[j] + r3[j]))) + ((r4[j] + r5[j]) + (r6[j] + r7[j]));
                 }
                 count = 0u;
             }
             bits &= bits - 1u;
         }
     }
-    while (count != 0u) { /* the last one to three rows, one at a time (from the last) */
-        const small_general_energy_t *row;
-        --count;
-        row = waiting[count];
-        for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
-            acc[j] += row[j];
+    {
+        unsigned int first = 0u; /* the first waiting row not yet added */
+        if (count >= 4u) { /* four of the last rows in one pass, as in the passes above */
+            const small_general_energy_t *r0 = waiting[0];
+            const small_general_energy_t *r1 = waiting[1];
+            const small_general_energy_t *r2 = waiting[2];
+            const small_general_energy_t *r3 = waiting[3];
+            for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+                acc[j] += (r0[j] + r1[j]) + (r2[j] + r3[j]);
+            }
+            first = 4u;
+        }
+        while (count != first) { /* the last one to three rows, one at a time (from the last) */
+            const small_general_energy_t *row;
+            --count;
+            row = waiting[count];
+            for (j = 0u; j < (uint_fast16_t)SMALL_GENERAL_HIDDEN; ++j) {
+                acc[j] += row[j];
+            }
         }
     }
     return -(linear + small_general_hidden_log_sum_exp(acc));
