@@ -386,7 +386,13 @@ static inline rbm_acc_t rbm_g(rbm_acc_t mag, int d)
 static inline rbm_acc_t rbm_softplus(rbm_acc_t a, int f)
 {
     const rbm_acc_t mag = (a >= 0) ? a : -a;
-    const rbm_acc_t positive = (a > 0) ? rbm_to_energy(a, f - 24) : 0;
+    /*
+     * max(a, 0) = (a + |a|) / 2 without a branch, in unsigned arithmetic: a + |a| < 2 * 2^(N-1) for N bits, and 0
+     * (modulo 2^N) when a <= 0; to_energy(0, s) = 0
+     */
+    const rbm_uacc_t twice = (rbm_uacc_t)a + (rbm_uacc_t)mag;
+    const rbm_uacc_t clamped = twice >> 1u;
+    const rbm_acc_t positive = rbm_to_energy((rbm_acc_t)clamped, f - 24);
     return positive + rbm_g(mag, f - 5);
 }
 

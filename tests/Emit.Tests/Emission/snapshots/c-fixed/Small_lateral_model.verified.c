@@ -373,7 +373,13 @@ static inline plant_acc_t plant_g(plant_acc_t mag, int d)
 static inline plant_acc_t plant_softplus(plant_acc_t a, int f)
 {
     const plant_acc_t mag = (a >= 0) ? a : -a;
-    const plant_acc_t positive = (a > 0) ? plant_to_energy(a, f - 24) : 0;
+    /*
+     * max(a, 0) = (a + |a|) / 2 without a branch, in unsigned arithmetic: a + |a| < 2 * 2^(N-1) for N bits, and 0
+     * (modulo 2^N) when a <= 0; to_energy(0, s) = 0
+     */
+    const plant_uacc_t twice = (plant_uacc_t)a + (plant_uacc_t)mag;
+    const plant_uacc_t clamped = twice >> 1u;
+    const plant_acc_t positive = plant_to_energy((plant_acc_t)clamped, f - 24);
     return positive + plant_g(mag, f - 6);
 }
 
