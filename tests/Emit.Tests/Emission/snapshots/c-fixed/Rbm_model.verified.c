@@ -55,7 +55,7 @@ typedef uint32_t rbm_uacc_t;
 /*
  * Row additions: on Thumb-2 M-profile cores (__ARM_ARCH_PROFILE 'M', __ARM_ARCH_ISA_THUMB 2: Cortex-M3, M4, M7, M33)
  * 8 rows per pass through the words, a pointer per row and a word's two lane sums held in registers; elsewhere
- * 8 rows per pass in blocks of 16 words, which compilers vectorize. Both add the same words in 32-bit
+ * 8 rows per pass in blocks of 64 words, which compilers vectorize. Both add the same words in 32-bit
  * unsigned arithmetic, so the results are the same integers; define RBM_ROW_POINTERS as 0 or 1 to choose.
  */
 #ifndef RBM_ROW_POINTERS
@@ -491,8 +491,8 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
                 const uint32_t *r5 = waiting[5];
                 const uint32_t *r6 = waiting[6];
                 const uint32_t *r7 = waiting[7];
-                for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
-                    for (u = 0u; u < 16u; ++u) {
+                for (j = 0u; (j + 64u) <= RBM_ROW_WORDS; j += 64u) {
+                    for (u = 0u; u < 64u; ++u) {
                         lanes[j + u] += r0[j + u] + r1[j + u]
                             + r2[j + u] + r3[j + u]
                             + r4[j + u] + r5[j + u]
@@ -576,8 +576,8 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
             const uint32_t *r1 = waiting[count + 1u];
             const uint32_t *r2 = waiting[count + 2u];
             const uint32_t *r3 = waiting[count + 3u];
-            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
-                for (u = 0u; u < 16u; ++u) {
+            for (j = 0u; (j + 64u) <= RBM_ROW_WORDS; j += 64u) {
+                for (u = 0u; u < 64u; ++u) {
                     lanes[j + u] += r0[j + u] + r1[j + u]
                         + r2[j + u] + r3[j + u];
                     lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u)
@@ -631,8 +631,8 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
         {
             const uint32_t *r0 = waiting[count];
             const uint32_t *r1 = waiting[count + 1u];
-            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
-                for (u = 0u; u < 16u; ++u) {
+            for (j = 0u; (j + 64u) <= RBM_ROW_WORDS; j += 64u) {
+                for (u = 0u; u < 64u; ++u) {
                     lanes[j + u] += r0[j + u] + r1[j + u];
                     lanes[RBM_ROW_WORDS + j + u] += (r0[j + u] >> 16u) + (r1[j + u] >> 16u);
                 }
@@ -674,8 +674,8 @@ rbm_energy_t rbm_free_energy(const uint8_t packed[RBM_PACKED_BYTES])
 #else
         {
             const uint32_t *row = waiting[count];
-            for (j = 0u; (j + 16u) <= RBM_ROW_WORDS; j += 16u) {
-                for (u = 0u; u < 16u; ++u) {
+            for (j = 0u; (j + 64u) <= RBM_ROW_WORDS; j += 64u) {
+                for (u = 0u; u < 64u; ++u) {
                     lanes[j + u] += row[j + u];
                     lanes[RBM_ROW_WORDS + j + u] += (row[j + u] >> 16u);
                 }
