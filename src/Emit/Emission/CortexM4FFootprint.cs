@@ -58,7 +58,8 @@ public static class CortexM4FFootprint
         int partial = !plan.IsGeneral && plan.Optimize == OptimizeFor.Speed && h >= 16 ? 16 * e : 0;
         int frame = (h == 0 ? 0 : h * e) + (plan.IsGeneral ? 2 * (h + 1) * e + 2 * plan.GrayBlockBits * e + 16 : 0)
                     + partial + (h == 0 && !f64 ? FrameNoHiddenF32 : f64 ? FrameF64 : FrameF32)
-                    + (h > 0 && f64 ? RowGroupFrameF64 : 0) + (eightRows ? (f64 ? EightRowFrameF64 : EightRowFrameF32) : 0);
+                    + (h > 0 && f64 ? RowGroupFrameF64 : 0)
+                    + (eightRows ? (f64 ? EightRowFrameF64 : EightRowFrameF32) : 0);
         int caller = (packed + 7) / 8 * 8 + 16;
         return new Footprint(tables + code, tables, code, frame + caller + LibraryStackAllowance,
             LibraryStackAllowance);
@@ -74,9 +75,9 @@ public static class CortexM4FFootprint
     // the f64 frame: up to 24 bytes over the figures above on the test models, rounded up.
     private const int RowGroupFrameF64 = 32;
 
-    // Eight waiting rows a pass with --optimize speed (two groups of four in one pass, then a pass of four over the last
-    // rows): more code, and more values in the frame, as measured on the demo model and the test models (reefer f32:
-    // code 840 bytes, own stack 240; f64: 876 and 504), rounded up.
+    // Eight waiting rows a pass with --optimize speed (two groups of four in one pass, then a pass of four over the
+    // last rows): more code, and more values in the frame, as measured on the demo model and the test models (reefer
+    // f32: code 840 bytes, own stack 240; f64: 876 and 504), rounded up.
     private const int EightRowCodeF32 = 170, EightRowCodeF64 = 260, EightRowFrameF32 = 16, EightRowFrameF64 = 80;
 
     private static long Table(long count, int size)

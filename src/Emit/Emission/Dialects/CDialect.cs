@@ -114,8 +114,9 @@ public sealed class CDialect : TargetDialect
     /// <summary>
     /// Rows per pass of the float row additions: 8 with <c>--optimize speed</c>, as two groups of four added in turn,
     /// acc = (acc + ((r0 + r1) + (r2 + r3))) + ((r4 + r5) + (r6 + r7)), which rounds exactly as two passes of four
-    /// (the order the error bound and the C# scorer follow) with half the loads and stores of the accumulators: x86 -O2, 784 × 500 f32, 58× → 62× the dense loop, and no slower at -O3 -march=native, where eight
-    /// rows summed as one tree were 8 % slower (bench/generated-c, docs/benchmarks.md). 4 with <c>size</c>.
+    /// (the order the error bound and the C# scorer follow) with half the loads and stores of the accumulators: x86
+    /// -O2, 784 × 500 f32, 58× → 62× the dense loop, and no slower at -O3 -march=native, where eight rows summed as
+    /// one tree were 8 % slower (bench/generated-c, docs/benchmarks.md). 4 with <c>size</c>.
     /// </summary>
     public int FloatPass => Plan.Optimize == OptimizeFor.Speed ? 8 : 4;
 
