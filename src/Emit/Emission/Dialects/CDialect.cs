@@ -172,21 +172,21 @@ public sealed class CDialect : TargetDialect
         && plan.WeightType is Quantize.WeightType.Int16 or Quantize.WeightType.Int8 && plan.Model.Visible <= 32768;
 
     /// <summary>
-    /// Rows per pass of the packed-row additions on Thumb-2 M-profile cores, where each row has a pointer advanced
-    /// word by word and a word's two lane sums stay in registers while all rows are added: 8 (three instructions per
-    /// row and word for int16, four for int8, plus a load and a store of each lane sum per pass; measured on
-    /// bench/cortex-m3, docs/benchmarks.md); 0 without packed rows. Other targets add as many rows per pass in
-    /// vectorizable blocks (x86 -O2, 784 × 500 int16: 82× → 86× the dense loop against 4 rows per pass, with half the
-    /// loads and stores of lane sums; bench/generated-c).
+    /// Rows per pass of the packed-row additions, in both shapes: 8. On Thumb-2 M-profile cores each row has a pointer
+    /// advanced word by word and a word's two lane sums stay in registers while all rows are added (three
+    /// instructions per row and word for int16, four for int8, plus a load and a store of each lane sum per pass;
+    /// bench/cortex-m3, docs/benchmarks.md); elsewhere the rows are added in vectorizable blocks (x86 -O2, 784 × 500
+    /// int16: 82× → 86× the dense loop against 4 rows per pass, with half the loads and stores of lane sums;
+    /// bench/generated-c). 0 without packed rows.
     /// </summary>
-    public int RowPointerPass => PackedRows ? 8 : 0;
+    public int RowsPerPass => PackedRows ? 8 : 0;
 
     /// <summary>The initialiser of the waiting rows where they have one: a NULL per row of a pass.</summary>
-    public string WaitingNulls => string.Join(", ", Enumerable.Repeat("NULL", RowPointerPass));
+    public string WaitingNulls => string.Join(", ", Enumerable.Repeat("NULL", RowsPerPass));
 
-    /// <summary>The waiting rows of a full pointer pass: waiting[0] .. waiting[7].</summary>
-    public IReadOnlyList<string> PointerPassBlock =>
-        Enumerable.Range(0, RowPointerPass).Select(k => $"waiting[{k}]").ToArray();
+    /// <summary>The waiting rows of a full pass: waiting[0] .. waiting[7].</summary>
+    public IReadOnlyList<string> FullPass =>
+        Enumerable.Range(0, RowsPerPass).Select(k => $"waiting[{k}]").ToArray();
 
     /// <summary>
     /// Hidden units up to which a speed-optimized fixed-point scorer of an RBM evaluates softplus unit by unit, each
@@ -232,15 +232,15 @@ public sealed class CDialect : TargetDialect
     public string HelperStorage => Plan.Optimize == OptimizeFor.Speed ? "static inline" : "static";
 
     /// <summary>
-    /// The smaller passes over the last rows (fewer than <see cref="RowPointerPass"/>), halving: the waiting rows of
+    /// The smaller passes over the last rows (fewer than <see cref="RowsPerPass"/>), halving: the waiting rows of
     /// each from waiting[count] after count is lowered by its size; a single last row has a pass of its own.
     /// </summary>
-    public IReadOnlyList<IReadOnlyList<string>> PointerPassRests
+    public IReadOnlyList<IReadOnlyList<string>> RestPasses
     {
         get
         {
             var rests = new List<IReadOnlyList<string>>();
-            for (int n = RowPointerPass / 2; n >= 2; n /= 2)
+            for (int n = RowsPerPass / 2; n >= 2; n /= 2)
                 rests.Add(Enumerable.Range(0, n).Select(k => k == 0 ? "waiting[count]" : $"waiting[count + {k}u]")
                     .ToArray());
             return rests;
