@@ -42,6 +42,11 @@ public sealed record ScanWord
     private static string Count(int n, string noun) => n == 1 ? $"1 {noun}" : $"{n} {noun}s";
 
     /// <summary>The words for 64-bit targets and for 32-bit ones, with <paramref name="visible"/> inputs.</summary>
+    /// <remarks>
+    /// The 32-bit constant is the one in Leiserson, Prokop and Randall's paper; the 64-bit one is written from memory
+    /// (a De Bruijn sequence in common use). ScanWordTests checks that each gives every bit position a table entry of
+    /// its own and agrees with BitOperations.TrailingZeroCount.
+    /// </remarks>
     public static IReadOnlyList<ScanWord> For(int visible) =>
         [new ScanWord(64, 0x03F79D71B4CA8B09UL, visible), new ScanWord(32, 0x077CB531UL, visible)];
 

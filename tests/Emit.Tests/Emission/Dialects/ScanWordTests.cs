@@ -30,7 +30,8 @@ public sealed class ScanWordTests
     }
 
     [Theory]
-    // visible, 64-bit: whole words, tail bytes, mask; 32-bit: whole words, tail bytes, mask
+    // visible, 64-bit: whole words, tail bytes, mask; 32-bit: whole words, tail bytes, mask (worked out by hand:
+    // ⌈V/8⌉ bytes split into 8- or 4-byte words, and the low V − 64·(words − 1) (or 32·…) bits of the last one)
     [InlineData(2, 0, 1, "0x3u", 0, 1, "0x3u")]
     [InlineData(32, 0, 4, null, 1, 0, null)]
     [InlineData(56, 0, 7, null, 1, 3, null)]
